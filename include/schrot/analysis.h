@@ -1,0 +1,120 @@
+/* SPDX-License-Identifier: BSD-3-Clause */
+/*
+ * analysis.h - the one analysis entry point: deck -> carriers -> augment -> simulator -> spectra,
+ * handing back one result structure that every command and every output reads.
+ */
+#ifndef SCH_ANALYSIS_H
+#define SCH_ANALYSIS_H
+
+#include <stdbool.h>
+#include <stddef.h>
+#include "schrot/arena.h"
+#include "schrot/carriers.h"
+#include "schrot/deck.h"
+#include "schrot/diag.h"
+
+enum sch_mechanism { SCH_MECH_SHOT, SCH_MECH_THERMAL, SCH_MECH_FLICKER, SCH_MECH_OTHER };
+enum sch_origin { SCH_ORIGIN_ADDED, SCH_ORIGIN_SIMULATOR, SCH_ORIGIN_CORRECTION };
+
+/* Lower-case names used in tables and JSON: "shot", "thermal", "flicker", "other". */
+const char *sch_mechanism_name(enum sch_mechanism m);
+/* "added", "simulator", "correction". */
+const char *sch_origin_name(enum sch_origin o);
+
+/* One noise generator's share of the output. */
+struct sch_contribution {
+	const char *device;      /* hierarchical netlist name: "x1.iph", "x1.d1", "rf" */
+	const char *generator;   /* "shot" for added generators; the simulator's suffix otherwise ("id", "thermal", "1overf", "ic") */
+	enum sch_mechanism mechanism;
+	enum sch_origin origin;
+	double dc_current_a;     /* NaN when the generator is not sized by a current */
+	double *psd;             /* output power density at each frequency, V^2/Hz; negative for a correction that removes noise */
+	double band_power;       /* integral of psd over the band, V^2 (negative for such a correction) */
+	double output_rms_v;     /* sqrt(|band_power|) */
+	double share;            /* band_power / total band power; shares sum to 1 */
+	double *spot_density;    /* at each spot frequency: sqrt(|psd|), V/√Hz */
+};
+
+struct sch_spot {
+	double freq_hz;
+	double output_v_per_rthz;
+	double input_per_rthz;   /* input-referred, in the input source's unit per √Hz */
+	double nep_w_per_rthz;   /* NaN without a responsivity or for a voltage input */
+};
+
+/* A parsed --freq F1:F2[:PPD]. */
+struct sch_freq_spec {
+	double f_start;
+	double f_stop;
+	int points_per_decade;
+};
+
+enum sch_run_mode {
+	SCH_RUN_REPORT,   /* operating point and noise (report) */
+	SCH_RUN_OP        /* operating point only (carriers, augment sizing) */
+};
+
+struct sch_run_options {
+	enum sch_run_mode mode;
+	struct sch_carrier_options carriers;
+	double band_lo_hz, band_hi_hz;  /* NaN: the noise run's own range */
+	const double *spots_hz;
+	size_t n_spots;
+	const char *output_expr;        /* --output; NULL: the deck's .noise */
+	const char *input_src;          /* --input; NULL: the deck's .noise */
+	bool have_freq;                 /* --freq given */
+	struct sch_freq_spec freq;
+	bool junction_correction;
+	double responsivity_a_per_w;    /* NaN: none */
+	double signal;                  /* NaN: none; in input units */
+	int n_workers;
+};
+
+struct sch_result {
+	struct sch_arena arena;         /* owns everything below except deck */
+	struct sch_deck deck;
+	struct sch_carrier_set set;
+	const char *netlist;            /* path as given */
+	const char *sim_version;
+	double temp_k;                  /* circuit temperature */
+	/* noise run (mode SCH_RUN_REPORT only) */
+	const char *output;             /* "v(out)" */
+	const char *input;              /* "iph" */
+	const char *input_unit;         /* "A" for a current source, "V" for a voltage source */
+	double band_lo_hz, band_hi_hz;
+	size_t n_freq;
+	double *freq_hz;
+	double *total_psd;              /* V^2/Hz: sum of every contribution's psd */
+	double *gain2;                  /* |output / input|^2 at each frequency */
+	struct sch_contribution *contributions; /* ranked by share, largest first */
+	size_t n_contributions;
+	double total_power_v2;          /* band power of the total */
+	double output_rms_v;
+	double input_rms;               /* input-referred rms over the band, input units */
+	struct sch_spot *spots;
+	size_t n_spots;
+	double responsivity_a_per_w;    /* NaN: none */
+	double signal;                  /* NaN: none */
+	double snr;                     /* signal^2 / input_rms^2; NaN without a signal */
+	double carrier_power_v2;        /* band power of all added carrier shot noise */
+	const char **notes;             /* assumptions and corrections applied, for reports */
+	size_t n_notes;
+};
+
+/* Initialises an empty result. This function can't fail. */
+void sch_result_init(struct sch_result *res);
+
+/*
+ * Runs the pipeline on the netlist at path. Returns SCH_ERR_INPUT for bad input (located
+ * message), SCH_ERR_SIM when the simulator fails, SCH_ERR_NOMEM. res must be released in every case.
+ */
+enum sch_err sch_analysis_run(const char *path, const struct sch_run_options *opt, struct sch_result *res,
+			      struct sch_diag *d);
+
+/* Frees everything in res. No-op on NULL. */
+void sch_result_release(struct sch_result *res);
+
+/* Options with every default set (junction correction on, NaN band, one worker). Can't fail. */
+void sch_run_options_init(struct sch_run_options *opt);
+
+#endif

@@ -1,0 +1,29 @@
+/* SPDX-License-Identifier: BSD-3-Clause */
+/* outfile.h - atomic output files: written under a temporary name, renamed over the target on commit. */
+#ifndef SCH_OUTFILE_H
+#define SCH_OUTFILE_H
+
+#include <stdbool.h>
+#include <stdio.h>
+#include "schrot/diag.h"
+
+struct sch_outfile {
+	FILE *fp;         /* write here between open and commit */
+	char *path;       /* target */
+	char *tmp_path;   /* NULL for stdout */
+	bool is_stdout;
+};
+
+/*
+ * Opens a temporary file beside path ("-" means stdout). SCH_ERR_IO with a message naming the
+ * file when it cannot be created; nothing is left behind then.
+ */
+enum sch_err sch_outfile_open(struct sch_outfile *o, const char *path, struct sch_diag *d);
+
+/* Flushes, closes and renames over the target. On failure removes the temporary file (SCH_ERR_IO). */
+enum sch_err sch_outfile_commit(struct sch_outfile *o, struct sch_diag *d);
+
+/* Closes and removes the temporary file; the target is untouched. No-op on a closed outfile. */
+void sch_outfile_abort(struct sch_outfile *o);
+
+#endif

@@ -1,0 +1,35 @@
+/* SPDX-License-Identifier: BSD-3-Clause */
+/* report.h - every output of a result: terminal tables, JSON, CSV, spectrum CSV, plot, HTML, depfile. */
+#ifndef SCH_REPORT_H
+#define SCH_REPORT_H
+
+#include <stdio.h>
+#include "schrot/analysis.h"
+#include "schrot/diag.h"
+
+/* Terminal table of the noise report: totals on top, contributions ranked by share. */
+enum sch_err sch_report_table(const struct sch_result *r, FILE *out);
+
+/* Terminal table of carriers (name, DC current, reason) and noiseless sources. */
+enum sch_err sch_report_carriers_table(const struct sch_result *r, FILE *out);
+
+/* JSON schema 1 (DESIGN.md section 5), written atomically to path ("-": stdout). */
+enum sch_err sch_report_json(const struct sch_result *r, const char *path, struct sch_diag *d);
+
+/* One row per contribution, written atomically. */
+enum sch_err sch_report_csv(const struct sch_result *r, const char *path, struct sch_diag *d);
+
+/* One row per frequency: frequency, total, the top n contributions, then "rest". */
+enum sch_err sch_report_spectrum(const struct sch_result *r, const char *path, int top_n, struct sch_diag *d);
+
+/* Log-log plot of output density (total and top contributions), band shaded; .svg or .png. */
+enum sch_err sch_report_plot(const struct sch_result *r, const char *path, struct sch_diag *d);
+
+/* A self-contained HTML page for a design review. */
+enum sch_err sch_report_html(const struct sch_result *r, const char *path, struct sch_diag *d);
+
+/* A make rule: targets (the run's outputs) depend on every file the netlist read. */
+enum sch_err sch_report_depfile(const struct sch_result *r, const char *path, const char *const *targets,
+				size_t n_targets, struct sch_diag *d);
+
+#endif

@@ -1,0 +1,72 @@
+/* SPDX-License-Identifier: BSD-3-Clause */
+/*
+ * sim.h - the simulator session. Only sim_ngspice.c talks to the ngspice shared library. Every run
+ * happens in a worker process, so a simulator crash, exit or dead library never takes the tool
+ * down; netlist text and start-up scripts never make the simulator run commands.
+ */
+#ifndef SCH_SIM_H
+#define SCH_SIM_H
+
+#include <stdbool.h>
+#include <stddef.h>
+#include "schrot/diag.h"
+
+/* Commands run in order in one step, e.g. "noise v(out) iph dec 10 1 1meg 1" or "op". */
+struct sch_sim_step {
+	const char *const *commands;
+	size_t n_commands;
+};
+
+struct sch_sim_request {
+	const char *const *lines;      /* the deck: lines[0] is the title, the last line is ".end" */
+	size_t n_lines;
+	const struct sch_sim_step *steps;
+	size_t n_steps;
+	const char *const *quantities; /* read after each step, e.g. "@i.x1.iph[current]", "@d.x1.d1[vd]" */
+	size_t n_quantities;
+	bool collect_noise;            /* after each step, copy every vector of the newest noise density plot */
+	bool squared_noise;            /* "set sqrnoise": densities in V^2/Hz (or A^2/Hz) */
+	int n_workers;                 /* worker processes sharing the steps (<= 1: one) */
+};
+
+struct sch_sim_vector {
+	char *name;      /* as the simulator names it: "frequency", "onoise_spectrum", "onoise_d.x1.d1_id" */
+	double *values;
+	size_t n;
+};
+
+/* What one step produced. */
+struct sch_sim_outcome {
+	double *quantities;            /* n_quantities values; NaN where the simulator had none */
+	struct sch_sim_vector *vectors;
+	size_t n_vectors;
+	char *failure;                 /* NULL when the step succeeded, else the simulator's reason, one line */
+};
+
+struct sch_sim_result {
+	char *version;                 /* e.g. "ngspice-39" */
+	struct sch_sim_outcome *steps; /* n_steps entries */
+	size_t n_steps;
+	char **messages;               /* the simulator's own lines, "stdout "/"stderr " prefix removed */
+	size_t n_messages;
+	char *failure;                 /* NULL on success; else the first reason (load or step), one line */
+};
+
+/*
+ * Loads the deck in a fresh worker, runs the steps, reads quantities and vectors. Command strings
+ * containing any of ` ; > < | & $ ~ " or a newline are refused (SCH_ERR_USAGE) before anything
+ * runs. Returns SCH_ERR_SIM when the deck does not load, a step fails, the simulator asks to exit
+ * or the worker dies; res->failure then says why. res must be released in every case.
+ */
+enum sch_err sch_sim_run(const struct sch_sim_request *req, struct sch_sim_result *res, struct sch_diag *d);
+
+/* Frees everything in res; res is then empty. No-op on NULL. */
+void sch_sim_result_release(struct sch_sim_result *res);
+
+/* The vector called name in an outcome, or NULL. */
+const struct sch_sim_vector *sch_sim_find_vector(const struct sch_sim_outcome *o, const char *name);
+
+/* True when name consists only of [a-z0-9_.#+-] characters and is 1..200 bytes long. */
+bool sch_sim_name_is_safe(const char *name);
+
+#endif
