@@ -8,8 +8,12 @@
 #include "schrot/deck.h"
 #include "schrot/pattern.h"
 
-/* The default name rule: after the element letter, one of ph, pd, photo, dark, leak (caseless). */
-#define SCH_DEFAULT_CARRIER_REGEX "^[igbf][^.]*?(ph|pd|photo|dark|leak)[^.]*$"
+/*
+ * The default name rule, matched caselessly against the element's own name (the last part of the
+ * hierarchical name): right after the element letter (and an optional '_'), one of ph, pd, photo,
+ * dark or leak: "iph", "Ipd2", "i_dark", "gleak", "fphoto".
+ */
+#define SCH_DEFAULT_CARRIER_REGEX "[igbf]_?(ph|pd|photo|dark|leak).*"
 
 enum sch_carrier_why {
 	SCH_WHY_DIODE = 1,     /* its two nodes are a diode's two nodes */

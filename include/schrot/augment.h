@@ -1,0 +1,59 @@
+/* SPDX-License-Identifier: BSD-3-Clause */
+/*
+ * augment.h - the augmenter: the deck the simulator runs, with a noise generator of known density
+ * across every carrier (and every junction, for the junction correction). Each generator is a 1 ohm
+ * resistor shorted by a 0 V source whose current a unity-gain F element copies across the device;
+ * its density 4kT/1 ohm at the circuit temperature is scaled afterwards to 2q|I|G per instance, so
+ * one definition serves every instance and the operating point is untouched (the F element carries
+ * no DC current).
+ */
+#ifndef SCH_AUGMENT_H
+#define SCH_AUGMENT_H
+
+#include <stdbool.h>
+#include <stddef.h>
+#include "schrot/carriers.h"
+#include "schrot/deck.h"
+
+#define SCH_PROBE_OHMS 1.0
+
+enum sch_probe_kind { SCH_PROBE_CARRIER, SCH_PROBE_JUNCTION };
+
+/* One generator in one definition (it exists once per instance of that definition). */
+struct sch_probe {
+	enum sch_probe_kind kind;
+	int element;           /* the deck element it sits across */
+	const char *res_name;  /* its resistor's name inside the definition: "rschg3" */
+};
+
+struct sch_augment_options {
+	const char *ac_source;   /* top-level source given " ac 1" because it has no AC value; NULL: none */
+	bool junction_probes;    /* a generator across every diode too */
+	bool keep_analyses;      /* keep the deck's own analysis and output cards (for schrot augment) */
+};
+
+struct sch_augmented {
+	const char **lines;            /* lines[0] is a title, the last is ".end" */
+	size_t n_lines;
+	struct sch_probe *probes;
+	size_t n_probes;
+	int *probe_of_element;         /* deck element index -> probe index, -1 when none */
+	const char *temp_quantity;     /* reads the circuit temperature in degrees C */
+};
+
+/*
+ * Builds the simulated deck from deck and the carriers in set. Storage comes from arena.
+ * Returns SCH_ERR_NOMEM, or SCH_ERR_INPUT when a generator name would collide with the netlist's.
+ */
+enum sch_err sch_augment_build(const struct sch_deck *deck, const struct sch_carrier_set *set,
+			       const struct sch_augment_options *opt, struct sch_arena *arena,
+			       struct sch_augmented *aug, struct sch_diag *d);
+
+/*
+ * The simulator's name of the probe resistor of an instance: "rschg3" at top level,
+ * "r.x1.x2.rschg3" inside subcircuit instance path "x1.x2.<leaf>".
+ */
+const char *sch_augment_probe_sim_name(struct sch_arena *arena, const struct sch_probe *p,
+				       const char *instance_path);
+
+#endif

@@ -1,0 +1,173 @@
+/* SPDX-License-Identifier: BSD-3-Clause */
+/* augment.c - builds the simulated deck: the netlist's cards plus generators of known density. */
+#include <stdio.h>
+#include <string.h>
+#include "schrot/augment.h"
+
+/* Analysis and output cards the tool replaces with its own commands. */
+static bool dropped_keyword(const char *kw)
+{
+	static const char *const dropped[] = { ".noise", ".op", ".ac", ".dc", ".tran", ".pz", ".sens", ".tf",
+					       ".disto", ".four", ".fourier", ".meas", ".measure", ".print",
+					       ".plot", ".save", ".probe", ".width", ".end", ".endl" };
+	for (size_t k = 0; k < sizeof(dropped) / sizeof(dropped[0]); k++) {
+		if (strcmp(kw, dropped[k]) == 0)
+			return true;
+	}
+	return false;
+}
+
+static bool has_ac_value(const struct sch_element *e)
+{
+	for (int k = 0; k < e->n_tok; k++) {
+		if (strcmp(e->tok[k], "ac") == 0 || strncmp(e->tok[k], "ac=", 3) == 0)
+			return true;
+	}
+	return false;
+}
+
+struct line_list {
+	const char **v;
+	size_t n, cap;
+	struct sch_arena *arena;
+};
+
+static enum sch_err push(struct line_list *l, const char *s)
+{
+	if (!s)
+		return SCH_ERR_NOMEM;
+	if (l->n == l->cap) {
+		size_t cap = l->cap ? l->cap * 2 : 256;
+		const char **v = sch_arena_alloc(l->arena, cap * sizeof(*v));
+		if (!v)
+			return SCH_ERR_NOMEM;
+		if (l->n)
+			memcpy(v, l->v, l->n * sizeof(*v));
+		l->v = v;
+		l->cap = cap;
+	}
+	l->v[l->n++] = s;
+	return SCH_OK;
+}
+
+/* Appends the three lines of probe k (definition-local names) across nodes a, b. */
+static enum sch_err push_probe(struct line_list *l, int k, const char *a, const char *b, const char *what)
+{
+	enum sch_err ret = push(l, sch_arena_printf(l->arena, "* schrot: generator of known density across %s", what));
+	if (ret == SCH_OK)
+		ret = push(l, sch_arena_printf(l->arena, "vschg%d nschg%d 0 dc 0", k, k));
+	if (ret == SCH_OK)
+		ret = push(l, sch_arena_printf(l->arena, "rschg%d nschg%d 0 %g", k, k, SCH_PROBE_OHMS));
+	if (ret == SCH_OK)
+		ret = push(l, sch_arena_printf(l->arena, "fschg%d %s %s vschg%d 1", k, a, b, k));
+	return ret;
+}
+
+static enum sch_err push_probes_of(struct line_list *l, const struct sch_deck *deck, const struct sch_augmented *aug,
+				   int subckt)
+{
+	for (size_t k = 0; k < aug->n_probes; k++) {
+		const struct sch_element *e = &deck->elements[aug->probes[k].element];
+		const char *const *nodes;
+		enum sch_err ret;
+		if (e->subckt != subckt)
+			continue;
+		if (sch_deck_element_nodes(deck, e, &nodes) < 2)
+			continue;
+		ret = push_probe(l, (int)k, nodes[0], nodes[1], e->name);
+		if (ret != SCH_OK)
+			return ret;
+	}
+	return SCH_OK;
+}
+
+const char *sch_augment_probe_sim_name(struct sch_arena *arena, const struct sch_probe *p, const char *instance_path)
+{
+	const char *dot = strrchr(instance_path, '.');
+	if (!dot)
+		return p->res_name;
+	return sch_arena_printf(arena, "r.%.*s.%s", (int)(dot - instance_path), instance_path, p->res_name);
+}
+
+enum sch_err sch_augment_build(const struct sch_deck *deck, const struct sch_carrier_set *set,
+			       const struct sch_augment_options *opt, struct sch_arena *arena,
+			       struct sch_augmented *aug, struct sch_diag *d)
+{
+	struct line_list l = { NULL, 0, 0, arena };
+	enum sch_err ret = SCH_ERR_NOMEM;
+
+	memset(aug, 0, sizeof(*aug));
+	for (size_t k = 0; k < deck->n_elements; k++) {
+		if (strncmp(deck->elements[k].name + 1, "schg", 4) == 0 || strcmp(deck->elements[k].name, "rschtemp") == 0)
+			return sch_diag_error(d, SCH_ERR_INPUT, deck->cards[deck->elements[k].card].file,
+					      deck->cards[deck->elements[k].card].line,
+					      "element name '%s' is reserved for schrot's generators", deck->elements[k].name);
+	}
+	aug->probe_of_element = sch_arena_alloc(arena, (deck->n_elements + 1) * sizeof(int));
+	aug->probes = sch_arena_alloc(arena, (deck->n_elements + 1) * sizeof(*aug->probes));
+	if (!aug->probe_of_element || !aug->probes)
+		goto out;
+	for (size_t k = 0; k < deck->n_elements; k++)
+		aug->probe_of_element[k] = -1;
+	/* one probe per definition element that is a carrier in at least one instance */
+	for (size_t k = 0; k < set->n_carriers; k++) {
+		int e = set->carriers[k].element;
+		if (aug->probe_of_element[e] < 0) {
+			struct sch_probe *p = &aug->probes[aug->n_probes];
+			p->kind = SCH_PROBE_CARRIER;
+			p->element = e;
+			p->res_name = sch_arena_printf(arena, "rschg%zu", aug->n_probes);
+			if (!p->res_name)
+				goto out;
+			aug->probe_of_element[e] = (int)aug->n_probes++;
+		}
+	}
+	if (opt && opt->junction_probes) {
+		for (size_t k = 0; k < deck->n_elements; k++) {
+			if (deck->elements[k].letter != 'd' || aug->probe_of_element[k] >= 0)
+				continue;
+			struct sch_probe *p = &aug->probes[aug->n_probes];
+			p->kind = SCH_PROBE_JUNCTION;
+			p->element = (int)k;
+			p->res_name = sch_arena_printf(arena, "rschg%zu", aug->n_probes);
+			if (!p->res_name)
+				goto out;
+			aug->probe_of_element[k] = (int)aug->n_probes++;
+		}
+	}
+
+	if ((ret = push(&l, "* schrot augmented deck")) != SCH_OK)
+		goto out;
+	for (size_t c = 0; c < deck->n_cards; c++) {
+		const struct sch_card *card = &deck->cards[c];
+		const char *text = card->text;
+		if (card->keyword && !(opt && opt->keep_analyses && strcmp(card->keyword, ".end") != 0 &&
+				       strcmp(card->keyword, ".endl") != 0) &&
+		    dropped_keyword(card->keyword))
+			continue;
+		if (card->element >= 0 && opt && opt->ac_source && card->subckt < 0 &&
+		    strcmp(deck->elements[card->element].name, opt->ac_source) == 0 &&
+		    !has_ac_value(&deck->elements[card->element]))
+			text = sch_arena_printf(arena, "%s ac 1", text);
+		if ((ret = push(&l, text)) != SCH_OK)
+			goto out;
+		if (card->keyword && strcmp(card->keyword, ".subckt") == 0) {
+			for (size_t s = 0; s < deck->n_subckts; s++) {
+				if (deck->subckts[s].card_begin == (int)c &&
+				    (ret = push_probes_of(&l, deck, aug, (int)s)) != SCH_OK)
+					goto out;
+			}
+		}
+	}
+	if ((ret = push_probes_of(&l, deck, aug, -1)) != SCH_OK)
+		goto out;
+	if ((ret = push(&l, "* schrot: reads the circuit temperature")) != SCH_OK ||
+	    (ret = push(&l, "rschtemp nschtemp 0 1 noisy=0")) != SCH_OK || (ret = push(&l, ".end")) != SCH_OK)
+		goto out;
+	aug->lines = l.v;
+	aug->n_lines = l.n;
+	aug->temp_quantity = "@rschtemp[temp]";
+	ret = SCH_OK;
+out:
+	return ret;
+}
