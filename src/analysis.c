@@ -1,0 +1,823 @@
+/* SPDX-License-Identifier: BSD-3-Clause */
+/*
+ * analysis.c - the one analysis entry point: reads the deck, finds carriers, augments, runs the
+ * simulator, maps its generators back to netlist names and integrates the spectra into a result.
+ */
+#include <ctype.h>
+#include <math.h>
+#include <stdio.h>
+#include <stdlib.h>
+#include <string.h>
+#include "schrot/analysis.h"
+#include "schrot/augment.h"
+#include "schrot/physics.h"
+#include "schrot/si.h"
+#include "schrot/sim.h"
+#include "schrot/spectra.h"
+#include "schrot/strmap.h"
+
+const char *sch_mechanism_name(enum sch_mechanism m)
+{
+	switch (m) {
+	case SCH_MECH_SHOT:
+		return "shot";
+	case SCH_MECH_THERMAL:
+		return "thermal";
+	case SCH_MECH_FLICKER:
+		return "flicker";
+	default:
+		return "other";
+	}
+}
+
+const char *sch_origin_name(enum sch_origin o)
+{
+	switch (o) {
+	case SCH_ORIGIN_ADDED:
+		return "added";
+	case SCH_ORIGIN_CORRECTION:
+		return "correction";
+	default:
+		return "simulator";
+	}
+}
+
+void sch_run_options_init(struct sch_run_options *opt)
+{
+	memset(opt, 0, sizeof(*opt));
+	opt->mode = SCH_RUN_REPORT;
+	opt->band_lo_hz = NAN;
+	opt->band_hi_hz = NAN;
+	opt->junction_correction = true;
+	opt->responsivity_a_per_w = NAN;
+	opt->signal = NAN;
+	opt->n_workers = 1;
+}
+
+void sch_result_init(struct sch_result *res)
+{
+	memset(res, 0, sizeof(*res));
+	sch_arena_init(&res->arena);
+	sch_deck_init(&res->deck);
+	res->temp_k = NAN;
+	res->band_lo_hz = NAN;
+	res->band_hi_hz = NAN;
+	res->responsivity_a_per_w = NAN;
+	res->signal = NAN;
+	res->snr = NAN;
+	res->output_rms_v = NAN;
+	res->input_rms = NAN;
+}
+
+void sch_result_release(struct sch_result *res)
+{
+	if (!res)
+		return;
+	sch_deck_release(&res->deck);
+	sch_arena_release(&res->arena);
+}
+
+/* Growable list of const char * in the result arena. */
+struct strlist {
+	const char **v;
+	size_t n, cap;
+};
+
+static enum sch_err strlist_push(struct sch_arena *a, struct strlist *l, const char *s)
+{
+	if (!s)
+		return SCH_ERR_NOMEM;
+	if (l->n == l->cap) {
+		size_t cap = l->cap ? l->cap * 2 : 64;
+		const char **v = sch_arena_alloc(a, cap * sizeof(*v));
+		if (!v)
+			return SCH_ERR_NOMEM;
+		if (l->n)
+			memcpy(v, l->v, l->n * sizeof(*v));
+		l->v = v;
+		l->cap = cap;
+	}
+	l->v[l->n++] = s;
+	return SCH_OK;
+}
+
+/* The noise analysis to run, resolved from the deck's .noise line and the options. */
+struct noise_plan {
+	const char *output;
+	const char *input;
+	char letter;        /* 'i' or 'v' */
+	double f_start, f_stop;
+	char command[1024];
+	bool needs_ac;      /* the input source has no AC value of its own */
+};
+
+static bool node_is_safe(const char *s, size_t n)
+{
+	if (n == 0 || n > 200)
+		return false;
+	for (size_t i = 0; i < n; i++) {
+		unsigned char c = (unsigned char)s[i];
+		if (!(isalnum(c) || c == '_' || c == '.' || c == '#' || c == '+' || c == '-' || c == '[' || c == ']'))
+			return false;
+	}
+	return true;
+}
+
+/* Normalises "v(out)" / "V( out , ref )" into out (lower case); false when it is not such a form. */
+static bool normalise_output(const char *expr, char *out, size_t size)
+{
+	char tmp[512];
+	size_t n = 0;
+	char *comma, *a, *b = NULL;
+
+	for (const char *p = expr; *p && n + 1 < sizeof(tmp); p++) {
+		if (!isspace((unsigned char)*p))
+			tmp[n++] = (char)tolower((unsigned char)*p);
+	}
+	tmp[n] = '\0';
+	if (n < 4 || strncmp(tmp, "v(", 2) != 0 || tmp[n - 1] != ')')
+		return false;
+	tmp[n - 1] = '\0';
+	a = tmp + 2;
+	comma = strchr(a, ',');
+	if (comma) {
+		*comma = '\0';
+		b = comma + 1;
+	}
+	if (!node_is_safe(a, strlen(a)) || (b && !node_is_safe(b, strlen(b))))
+		return false;
+	if (b)
+		snprintf(out, size, "v(%s,%s)", a, b);
+	else
+		snprintf(out, size, "v(%s)", a);
+	return true;
+}
+
+static enum sch_err parse_freq_token(const struct sch_deck *deck, const char *tok, double *v, struct sch_diag *d)
+{
+	const struct sch_card *c = &deck->cards[deck->noise.card];
+	if (!tok || sch_si_parse(tok, v) != SCH_OK || !(*v > 0))
+		return sch_diag_error(d, SCH_ERR_INPUT, c->file, c->line, "'.noise' needs a positive number, not '%s'",
+				      tok ? tok : "");
+	return SCH_OK;
+}
+
+static const struct sch_element *top_element(const struct sch_deck *deck, const char *name)
+{
+	for (size_t k = 0; k < deck->n_elements; k++) {
+		if (deck->elements[k].subckt < 0 && strcmp(deck->elements[k].name, name) == 0)
+			return &deck->elements[k];
+	}
+	return NULL;
+}
+
+static bool element_has_ac(const struct sch_element *e)
+{
+	for (int k = 0; k < e->n_tok; k++) {
+		if (strcmp(e->tok[k], "ac") == 0 || strncmp(e->tok[k], "ac=", 3) == 0)
+			return true;
+	}
+	return false;
+}
+
+static enum sch_err plan_noise(const struct sch_deck *deck, const struct sch_run_options *opt, struct sch_arena *a,
+			       struct noise_plan *plan, struct sch_diag *d)
+{
+	const struct sch_noise_spec *ns = &deck->noise;
+	const char *where_file = ns->present ? deck->cards[ns->card].file : deck->path;
+	long where_line = ns->present ? deck->cards[ns->card].line : 0;
+	const char *output = opt->output_expr ? opt->output_expr : (ns->present ? ns->output : NULL);
+	const char *input = opt->input_src ? opt->input_src : (ns->present ? ns->input : NULL);
+	char out_norm[512], in_lower[256];
+	const struct sch_element *src;
+	const char *sweep = "dec";
+	long n_points = 20;
+	enum sch_err ret;
+
+	if (!output || !input || (!ns->present && !opt->have_freq))
+		return sch_diag_error(d, SCH_ERR_USAGE, deck->path, 0,
+				      "no '.noise' line: give --output, --input and --freq");
+	if (!normalise_output(output, out_norm, sizeof(out_norm)))
+		return sch_diag_error(d, SCH_ERR_INPUT, opt->output_expr ? NULL : where_file, where_line,
+				      "noise output must be v(node) or v(node,ref), not '%s'", output);
+	snprintf(in_lower, sizeof(in_lower), "%s", input);
+	for (char *p = in_lower; *p; p++)
+		*p = (char)tolower((unsigned char)*p);
+	src = top_element(deck, in_lower);
+	if (!src || (src->letter != 'v' && src->letter != 'i') || !node_is_safe(in_lower, strlen(in_lower)))
+		return sch_diag_error(d, SCH_ERR_INPUT, opt->input_src ? NULL : where_file, where_line,
+				      "noise input '%s' is not a voltage or current source at the netlist's top level", input);
+	if (opt->have_freq) {
+		plan->f_start = opt->freq.f_start;
+		plan->f_stop = opt->freq.f_stop;
+		n_points = opt->freq.points_per_decade;
+	} else {
+		double np;
+		if ((ret = parse_freq_token(deck, ns->f_start, &plan->f_start, d)) != SCH_OK ||
+		    (ret = parse_freq_token(deck, ns->f_stop, &plan->f_stop, d)) != SCH_OK ||
+		    (ret = parse_freq_token(deck, ns->n_points, &np, d)) != SCH_OK)
+			return ret;
+		n_points = (long)np;
+		sweep = ns->sweep;
+		if (!sweep || (strcmp(sweep, "dec") && strcmp(sweep, "oct") && strcmp(sweep, "lin")))
+			return sch_diag_error(d, SCH_ERR_INPUT, where_file, where_line,
+					      "'.noise' sweep must be dec, oct or lin, not '%s'", sweep ? sweep : "");
+	}
+	if (!(plan->f_stop > plan->f_start) || n_points < 1)
+		return sch_diag_error(d, SCH_ERR_INPUT, opt->have_freq ? NULL : where_file, where_line,
+				      "noise sweep needs a stop frequency above its start and at least one point");
+	plan->output = sch_arena_strdup(a, out_norm);
+	plan->input = sch_arena_strdup(a, in_lower);
+	plan->letter = src->letter;
+	plan->needs_ac = !element_has_ac(src);
+	snprintf(plan->command, sizeof(plan->command), "noise %s %s %s %ld %.17g %.17g 1", out_norm, in_lower, sweep,
+		 n_points, plan->f_start, plan->f_stop);
+	return plan->output && plan->input ? SCH_OK : SCH_ERR_NOMEM;
+}
+
+/* GMIN from ".options gmin=X" (the simulator's default 1e-12 otherwise). */
+static double deck_gmin(const struct sch_deck *deck)
+{
+	double gmin = 1e-12;
+	for (size_t c = 0; c < deck->n_cards; c++) {
+		const char *kw = deck->cards[c].keyword;
+		const char *t = deck->cards[c].text;
+		if (!kw || strncmp(kw, ".opt", 4) != 0)
+			continue;
+		for (const char *p = t; *p; p++) {
+			if (strncasecmp(p, "gmin", 4) == 0 && (p == t || isspace((unsigned char)p[-1]))) {
+				const char *q = p + 4;
+				char num[64];
+				size_t n = 0;
+				double v;
+				while (isspace((unsigned char)*q))
+					q++;
+				if (*q != '=')
+					continue;
+				q++;
+				while (isspace((unsigned char)*q))
+					q++;
+				while (q[n] && !isspace((unsigned char)q[n]) && n + 1 < sizeof(num)) {
+					num[n] = q[n];
+					n++;
+				}
+				num[n] = '\0';
+				if (sch_si_parse(num, &v) == SCH_OK)
+					gmin = v;
+			}
+		}
+	}
+	return gmin;
+}
+
+static enum sch_mechanism mechanism_of(char letter, const char *gen)
+{
+	if (strstr(gen, "1overf"))
+		return SCH_MECH_FLICKER;
+	switch (letter) {
+	case 'd':
+		return strcmp(gen, "id") == 0 ? SCH_MECH_SHOT : SCH_MECH_THERMAL;
+	case 'q':
+		if (gen[0] == 'i')
+			return SCH_MECH_SHOT;
+		return gen[0] == 'r' ? SCH_MECH_THERMAL : SCH_MECH_OTHER;
+	case 'm':
+	case 'j':
+		if (strncmp(gen, "ig", 2) == 0)
+			return SCH_MECH_SHOT;
+		if (strcmp(gen, "id") == 0 || gen[0] == 'r')
+			return SCH_MECH_THERMAL;
+		return SCH_MECH_OTHER;
+	default:
+		if (strcmp(gen, "thermal") == 0 || gen[0] == 'r')
+			return SCH_MECH_THERMAL;
+		return SCH_MECH_OTHER;
+	}
+}
+
+/* Everything the mapping of simulator vectors needs. */
+struct mapping {
+	struct sch_strmap devices;  /* simulator name -> instance index */
+	struct sch_strmap probes;   /* probe resistor simulator name -> instance index of the probed device */
+	int *probe_vec;             /* instance -> vector index of its probe, -1 */
+	int *id_vec;                /* instance -> vector index of the simulator's "id" generator, -1 */
+	int *id_row;                /* instance -> contribution index of that generator, -1 */
+};
+
+struct contrib_list {
+	struct sch_contribution *v;
+	size_t n, cap;
+};
+
+static struct sch_contribution *contrib_add(struct sch_arena *a, struct contrib_list *l, size_t n_freq)
+{
+	struct sch_contribution *c;
+	if (l->n == l->cap) {
+		size_t cap = l->cap ? l->cap * 2 : 64;
+		struct sch_contribution *v = sch_arena_alloc(a, cap * sizeof(*v));
+		if (!v)
+			return NULL;
+		if (l->n)
+			memcpy(v, l->v, l->n * sizeof(*v));
+		l->v = v;
+		l->cap = cap;
+	}
+	c = &l->v[l->n];
+	memset(c, 0, sizeof(*c));
+	c->psd = sch_arena_alloc(a, (n_freq + 1) * sizeof(double));
+	if (!c->psd)
+		return NULL;
+	c->dc_current_a = NAN;
+	l->n++;
+	return c;
+}
+
+static int by_band_power(const void *pa, const void *pb)
+{
+	const struct sch_contribution *a = pa, *b = pb;
+	if (a->band_power > b->band_power)
+		return -1;
+	if (a->band_power < b->band_power)
+		return 1;
+	return strcmp(a->device, b->device);
+}
+
+static bool all_zero(const double *v, size_t n)
+{
+	for (size_t i = 0; i < n; i++) {
+		if (v[i] != 0.0)
+			return false;
+	}
+	return true;
+}
+
+/* Quantity indices into the outcome's quantity array. */
+struct quantity_plan {
+	struct strlist names;
+	size_t temp;
+	size_t carriers;   /* first carrier current; one per carrier */
+	size_t noiseless;  /* first noiseless-source current */
+	size_t diodes;     /* first diode quantity; three (id, vd, gd) per diode instance */
+	int *diode_inst;   /* the diode instances, n_diodes of them */
+	size_t n_diodes;
+};
+
+static enum sch_err plan_quantities(struct sch_result *res, const struct sch_augmented *aug, struct quantity_plan *q)
+{
+	struct sch_arena *a = &res->arena;
+	const struct sch_carrier_set *set = &res->set;
+	enum sch_err ret;
+
+	memset(q, 0, sizeof(*q));
+	if ((ret = strlist_push(a, &q->names, aug->temp_quantity)) != SCH_OK)
+		return ret;
+	q->carriers = q->names.n;
+	for (size_t k = 0; k < set->n_carriers; k++) {
+		const struct sch_carrier *c = &set->carriers[k];
+		ret = strlist_push(a, &q->names,
+				   sch_carriers_current_quantity(a, res->deck.elements[c->element].letter, c->sim_name));
+		if (ret != SCH_OK)
+			return ret;
+	}
+	q->noiseless = q->names.n;
+	for (size_t k = 0; k < set->n_noiseless; k++) {
+		const struct sch_source *s = &set->noiseless[k];
+		ret = strlist_push(a, &q->names,
+				   sch_carriers_current_quantity(a, res->deck.elements[s->element].letter, s->sim_name));
+		if (ret != SCH_OK)
+			return ret;
+	}
+	q->diodes = q->names.n;
+	q->diode_inst = sch_arena_alloc(a, (set->n_instances + 1) * sizeof(int));
+	if (!q->diode_inst)
+		return SCH_ERR_NOMEM;
+	for (size_t k = 0; k < set->n_instances; k++) {
+		const struct sch_instance *in = &set->instances[k];
+		if (res->deck.elements[in->element].letter != 'd')
+			continue;
+		q->diode_inst[q->n_diodes++] = (int)k;
+		if ((ret = strlist_push(a, &q->names, sch_arena_printf(a, "@%s[id]", in->sim_name))) != SCH_OK ||
+		    (ret = strlist_push(a, &q->names, sch_arena_printf(a, "@%s[vd]", in->sim_name))) != SCH_OK ||
+		    (ret = strlist_push(a, &q->names, sch_arena_printf(a, "@%s[gd]", in->sim_name))) != SCH_OK)
+			return ret;
+	}
+	return SCH_OK;
+}
+
+/* Sets the currents and temperature read from the simulator into the result. */
+static enum sch_err take_operating_point(struct sch_result *res, const struct quantity_plan *q,
+					 const struct sch_sim_outcome *o, struct sch_diag *d)
+{
+	struct sch_carrier_set *set = &res->set;
+	size_t keep = 0;
+	double t_c = o->quantities[q->temp];
+
+	if (!isfinite(t_c))
+		return sch_diag_error(d, SCH_ERR_SIM, NULL, 0, "simulator: could not read the circuit temperature");
+	res->temp_k = t_c + SCH_ZERO_C_K;
+	for (size_t k = 0; k < set->n_carriers; k++) {
+		set->carriers[k].dc_current_a = o->quantities[q->carriers + k];
+		if (!isfinite(set->carriers[k].dc_current_a))
+			return sch_diag_error(d, SCH_ERR_SIM, NULL, 0, "simulator: no operating-point current for '%s'",
+					      set->carriers[k].name);
+	}
+	/* current sources are listed whatever their value; controlled sources only when they carry DC */
+	for (size_t k = 0; k < set->n_noiseless; k++) {
+		struct sch_source s = set->noiseless[k];
+		s.dc_current_a = o->quantities[q->noiseless + k];
+		if (res->deck.elements[s.element].letter == 'i' || (isfinite(s.dc_current_a) && s.dc_current_a != 0))
+			set->noiseless[keep++] = s;
+	}
+	set->n_noiseless = keep;
+	return SCH_OK;
+}
+
+static enum sch_err build_mapping(struct sch_result *res, const struct sch_augmented *aug, struct mapping *m)
+{
+	struct sch_arena *a = &res->arena;
+	const struct sch_carrier_set *set = &res->set;
+
+	sch_strmap_init(&m->devices);
+	sch_strmap_init(&m->probes);
+	m->probe_vec = sch_arena_alloc(a, (set->n_instances + 1) * sizeof(int));
+	m->id_vec = sch_arena_alloc(a, (set->n_instances + 1) * sizeof(int));
+	m->id_row = sch_arena_alloc(a, (set->n_instances + 1) * sizeof(int));
+	if (!m->probe_vec || !m->id_vec || !m->id_row)
+		return SCH_ERR_NOMEM;
+	for (size_t k = 0; k < set->n_instances; k++) {
+		const struct sch_instance *in = &set->instances[k];
+		int p = aug->probe_of_element[in->element];
+		m->probe_vec[k] = -1;
+		m->id_vec[k] = -1;
+		m->id_row[k] = -1;
+		if (sch_strmap_put(&m->devices, in->sim_name, strlen(in->sim_name), (int)k) != SCH_OK)
+			return SCH_ERR_NOMEM;
+		if (p >= 0) {
+			const char *pn = sch_augment_probe_sim_name(a, &aug->probes[p], in->path);
+			if (!pn || sch_strmap_put(&m->probes, pn, strlen(pn), (int)k) != SCH_OK)
+				return SCH_ERR_NOMEM;
+		}
+	}
+	return SCH_OK;
+}
+
+/*
+ * Splits a per-generator vector name into its device instance and generator suffix. Returns the
+ * instance index (and *gen), -2 for a device-sum vector, -3 for a probe (instance in *probe_of),
+ * -1 for a name that maps to nothing we know.
+ */
+static int classify_vector(const struct mapping *m, const char *name, const char **gen, int *probe_of)
+{
+	const char *rest;
+	char sep;
+	size_t n;
+	int k;
+
+	if (strncmp(name, "onoise_", 7) == 0)
+		sep = '_';
+	else if (strncmp(name, "onoise.", 7) == 0)
+		sep = '.';
+	else
+		return -1;
+	rest = name + 7;
+	n = strlen(rest);
+	if (n > 8 && strcmp(rest + n - 8, "_thermal") == 0 && (k = sch_strmap_get(&m->probes, rest, n - 8)) >= 0) {
+		*probe_of = k;
+		return -3;
+	}
+	if (sch_strmap_get(&m->probes, rest, n) >= 0 || sch_strmap_get(&m->devices, rest, n) >= 0)
+		return -2;
+	for (size_t p = n; p-- > 0;) {
+		if (rest[p] != sep)
+			continue;
+		k = sch_strmap_get(&m->probes, rest, p);
+		if (k >= 0) {
+			*gen = NULL; /* another generator of our own resistor (flicker: always zero) */
+			return -2;
+		}
+		k = sch_strmap_get(&m->devices, rest, p);
+		if (k >= 0) {
+			*gen = rest + p + 1;
+			return k;
+		}
+	}
+	return -1;
+}
+
+static enum sch_err add_notes(struct sch_result *res, struct strlist *notes, const char *s)
+{
+	return strlist_push(&res->arena, notes, s);
+}
+
+/* Contributions of one noise outcome: scaled generators, the simulator's own, and corrections. */
+static enum sch_err take_noise(struct sch_result *res, const struct sch_run_options *opt,
+			       const struct quantity_plan *q, const struct sch_sim_outcome *o, const struct mapping *m,
+			       struct strlist *notes, struct sch_diag *d)
+{
+	struct sch_arena *a = &res->arena;
+	const struct sch_sim_vector *fv = sch_sim_find_vector(o, "frequency");
+	const struct sch_sim_vector *on = sch_sim_find_vector(o, "onoise_spectrum");
+	const struct sch_sim_vector *inn = sch_sim_find_vector(o, "inoise_spectrum");
+	struct contrib_list list = { NULL, 0, 0 };
+	/* a probe's own density as the simulator computes it: 4 k_sim T / R */
+	const double unit = 4.0 * SCH_SIM_K * res->temp_k / SCH_PROBE_OHMS;
+	const double gmin = deck_gmin(&res->deck);
+	double *carrier_of_inst;
+	size_t nf;
+	int n_corrected = 0;
+	enum sch_err ret;
+
+	if (!fv || !on || !inn || fv->n < 2 || on->n != fv->n || inn->n != fv->n)
+		return sch_diag_error(d, SCH_ERR_SIM, NULL, 0, "simulator: the noise run returned no spectra");
+	nf = fv->n;
+	res->n_freq = nf;
+	res->freq_hz = sch_arena_alloc(a, nf * sizeof(double));
+	res->gain2 = sch_arena_alloc(a, nf * sizeof(double));
+	res->total_psd = sch_arena_alloc(a, nf * sizeof(double));
+	carrier_of_inst = sch_arena_alloc(a, (res->set.n_instances + 1) * sizeof(double));
+	if (!res->freq_hz || !res->gain2 || !res->total_psd || !carrier_of_inst)
+		return SCH_ERR_NOMEM;
+	memcpy(res->freq_hz, fv->values, nf * sizeof(double));
+	for (size_t i = 0; i < nf; i++)
+		res->gain2[i] = inn->values[i] > 0 ? on->values[i] / inn->values[i] : NAN;
+	for (size_t k = 0; k < res->set.n_instances; k++)
+		carrier_of_inst[k] = -1;
+	for (size_t k = 0; k < res->set.n_carriers; k++)
+		carrier_of_inst[res->set.carriers[k].instance] = (double)k;
+
+	for (size_t v = 0; v < o->n_vectors; v++) {
+		const struct sch_sim_vector *vec = &o->vectors[v];
+		const char *gen = NULL;
+		int probe_of = -1;
+		int k;
+
+		if (vec->n != nf || strcmp(vec->name, "onoise_spectrum") == 0 || strcmp(vec->name, "inoise_spectrum") == 0)
+			continue;
+		k = classify_vector(m, vec->name, &gen, &probe_of);
+		if (k == -3) {
+			m->probe_vec[probe_of] = (int)v;
+			if (carrier_of_inst[probe_of] >= 0) {
+				const struct sch_carrier *c = &res->set.carriers[(size_t)carrier_of_inst[probe_of]];
+				double s = sch_shot_density(c->dc_current_a, sch_carrier_gain(c));
+				struct sch_contribution *ct = contrib_add(a, &list, nf);
+				if (!ct)
+					return SCH_ERR_NOMEM;
+				ct->device = c->name;
+				ct->generator = "shot";
+				ct->mechanism = SCH_MECH_SHOT;
+				ct->origin = SCH_ORIGIN_ADDED;
+				ct->dc_current_a = c->dc_current_a;
+				for (size_t i = 0; i < nf; i++)
+					ct->psd[i] = vec->values[i] / unit * s;
+			}
+			continue;
+		}
+		if (k == -2 || all_zero(vec->values, nf))
+			continue;
+		{
+			struct sch_contribution *ct = contrib_add(a, &list, nf);
+			if (!ct)
+				return SCH_ERR_NOMEM;
+			if (k >= 0) {
+				const struct sch_instance *in = &res->set.instances[k];
+				char letter = res->deck.elements[in->element].letter;
+				ct->device = in->path;
+				ct->generator = sch_arena_strdup(a, gen);
+				ct->mechanism = mechanism_of(letter, gen);
+				if (letter == 'd' && strcmp(gen, "id") == 0) {
+					m->id_vec[k] = (int)v;
+					m->id_row[k] = (int)(list.n - 1);
+				}
+			} else {
+				ct->device = sch_arena_strdup(a, vec->name + 7);
+				ct->generator = "";
+				ct->mechanism = SCH_MECH_OTHER;
+			}
+			ct->origin = SCH_ORIGIN_SIMULATOR;
+			if (!ct->device || !ct->generator)
+				return SCH_ERR_NOMEM;
+			memcpy(ct->psd, vec->values, nf * sizeof(double));
+		}
+	}
+
+	/* the simulator's diode rows get their DC current; the junction correction follows */
+	for (size_t j = 0; j < q->n_diodes; j++) {
+		int k = q->diode_inst[j];
+		const struct sch_instance *in = &res->set.instances[k];
+		double id = o->quantities[q->diodes + 3 * j];
+		double vd = o->quantities[q->diodes + 3 * j + 1];
+		double gd = o->quantities[q->diodes + 3 * j + 2];
+		double ij = id - gmin * vd, gj = gd - gmin, sj, sim_s;
+		const double *h2_src = NULL;
+		double h2_scale = 0;
+		struct sch_contribution *ct;
+
+		if (m->id_row[k] >= 0)
+			list.v[m->id_row[k]].dc_current_a = id;
+		if (!opt->junction_correction || !isfinite(id) || !isfinite(vd) || !isfinite(gd))
+			continue;
+		sim_s = 2.0 * SCH_SIM_Q * fabs(id);
+		if (m->id_vec[k] >= 0 && sim_s > 0) {
+			h2_src = o->vectors[m->id_vec[k]].values;
+			h2_scale = 1.0 / sim_s;
+		} else if (m->probe_vec[k] >= 0) {
+			h2_src = o->vectors[m->probe_vec[k]].values;
+			h2_scale = 1.0 / unit;
+		}
+		if (!h2_src)
+			continue;
+		sj = sch_junction_density(vd, ij, gj, res->temp_k);
+		ct = contrib_add(a, &list, nf);
+		if (!ct)
+			return SCH_ERR_NOMEM;
+		ct->device = in->path;
+		ct->generator = "junction";
+		ct->mechanism = SCH_MECH_SHOT;
+		ct->origin = SCH_ORIGIN_CORRECTION;
+		ct->dc_current_a = ij;
+		for (size_t i = 0; i < nf; i++) {
+			double h2 = h2_src[i] * h2_scale;
+			double sim_psd = m->id_vec[k] >= 0 ? o->vectors[m->id_vec[k]].values[i] : 0.0;
+			ct->psd[i] = h2 * sj - sim_psd;
+		}
+		n_corrected++;
+	}
+	if (n_corrected) {
+		ret = add_notes(res, notes,
+				sch_arena_printf(a, "junction correction applied to %d diode instance%s: 2q*I_j*coth(qV_j/2kT) "
+						    "in place of the simulator's 2q|I_D| (GMIN %g S kept out)",
+						 n_corrected, n_corrected == 1 ? "" : "s", gmin));
+		if (ret != SCH_OK)
+			return ret;
+	}
+	res->contributions = list.v;
+	res->n_contributions = list.n;
+	return SCH_OK;
+}
+
+/* Band powers, shares, spots, input referral and SNR. */
+static enum sch_err integrate(struct sch_result *res, const struct sch_run_options *opt, struct sch_diag *d)
+{
+	struct sch_arena *a = &res->arena;
+	size_t nf = res->n_freq;
+	double lo = res->freq_hz[0], hi = res->freq_hz[nf - 1];
+	double total = 0, *input_psd;
+	size_t keep = 0;
+
+	res->band_lo_hz = isnan(opt->band_lo_hz) ? lo : opt->band_lo_hz;
+	res->band_hi_hz = isnan(opt->band_hi_hz) ? hi : opt->band_hi_hz;
+	if (res->band_lo_hz < lo * (1 - 1e-9) || res->band_hi_hz > hi * (1 + 1e-9))
+		return sch_diag_error(d, SCH_ERR_USAGE, NULL, 0,
+				      "band %g:%g Hz is outside the simulated range %g:%g Hz (widen .noise or --freq)",
+				      res->band_lo_hz, res->band_hi_hz, lo, hi);
+	for (size_t c = 0; c < res->n_contributions; c++) {
+		struct sch_contribution *ct = &res->contributions[c];
+		ct->band_power = sch_spectra_band_power(res->freq_hz, ct->psd, nf, res->band_lo_hz, res->band_hi_hz);
+		total += ct->band_power;
+	}
+	/* a correction too small to matter next to its device's simulator row would only clutter */
+	for (size_t c = 0; c < res->n_contributions; c++) {
+		struct sch_contribution *ct = &res->contributions[c];
+		if (ct->origin == SCH_ORIGIN_CORRECTION && fabs(ct->band_power) < 1e-9 * fabs(total)) {
+			total -= ct->band_power;
+			continue;
+		}
+		res->contributions[keep++] = *ct;
+	}
+	res->n_contributions = keep;
+	res->total_power_v2 = total;
+	res->output_rms_v = sqrt(fabs(total));
+	memset(res->total_psd, 0, nf * sizeof(double));
+	res->carrier_power_v2 = 0;
+	for (size_t c = 0; c < res->n_contributions; c++) {
+		struct sch_contribution *ct = &res->contributions[c];
+		for (size_t i = 0; i < nf; i++)
+			res->total_psd[i] += ct->psd[i];
+		ct->share = total != 0 ? ct->band_power / total : 0;
+		ct->output_rms_v = sqrt(fabs(ct->band_power));
+		if (ct->origin == SCH_ORIGIN_ADDED)
+			res->carrier_power_v2 += ct->band_power;
+	}
+	qsort(res->contributions, res->n_contributions, sizeof(*res->contributions), by_band_power);
+
+	input_psd = sch_arena_alloc(a, nf * sizeof(double));
+	if (!input_psd)
+		return SCH_ERR_NOMEM;
+	for (size_t i = 0; i < nf; i++)
+		input_psd[i] = res->gain2[i] > 0 ? res->total_psd[i] / res->gain2[i] : 0;
+	res->input_rms = sqrt(fabs(sch_spectra_band_power(res->freq_hz, input_psd, nf, res->band_lo_hz, res->band_hi_hz)));
+	res->responsivity_a_per_w = opt->responsivity_a_per_w;
+	res->signal = opt->signal;
+	if (!isnan(opt->signal) && res->input_rms > 0)
+		res->snr = opt->signal * opt->signal / (res->input_rms * res->input_rms);
+
+	res->n_spots = opt->n_spots;
+	res->spots = sch_arena_alloc(a, (opt->n_spots + 1) * sizeof(*res->spots));
+	if (!res->spots)
+		return SCH_ERR_NOMEM;
+	for (size_t s = 0; s < opt->n_spots; s++) {
+		struct sch_spot *sp = &res->spots[s];
+		double f = opt->spots_hz[s];
+		if (!(f >= lo * (1 - 1e-9) && f <= hi * (1 + 1e-9)))
+			return sch_diag_error(d, SCH_ERR_USAGE, NULL, 0, "spot frequency %g Hz is outside the simulated range %g:%g Hz",
+					      f, lo, hi);
+		sp->freq_hz = f;
+		sp->output_v_per_rthz = sqrt(fabs(sch_spectra_at(res->freq_hz, res->total_psd, nf, f)));
+		sp->input_per_rthz = sqrt(fabs(sch_spectra_at(res->freq_hz, input_psd, nf, f)));
+		sp->nep_w_per_rthz = NAN;
+		if (!isnan(opt->responsivity_a_per_w) && strcmp(res->input_unit, "A") == 0)
+			sp->nep_w_per_rthz = sp->input_per_rthz / opt->responsivity_a_per_w;
+	}
+	for (size_t c = 0; c < res->n_contributions; c++) {
+		struct sch_contribution *ct = &res->contributions[c];
+		ct->spot_density = sch_arena_alloc(a, (opt->n_spots + 1) * sizeof(double));
+		if (!ct->spot_density)
+			return SCH_ERR_NOMEM;
+		for (size_t s = 0; s < opt->n_spots; s++)
+			ct->spot_density[s] = sqrt(fabs(sch_spectra_at(res->freq_hz, ct->psd, nf, opt->spots_hz[s])));
+	}
+	return SCH_OK;
+}
+
+enum sch_err sch_analysis_run(const char *path, const struct sch_run_options *opt, struct sch_result *res,
+			      struct sch_diag *d)
+{
+	struct sch_arena *a = &res->arena;
+	struct noise_plan plan;
+	struct sch_augment_options aopt = { NULL, false, false };
+	struct sch_augmented aug;
+	struct quantity_plan q;
+	struct mapping m;
+	struct strlist notes = { NULL, 0, 0 };
+	struct sch_sim_request req;
+	struct sch_sim_step step;
+	struct sch_sim_result sim;
+	const char *commands[1];
+	enum sch_err ret;
+
+	memset(&sim, 0, sizeof(sim));
+	memset(&m, 0, sizeof(m));
+	memset(&plan, 0, sizeof(plan));
+	res->netlist = sch_arena_strdup(a, path);
+	if ((ret = sch_deck_load(&res->deck, path, d)) != SCH_OK)
+		goto out;
+	if ((ret = sch_carriers_find(&res->deck, &opt->carriers, a, &res->set, d)) != SCH_OK)
+		goto out;
+	if (opt->mode == SCH_RUN_REPORT) {
+		if ((ret = plan_noise(&res->deck, opt, a, &plan, d)) != SCH_OK)
+			goto out;
+		res->output = plan.output;
+		res->input = plan.input;
+		res->input_unit = plan.letter == 'i' ? "A" : "V";
+		if (plan.needs_ac) {
+			aopt.ac_source = plan.input;
+			if ((ret = add_notes(res, &notes, sch_arena_printf(a, "input source '%s' has no AC value: AC 1 supplied "
+									   "for the run (the netlist file is unchanged)",
+									   plan.input))) != SCH_OK)
+				goto out;
+		}
+		aopt.junction_probes = opt->junction_correction;
+	}
+	if ((ret = sch_augment_build(&res->deck, &res->set, &aopt, a, &aug, d)) != SCH_OK)
+		goto out;
+	if ((ret = plan_quantities(res, &aug, &q)) != SCH_OK)
+		goto out;
+	commands[0] = opt->mode == SCH_RUN_REPORT ? plan.command : "op";
+	step.commands = commands;
+	step.n_commands = 1;
+	memset(&req, 0, sizeof(req));
+	req.lines = aug.lines;
+	req.n_lines = aug.n_lines;
+	req.steps = &step;
+	req.n_steps = 1;
+	req.quantities = q.names.v;
+	req.n_quantities = q.names.n;
+	req.collect_noise = opt->mode == SCH_RUN_REPORT;
+	req.squared_noise = true;
+	req.n_workers = 1;
+	if ((ret = sch_sim_run(&req, &sim, d)) != SCH_OK)
+		goto out;
+	res->sim_version = sch_arena_strdup(a, sim.version ? sim.version : "ngspice");
+	if ((ret = take_operating_point(res, &q, &sim.steps[0], d)) != SCH_OK)
+		goto out;
+	if (opt->mode == SCH_RUN_REPORT) {
+		if ((ret = build_mapping(res, &aug, &m)) != SCH_OK)
+			goto out;
+		if ((ret = take_noise(res, opt, &q, &sim.steps[0], &m, &notes, d)) != SCH_OK)
+			goto out;
+		if ((ret = integrate(res, opt, d)) != SCH_OK)
+			goto out;
+	}
+	if ((ret = add_notes(res, &notes, sch_arena_printf(a, "added generators sized 2q|I|G with the exact SI 2019 q = %.10g C "
+							      "at the circuit temperature %.2f K",
+							      SCH_Q, res->temp_k))) != SCH_OK)
+		goto out;
+	res->notes = notes.v;
+	res->n_notes = notes.n;
+	ret = SCH_OK;
+out:
+	sch_strmap_release(&m.devices);
+	sch_strmap_release(&m.probes);
+	sch_sim_result_release(&sim);
+	return ret;
+}
