@@ -1,0 +1,138 @@
+/* SPDX-License-Identifier: BSD-3-Clause */
+/* outfile.c - atomic output files: a mkstemp file beside the target, renamed over it on commit. */
+#include <errno.h>
+#include <stdlib.h>
+#include <string.h>
+#include <sys/stat.h>
+#include <unistd.h>
+#include "schrot/outfile.h"
+
+static void outfile_clear(struct sch_outfile *o)
+{
+	free(o->path);
+	free(o->tmp_path);
+	o->fp = NULL;
+	o->path = NULL;
+	o->tmp_path = NULL;
+	o->is_stdout = false;
+}
+
+/*
+ * mkstemp creates 0600; an output file should get the permissions a plain fopen would give it
+ * (or keep those of the file it replaces), or make rules and other users could not read it.
+ */
+static mode_t target_mode(const char *path)
+{
+	struct stat st;
+	mode_t mask;
+
+	if (stat(path, &st) == 0 && S_ISREG(st.st_mode))
+		return st.st_mode & 07777;
+	mask = umask(022);
+	umask(mask);
+	return 0666 & ~mask;
+}
+
+enum sch_err sch_outfile_open(struct sch_outfile *o, const char *path, struct sch_diag *d)
+{
+	enum sch_err ret = SCH_ERR_IO;
+	size_t len;
+	int fd = -1;
+
+	o->fp = NULL;
+	o->path = NULL;
+	o->tmp_path = NULL;
+	o->is_stdout = false;
+	if (!path || !*path) {
+		ret = sch_diag_error(d, SCH_ERR_USAGE, NULL, 0, "empty output file name");
+		goto out;
+	}
+	o->path = strdup(path);
+	if (!o->path) {
+		ret = SCH_ERR_NOMEM;
+		goto out;
+	}
+	if (strcmp(path, "-") == 0) {
+		o->fp = stdout;
+		o->is_stdout = true;
+		ret = SCH_OK;
+		goto out;
+	}
+	len = strlen(path);
+	o->tmp_path = malloc(len + sizeof(".tmpXXXXXX"));
+	if (!o->tmp_path) {
+		ret = SCH_ERR_NOMEM;
+		goto out;
+	}
+	memcpy(o->tmp_path, path, len);
+	memcpy(o->tmp_path + len, ".tmpXXXXXX", sizeof(".tmpXXXXXX"));
+	fd = mkstemp(o->tmp_path);
+	if (fd < 0) {
+		ret = sch_diag_error(d, SCH_ERR_IO, path, 0, "cannot create output file: %s", strerror(errno));
+		free(o->tmp_path);
+		o->tmp_path = NULL;
+		goto out;
+	}
+	(void)fchmod(fd, target_mode(path));
+	o->fp = fdopen(fd, "w");
+	if (!o->fp) {
+		ret = sch_diag_error(d, SCH_ERR_IO, path, 0, "cannot open output file: %s", strerror(errno));
+		close(fd);
+		remove(o->tmp_path);
+		goto out;
+	}
+	ret = SCH_OK;
+out:
+	if (ret != SCH_OK)
+		outfile_clear(o);
+	return ret;
+}
+
+enum sch_err sch_outfile_commit(struct sch_outfile *o, struct sch_diag *d)
+{
+	enum sch_err ret = SCH_ERR_IO;
+	int failed;
+
+	if (!o->fp)
+		return sch_diag_error(d, SCH_ERR_IO, o->path, 0, "output file is not open");
+	if (o->is_stdout) {
+		if (fflush(stdout) != 0 || ferror(stdout))
+			ret = sch_diag_error(d, SCH_ERR_IO, NULL, 0, "cannot write to standard output: %s",
+					     strerror(errno));
+		else
+			ret = SCH_OK;
+		goto out;
+	}
+	failed = ferror(o->fp) != 0;
+	if (fclose(o->fp) != 0)
+		failed = 1;
+	o->fp = NULL;
+	if (failed) {
+		ret = sch_diag_error(d, SCH_ERR_IO, o->path, 0, "cannot write output file: %s",
+				     errno ? strerror(errno) : "write error");
+		remove(o->tmp_path);
+		goto out;
+	}
+	if (rename(o->tmp_path, o->path) != 0) {
+		ret = sch_diag_error(d, SCH_ERR_IO, o->path, 0, "cannot replace output file: %s", strerror(errno));
+		remove(o->tmp_path);
+		goto out;
+	}
+	ret = SCH_OK;
+out:
+	outfile_clear(o);
+	return ret;
+}
+
+void sch_outfile_abort(struct sch_outfile *o)
+{
+	if (!o)
+		return;
+	if (o->fp && !o->is_stdout)
+		fclose(o->fp);
+	else if (o->fp)
+		fflush(stdout);
+	if (o->tmp_path)
+		remove(o->tmp_path);
+	outfile_clear(o);
+}

@@ -1,0 +1,35 @@
+/* SPDX-License-Identifier: BSD-3-Clause */
+/* report_int.h - helpers shared by the report writers (labels, counts, the in-memory SVG plot). */
+#ifndef SCH_REPORT_INT_H
+#define SCH_REPORT_INT_H
+
+#include <stddef.h>
+#include "schrot/analysis.h"
+#include "schrot/buf.h"
+
+/* Largest report file we build in memory (HTML page, inline SVG). */
+#define SCH_REPORT_MAX_BYTES ((size_t)256 << 20)
+
+/* Number of curves the plot draws besides the total. */
+#define SCH_PLOT_TOP 6
+
+/* "x1.iph shot": device and generator, the name a contribution goes by in legends and headers. */
+void sch_report_label(const struct sch_contribution *c, char *out, size_t size);
+
+/* min(n, number of contributions); n < 0 means all. */
+size_t sch_report_top_count(const struct sch_result *r, int n);
+
+/* 10*log10(ratio), NaN for a ratio that is not positive and finite. */
+double sch_report_db(double ratio);
+
+/* Terminal display width of UTF-8 text (one column per code point). */
+size_t sch_report_width(const char *s);
+
+/*
+ * Renders the plot of r as SVG text appended to out (no XML prolog removed). Returns SCH_ERR_IO
+ * when cairo fails, SCH_ERR_NOMEM, SCH_ERR_USAGE when r has no noise spectrum; out keeps what was
+ * appended so far on failure and is the caller's to release.
+ */
+enum sch_err sch_report_plot_svg(const struct sch_result *r, struct sch_buf *out);
+
+#endif

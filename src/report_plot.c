@@ -1,0 +1,473 @@
+/* SPDX-License-Identifier: BSD-3-Clause */
+/*
+ * report_plot.c - the noise density plot (cairo, the only file that draws): log-log output density
+ * of the total and the largest contributions, decade grid, band shaded; as SVG or PNG.
+ */
+#include <cairo-svg.h>
+#include <cairo.h>
+#include <ctype.h>
+#include <math.h>
+#include <stdbool.h>
+#include <stdio.h>
+#include <string.h>
+#include "schrot/outfile.h"
+#include "schrot/report.h"
+#include "schrot/si.h"
+#include "report_int.h"
+
+#define PLOT_W 960.0
+#define PLOT_H 560.0
+#define AREA_L 92.0
+#define AREA_T 70.0
+#define AREA_R (PLOT_W - 262.0)
+#define AREA_B (PLOT_H - 62.0)
+#define MAX_DECADES_Y 7
+#define FONT "DejaVu Sans"
+
+struct rgb {
+	double r, g, b;
+};
+
+/* Colour-blind-safe hues, distinct on white and in greyscale print order. */
+static const struct rgb palette[SCH_PLOT_TOP] = {
+	{ 0.00, 0.45, 0.70 }, { 0.84, 0.37, 0.00 }, { 0.00, 0.62, 0.45 },
+	{ 0.80, 0.47, 0.65 }, { 0.90, 0.62, 0.00 }, { 0.34, 0.71, 0.91 },
+};
+
+/* Axis mapping, decades as plotted. */
+struct axes {
+	double x_lo, x_hi; /* log10 Hz */
+	double y_lo, y_hi; /* log10 V/√Hz */
+};
+
+static double map_x(const struct axes *ax, double f)
+{
+	return AREA_L + (log10(f) - ax->x_lo) / (ax->x_hi - ax->x_lo) * (AREA_R - AREA_L);
+}
+
+static double map_y(const struct axes *ax, double v)
+{
+	return AREA_B - (log10(v) - ax->y_lo) / (ax->y_hi - ax->y_lo) * (AREA_B - AREA_T);
+}
+
+static double density(const double *psd, size_t k)
+{
+	return psd ? sqrt(fabs(psd[k])) : NAN;
+}
+
+static void widen(double v, double *lo, double *hi)
+{
+	if (!(v > 0) || !isfinite(v))
+		return;
+	if (v < *lo)
+		*lo = v;
+	if (v > *hi)
+		*hi = v;
+}
+
+static bool pick_axes(const struct sch_result *r, size_t top, struct axes *ax)
+{
+	double f_lo = INFINITY, f_hi = 0, v_lo = INFINITY, v_hi = 0, t_lo = INFINITY, t_hi = 0;
+
+	for (size_t k = 0; k < r->n_freq; k++) {
+		widen(r->freq_hz[k], &f_lo, &f_hi);
+		widen(density(r->total_psd, k), &t_lo, &t_hi);
+		for (size_t i = 0; i < top; i++)
+			widen(density(r->contributions[i].psd, k), &v_lo, &v_hi);
+	}
+	if (!(f_hi > 0) || !(t_hi > 0 || v_hi > 0))
+		return false;
+	widen(t_lo, &v_lo, &v_hi);
+	widen(t_hi, &v_lo, &v_hi);
+	ax->x_lo = floor(log10(f_lo) + 1e-9);
+	ax->x_hi = ceil(log10(f_hi) - 1e-9);
+	if (ax->x_hi <= ax->x_lo)
+		ax->x_hi = ax->x_lo + 1;
+	ax->y_hi = ceil(log10(v_hi) + 0.05);
+	ax->y_lo = floor(log10(v_lo) - 0.05);
+	/* A contribution far below the total carries no information worth the vertical space. */
+	if (ax->y_lo < ax->y_hi - MAX_DECADES_Y)
+		ax->y_lo = ax->y_hi - MAX_DECADES_Y;
+	if (t_lo < INFINITY && ax->y_lo > floor(log10(t_lo)))
+		ax->y_lo = floor(log10(t_lo));
+	if (ax->y_hi - ax->y_lo < 2)
+		ax->y_lo = ax->y_hi - 2;
+	return true;
+}
+
+/* "100 n", "1 k", "10 M": a decade's value with an SI prefix and no unit. */
+static void decade_label(char *out, size_t size, int e)
+{
+	static const char *const prefix[] = { "a", "f", "p", "n", "µ", "m", "", "k", "M", "G", "T" };
+	int p = (int)floor(e / 3.0);
+	int m = e - 3 * p;
+
+	if (p < -6 || p > 4) {
+		snprintf(out, size, "1e%d", e);
+		return;
+	}
+	snprintf(out, size, "%d%s%s", m == 0 ? 1 : m == 1 ? 10 : 100, p ? " " : "", prefix[p + 6]);
+}
+
+static void set_colour(cairo_t *cr, double r, double g, double b)
+{
+	cairo_set_source_rgb(cr, r, g, b);
+}
+
+static void text_at(cairo_t *cr, double x, double y, const char *s, double align_x, double align_y)
+{
+	cairo_text_extents_t te;
+
+	cairo_text_extents(cr, s, &te);
+	cairo_move_to(cr, x - te.x_advance * align_x, y + te.height * align_y);
+	cairo_show_text(cr, s);
+}
+
+/* Shortens s (UTF-8) with "…" until it fits max_w at the current font. */
+static void fit_text(cairo_t *cr, const char *s, double max_w, char *out, size_t size)
+{
+	cairo_text_extents_t te;
+	size_t len;
+
+	snprintf(out, size, "%s", s);
+	cairo_text_extents(cr, out, &te);
+	if (te.x_advance <= max_w)
+		return;
+	len = strlen(out);
+	while (len > 0) {
+		do
+			len--;
+		while (len > 0 && ((unsigned char)out[len] & 0xC0) == 0x80);
+		if (len + 4 > size)
+			continue;
+		memcpy(out + len, "…", sizeof("…"));
+		cairo_text_extents(cr, out, &te);
+		if (te.x_advance <= max_w)
+			return;
+	}
+}
+
+static void draw_band(cairo_t *cr, const struct sch_result *r, const struct axes *ax)
+{
+	double lo = r->band_lo_hz, hi = r->band_hi_hz;
+	double x0, x1;
+	char a[48], b[48], s[128];
+
+	if (!(lo > 0) || !(hi > lo))
+		return;
+	x0 = fmax(map_x(ax, lo), AREA_L);
+	x1 = fmin(map_x(ax, hi), AREA_R);
+	if (x1 <= x0)
+		return;
+	cairo_rectangle(cr, x0, AREA_T, x1 - x0, AREA_B - AREA_T);
+	cairo_set_source_rgb(cr, 1.0, 0.95, 0.80);
+	cairo_fill(cr);
+	cairo_set_font_size(cr, 11);
+	set_colour(cr, 0.55, 0.42, 0.10);
+	snprintf(s, sizeof(s), "band %s – %s", sch_si_format(a, sizeof(a), lo, 3, "Hz"),
+		 sch_si_format(b, sizeof(b), hi, 3, "Hz"));
+	text_at(cr, (x0 + x1) / 2, AREA_T - 6, s, 0.5, 0);
+}
+
+static void draw_grid(cairo_t *cr, const struct axes *ax)
+{
+	char s[32];
+	int nx = (int)(ax->x_hi - ax->x_lo), ny = (int)(ax->y_hi - ax->y_lo);
+	int x_step = nx > 9 ? 2 : 1, y_step = ny > 9 ? 2 : 1;
+
+	cairo_set_line_width(cr, 0.6);
+	set_colour(cr, 0.90, 0.90, 0.90);
+	for (int e = (int)ax->x_lo; e < (int)ax->x_hi; e++)
+		for (int m = 2; m <= 9; m++) {
+			double x = map_x(ax, m * pow(10, e));
+			cairo_move_to(cr, x, AREA_T);
+			cairo_line_to(cr, x, AREA_B);
+		}
+	for (int e = (int)ax->y_lo; e < (int)ax->y_hi; e++)
+		for (int m = 2; m <= 9; m++) {
+			double y = map_y(ax, m * pow(10, e));
+			cairo_move_to(cr, AREA_L, y);
+			cairo_line_to(cr, AREA_R, y);
+		}
+	cairo_stroke(cr);
+	cairo_set_line_width(cr, 1.0);
+	set_colour(cr, 0.70, 0.70, 0.70);
+	for (int e = (int)ax->x_lo + 1; e < (int)ax->x_hi; e++) {
+		double x = map_x(ax, pow(10, e));
+		cairo_move_to(cr, x, AREA_T);
+		cairo_line_to(cr, x, AREA_B);
+	}
+	for (int e = (int)ax->y_lo + 1; e < (int)ax->y_hi; e++) {
+		double y = map_y(ax, pow(10, e));
+		cairo_move_to(cr, AREA_L, y);
+		cairo_line_to(cr, AREA_R, y);
+	}
+	cairo_stroke(cr);
+	cairo_set_font_size(cr, 12);
+	set_colour(cr, 0.15, 0.15, 0.15);
+	for (int e = (int)ax->x_lo; e <= (int)ax->x_hi; e += x_step) {
+		decade_label(s, sizeof(s), e);
+		text_at(cr, map_x(ax, pow(10, e)), AREA_B + 8, s, 0.5, 1.0);
+	}
+	for (int e = (int)ax->y_lo; e <= (int)ax->y_hi; e += y_step) {
+		cairo_text_extents_t te;
+		decade_label(s, sizeof(s), e);
+		cairo_text_extents(cr, s, &te);
+		cairo_move_to(cr, AREA_L - 8 - te.x_advance, map_y(ax, pow(10, e)) + 4.5);
+		cairo_show_text(cr, s);
+	}
+}
+
+static void draw_frame_and_titles(cairo_t *cr, const struct sch_result *r)
+{
+	char a[48], s[600];
+	const char *name = r->netlist ? r->netlist : "";
+	const char *slash = strrchr(name, '/');
+
+	cairo_set_line_width(cr, 1.2);
+	set_colour(cr, 0.2, 0.2, 0.2);
+	cairo_rectangle(cr, AREA_L, AREA_T, AREA_R - AREA_L, AREA_B - AREA_T);
+	cairo_stroke(cr);
+	cairo_set_font_size(cr, 13);
+	text_at(cr, (AREA_L + AREA_R) / 2, PLOT_H - 18, "frequency (Hz)", 0.5, 0);
+	cairo_save(cr);
+	cairo_move_to(cr, 24, (AREA_T + AREA_B) / 2);
+	cairo_rotate(cr, -M_PI / 2);
+	{
+		cairo_text_extents_t te;
+		const char *t = "output noise density (V/√Hz)";
+		cairo_text_extents(cr, t, &te);
+		cairo_rel_move_to(cr, -te.x_advance / 2, 0);
+		cairo_show_text(cr, t);
+	}
+	cairo_restore(cr);
+	cairo_select_font_face(cr, FONT, CAIRO_FONT_SLANT_NORMAL, CAIRO_FONT_WEIGHT_BOLD);
+	cairo_set_font_size(cr, 15);
+	set_colour(cr, 0.05, 0.05, 0.05);
+	fit_text(cr, slash ? slash + 1 : name, AREA_R - AREA_L, s, sizeof(s));
+	cairo_move_to(cr, AREA_L, 24);
+	cairo_show_text(cr, s);
+	cairo_select_font_face(cr, FONT, CAIRO_FONT_SLANT_NORMAL, CAIRO_FONT_WEIGHT_NORMAL);
+	cairo_set_font_size(cr, 12);
+	set_colour(cr, 0.30, 0.30, 0.30);
+	{
+		char line[700];
+		snprintf(line, sizeof(line), "noise at %s: %s rms in the band", r->output ? r->output : "the output",
+			 sch_si_format(a, sizeof(a), r->output_rms_v, 3, "V"));
+		fit_text(cr, line, PLOT_W - AREA_L - 20, s, sizeof(s));
+	}
+	cairo_move_to(cr, AREA_L, 42);
+	cairo_show_text(cr, s);
+}
+
+static void curve(cairo_t *cr, const struct sch_result *r, const struct axes *ax, const double *psd)
+{
+	bool pen = false;
+
+	for (size_t k = 0; k < r->n_freq; k++) {
+		double f = r->freq_hz[k], v = density(psd, k);
+		if (!(f > 0) || !(v > 0) || !isfinite(v)) {
+			pen = false;
+			continue;
+		}
+		if (pen)
+			cairo_line_to(cr, map_x(ax, f), map_y(ax, v));
+		else
+			cairo_move_to(cr, map_x(ax, f), map_y(ax, v));
+		pen = true;
+	}
+	cairo_stroke(cr);
+}
+
+static void line_style(cairo_t *cr, size_t i, bool total, bool dashed)
+{
+	static const double dash[] = { 6.0, 3.5 };
+
+	if (total) {
+		set_colour(cr, 0.05, 0.05, 0.05);
+		cairo_set_line_width(cr, 3.0);
+	} else {
+		set_colour(cr, palette[i].r, palette[i].g, palette[i].b);
+		cairo_set_line_width(cr, 1.7);
+	}
+	cairo_set_dash(cr, dash, dashed ? 2 : 0, 0);
+}
+
+static void draw_curves(cairo_t *cr, const struct sch_result *r, const struct axes *ax, size_t top)
+{
+	cairo_save(cr);
+	cairo_rectangle(cr, AREA_L, AREA_T, AREA_R - AREA_L, AREA_B - AREA_T);
+	cairo_clip(cr);
+	cairo_set_line_join(cr, CAIRO_LINE_JOIN_ROUND);
+	cairo_set_line_cap(cr, CAIRO_LINE_CAP_ROUND);
+	for (size_t i = top; i-- > 0;) {
+		line_style(cr, i, false, r->contributions[i].origin == SCH_ORIGIN_CORRECTION);
+		curve(cr, r, ax, r->contributions[i].psd);
+	}
+	line_style(cr, 0, true, false);
+	curve(cr, r, ax, r->total_psd);
+	cairo_restore(cr);
+}
+
+static void legend_entry(cairo_t *cr, double y, const char *name, const char *detail)
+{
+	const double x = AREA_R + 18;
+	char s[600];
+
+	cairo_move_to(cr, x, y);
+	cairo_line_to(cr, x + 26, y);
+	cairo_stroke(cr);
+	cairo_set_dash(cr, NULL, 0, 0);
+	set_colour(cr, 0.08, 0.08, 0.08);
+	cairo_set_font_size(cr, 12);
+	fit_text(cr, name, PLOT_W - x - 40, s, sizeof(s));
+	cairo_move_to(cr, x + 34, y + 4);
+	cairo_show_text(cr, s);
+	set_colour(cr, 0.40, 0.40, 0.40);
+	cairo_set_font_size(cr, 10.5);
+	cairo_move_to(cr, x + 34, y + 18);
+	cairo_show_text(cr, detail);
+}
+
+static void draw_legend(cairo_t *cr, const struct sch_result *r, size_t top)
+{
+	char name[512], detail[160], rms[48];
+	double y = AREA_T + 10;
+
+	line_style(cr, 0, true, false);
+	snprintf(detail, sizeof(detail), "%s rms", sch_si_format(rms, sizeof(rms), r->output_rms_v, 3, "V"));
+	legend_entry(cr, y, "total", detail);
+	for (size_t i = 0; i < top; i++) {
+		const struct sch_contribution *c = &r->contributions[i];
+		y += 40;
+		line_style(cr, i, false, c->origin == SCH_ORIGIN_CORRECTION);
+		sch_report_label(c, name, sizeof(name));
+		snprintf(detail, sizeof(detail), "%.1f %% · %s rms%s", 100.0 * c->share,
+			 sch_si_format(rms, sizeof(rms), c->output_rms_v, 3, "V"),
+			 c->origin == SCH_ORIGIN_CORRECTION ? " (correction)" : "");
+		legend_entry(cr, y, name, detail);
+	}
+	if (r->n_contributions > top) {
+		set_colour(cr, 0.40, 0.40, 0.40);
+		cairo_set_font_size(cr, 10.5);
+		snprintf(detail, sizeof(detail), "%zu smaller contributions not drawn", r->n_contributions - top);
+		cairo_move_to(cr, AREA_R + 18, y + 42);
+		cairo_show_text(cr, detail);
+	}
+}
+
+/* Draws the whole figure; SCH_ERR_USAGE when there is nothing to plot. */
+static enum sch_err draw(cairo_t *cr, const struct sch_result *r)
+{
+	struct axes ax;
+	size_t top = sch_report_top_count(r, SCH_PLOT_TOP);
+
+	if (r->n_freq == 0 || !pick_axes(r, top, &ax))
+		return SCH_ERR_USAGE;
+	cairo_set_source_rgb(cr, 1, 1, 1);
+	cairo_paint(cr);
+	cairo_select_font_face(cr, FONT, CAIRO_FONT_SLANT_NORMAL, CAIRO_FONT_WEIGHT_NORMAL);
+	draw_band(cr, r, &ax);
+	draw_grid(cr, &ax);
+	draw_curves(cr, r, &ax, top);
+	draw_frame_and_titles(cr, r);
+	draw_legend(cr, r, top);
+	return cairo_status(cr) == CAIRO_STATUS_SUCCESS ? SCH_OK : SCH_ERR_IO;
+}
+
+static cairo_status_t write_file(void *closure, const unsigned char *data, unsigned int length)
+{
+	return fwrite(data, 1, length, closure) == length ? CAIRO_STATUS_SUCCESS : CAIRO_STATUS_WRITE_ERROR;
+}
+
+static cairo_status_t write_buf(void *closure, const unsigned char *data, unsigned int length)
+{
+	return sch_buf_add(closure, (const char *)data, length) == SCH_OK ? CAIRO_STATUS_SUCCESS
+									   : CAIRO_STATUS_NO_MEMORY;
+}
+
+/* Renders onto surface and finishes it; SCH_ERR_IO when cairo reports a failure. */
+static enum sch_err render(cairo_surface_t *surface, const struct sch_result *r)
+{
+	enum sch_err ret;
+	cairo_t *cr = cairo_create(surface);
+
+	ret = draw(cr, r);
+	cairo_destroy(cr);
+	cairo_surface_flush(surface);
+	if (ret == SCH_OK && cairo_surface_status(surface) != CAIRO_STATUS_SUCCESS)
+		ret = SCH_ERR_IO;
+	return ret;
+}
+
+enum sch_err sch_report_plot_svg(const struct sch_result *r, struct sch_buf *out)
+{
+	cairo_surface_t *surface = cairo_svg_surface_create_for_stream(write_buf, out, PLOT_W, PLOT_H);
+	enum sch_err ret = render(surface, r);
+
+	cairo_surface_finish(surface);
+	if (ret == SCH_OK && cairo_surface_status(surface) != CAIRO_STATUS_SUCCESS)
+		ret = cairo_surface_status(surface) == CAIRO_STATUS_NO_MEMORY ? SCH_ERR_NOMEM : SCH_ERR_IO;
+	cairo_surface_destroy(surface);
+	return ret;
+}
+
+static bool has_ext(const char *path, const char *ext)
+{
+	size_t n = strlen(path), e = strlen(ext);
+
+	if (n <= e)
+		return false;
+	for (size_t i = 0; i < e; i++)
+		if (tolower((unsigned char)path[n - e + i]) != ext[i])
+			return false;
+	return true;
+}
+
+enum sch_err sch_report_plot(const struct sch_result *r, const char *path, struct sch_diag *d)
+{
+	enum sch_err ret = SCH_ERR_USAGE;
+	struct sch_outfile o;
+	cairo_surface_t *surface = NULL;
+	bool svg = has_ext(path, ".svg"), open = false;
+
+	if (!svg && !has_ext(path, ".png")) {
+		ret = sch_diag_error(d, SCH_ERR_USAGE, path, 0, "plot file name must end in .svg or .png");
+		goto out;
+	}
+	if (r->n_freq == 0) {
+		ret = sch_diag_error(d, SCH_ERR_USAGE, path, 0, "the plot needs a noise analysis");
+		goto out;
+	}
+	ret = sch_outfile_open(&o, path, d);
+	if (ret != SCH_OK)
+		goto out;
+	open = true;
+	if (svg)
+		surface = cairo_svg_surface_create_for_stream(write_file, o.fp, PLOT_W, PLOT_H);
+	else
+		surface = cairo_image_surface_create(CAIRO_FORMAT_RGB24, (int)PLOT_W, (int)PLOT_H);
+	ret = render(surface, r);
+	if (ret == SCH_ERR_USAGE) {
+		ret = sch_diag_error(d, ret, path, 0, "nothing to plot: no positive noise density");
+		goto out;
+	}
+	if (ret == SCH_OK && !svg && cairo_surface_write_to_png_stream(surface, write_file, o.fp) != CAIRO_STATUS_SUCCESS)
+		ret = SCH_ERR_IO;
+	cairo_surface_finish(surface);
+	if (ret == SCH_OK && cairo_surface_status(surface) != CAIRO_STATUS_SUCCESS)
+		ret = SCH_ERR_IO;
+	if (ret != SCH_OK) {
+		ret = sch_diag_error(d, ret, path, 0, "cannot draw the plot: %s",
+				     cairo_status_to_string(cairo_surface_status(surface)));
+		goto out;
+	}
+	open = false;
+	ret = sch_outfile_commit(&o, d);
+out:
+	if (surface)
+		cairo_surface_destroy(surface);
+	if (open)
+		sch_outfile_abort(&o);
+	return ret;
+}

@@ -1,0 +1,402 @@
+/* SPDX-License-Identifier: BSD-3-Clause */
+/*
+ * report_table.c - the terminal views of a result: the noise report (headline figures, then the
+ * ranked contributions) and the carrier list; plus the small helpers the other writers share.
+ */
+#include <math.h>
+#include <stdbool.h>
+#include <stdio.h>
+#include <stdlib.h>
+#include <string.h>
+#include "schrot/arena.h"
+#include "schrot/physics.h"
+#include "schrot/report.h"
+#include "schrot/si.h"
+#include "report_int.h"
+
+#define GAP "  "
+
+void sch_report_label(const struct sch_contribution *c, char *out, size_t size)
+{
+	const char *dev = c->device ? c->device : "?";
+
+	if (c->generator && *c->generator)
+		snprintf(out, size, "%s %s", dev, c->generator);
+	else
+		snprintf(out, size, "%s", dev);
+}
+
+size_t sch_report_top_count(const struct sch_result *r, int n)
+{
+	if (n < 0 || (size_t)n > r->n_contributions)
+		return r->n_contributions;
+	return (size_t)n;
+}
+
+double sch_report_db(double ratio)
+{
+	if (!(ratio > 0) || isinf(ratio))
+		return NAN;
+	return 10.0 * log10(ratio);
+}
+
+size_t sch_report_width(const char *s)
+{
+	size_t w = 0;
+
+	for (; *s; s++)
+		if (((unsigned char)*s & 0xC0) != 0x80)
+			w++;
+	return w;
+}
+
+/* A grid of text cells in an arena; row 0 is the heading. */
+struct grid {
+	struct sch_arena arena;
+	size_t n_rows, n_cols;
+	const char **cell;
+	bool *right;
+};
+
+static enum sch_err grid_init(struct grid *g, size_t n_rows, size_t n_cols)
+{
+	sch_arena_init(&g->arena);
+	g->n_rows = n_rows;
+	g->n_cols = n_cols;
+	g->cell = sch_arena_alloc(&g->arena, n_rows * n_cols * sizeof(*g->cell) + 1);
+	g->right = sch_arena_alloc(&g->arena, n_cols * sizeof(*g->right) + 1);
+	return g->cell && g->right ? SCH_OK : SCH_ERR_NOMEM;
+}
+
+static void grid_set(struct grid *g, size_t row, size_t col, const char *text)
+{
+	const char *copy = sch_arena_strdup(&g->arena, text ? text : "");
+
+	g->cell[row * g->n_cols + col] = copy ? copy : "?";
+}
+
+static void put_pad(FILE *out, size_t n)
+{
+	while (n--)
+		fputc(' ', out);
+}
+
+/* Prints the grid with every column as wide as its widest cell; a rule under the heading. */
+static enum sch_err grid_print(struct grid *g, FILE *out, const char *indent)
+{
+	size_t *width = sch_arena_alloc(&g->arena, g->n_cols * sizeof(*width) + 1);
+	size_t total = 0;
+
+	if (!width)
+		return SCH_ERR_NOMEM;
+	for (size_t row = 0; row < g->n_rows; row++)
+		for (size_t col = 0; col < g->n_cols; col++) {
+			const char *s = g->cell[row * g->n_cols + col];
+			size_t w = s ? sch_report_width(s) : 0;
+			if (w > width[col])
+				width[col] = w;
+		}
+	for (size_t col = 0; col < g->n_cols; col++)
+		total += width[col] + (col ? strlen(GAP) : 0);
+	for (size_t row = 0; row < g->n_rows; row++) {
+		fputs(indent, out);
+		for (size_t col = 0; col < g->n_cols; col++) {
+			const char *s = g->cell[row * g->n_cols + col];
+			size_t w;
+			bool last = col + 1 == g->n_cols;
+			if (!s)
+				s = "";
+			w = sch_report_width(s);
+			if (col)
+				fputs(GAP, out);
+			if (g->right[col])
+				put_pad(out, width[col] - w);
+			fputs(s, out);
+			if (!g->right[col] && !last)
+				put_pad(out, width[col] - w);
+		}
+		fputc('\n', out);
+		if (row == 0) {
+			fputs(indent, out);
+			for (size_t i = 0; i < total; i++)
+				fputs("─", out);
+			fputc('\n', out);
+		}
+	}
+	return SCH_OK;
+}
+
+static void grid_release(struct grid *g)
+{
+	sch_arena_release(&g->arena);
+}
+
+static void format_share(char *out, size_t size, double share)
+{
+	double pct = share * 100.0;
+
+	if (isnan(pct))
+		snprintf(out, size, "-");
+	else if (pct == 0 || fabs(pct) >= 0.1)
+		snprintf(out, size, "%.1f %%", pct);
+	else
+		snprintf(out, size, "%.2g %%", pct);
+}
+
+static const char *or_dash(const char *s)
+{
+	return s && *s ? s : "-";
+}
+
+static void print_item(FILE *out, const char *key, const char *value)
+{
+	fprintf(out, "  %-17s %s\n", key, value);
+}
+
+static void print_headline(const struct sch_result *r, FILE *out)
+{
+	char a[64], b[64], line[512];
+	const char *unit = or_dash(r->input_unit);
+
+	fprintf(out, "schrot noise report: %s\n", or_dash(r->netlist));
+	snprintf(line, sizeof(line), "%.2f K (%.2f °C)", r->temp_k, r->temp_k - SCH_ZERO_C_K);
+	print_item(out, "temperature", line);
+	print_item(out, "output", or_dash(r->output));
+	snprintf(line, sizeof(line), "%s (%s source)", or_dash(r->input),
+		 r->input_unit && strcmp(r->input_unit, "A") == 0   ? "current"
+		 : r->input_unit && strcmp(r->input_unit, "V") == 0 ? "voltage"
+								    : "unknown");
+	print_item(out, "input", line);
+	snprintf(line, sizeof(line), "%s to %s", sch_si_format(a, sizeof(a), r->band_lo_hz, 3, "Hz"),
+		 sch_si_format(b, sizeof(b), r->band_hi_hz, 3, "Hz"));
+	print_item(out, "band", line);
+	snprintf(line, sizeof(line), "%s rms", sch_si_format(a, sizeof(a), r->output_rms_v, 3, "V"));
+	print_item(out, "output noise", line);
+	snprintf(line, sizeof(line), "%s rms", sch_si_format(a, sizeof(a), r->input_rms, 3, unit));
+	print_item(out, "input-referred", line);
+	if (!isnan(r->signal)) {
+		double db = sch_report_db(r->snr);
+		snprintf(line, sizeof(line), "%.4g (%.1f dB) for a signal of %s", r->snr, db,
+			 sch_si_format(a, sizeof(a), r->signal, 3, unit));
+		print_item(out, "SNR", line);
+	}
+	if (r->total_power_v2 > 0 && isfinite(r->carrier_power_v2)) {
+		snprintf(line, sizeof(line), "%.1f %% of the output noise power",
+			 100.0 * r->carrier_power_v2 / r->total_power_v2);
+		print_item(out, "added shot noise", line);
+	}
+}
+
+static enum sch_err print_spots(const struct sch_result *r, FILE *out)
+{
+	struct grid g;
+	enum sch_err ret;
+	bool nep = false;
+	char unit[32], buf[64];
+
+	if (r->n_spots == 0)
+		return SCH_OK;
+	for (size_t i = 0; i < r->n_spots; i++)
+		if (!isnan(r->spots[i].nep_w_per_rthz))
+			nep = true;
+	snprintf(unit, sizeof(unit), "%s/√Hz", or_dash(r->input_unit));
+	ret = grid_init(&g, r->n_spots + 1, nep ? 4 : 3);
+	if (ret != SCH_OK)
+		goto out;
+	grid_set(&g, 0, 0, "spot frequency");
+	grid_set(&g, 0, 1, "output density");
+	grid_set(&g, 0, 2, "input-referred");
+	if (nep)
+		grid_set(&g, 0, 3, "NEP");
+	for (size_t col = 0; col < g.n_cols; col++)
+		g.right[col] = true;
+	for (size_t i = 0; i < r->n_spots; i++) {
+		const struct sch_spot *s = &r->spots[i];
+		grid_set(&g, i + 1, 0, sch_si_format(buf, sizeof(buf), s->freq_hz, 3, "Hz"));
+		grid_set(&g, i + 1, 1, sch_si_format(buf, sizeof(buf), s->output_v_per_rthz, 3, "V/√Hz"));
+		grid_set(&g, i + 1, 2, sch_si_format(buf, sizeof(buf), s->input_per_rthz, 3, unit));
+		if (nep)
+			grid_set(&g, i + 1, 3, sch_si_format(buf, sizeof(buf), s->nep_w_per_rthz, 3, "W/√Hz"));
+	}
+	fputc('\n', out);
+	ret = grid_print(&g, out, "  ");
+out:
+	grid_release(&g);
+	return ret;
+}
+
+static enum sch_err print_contributions(const struct sch_result *r, FILE *out)
+{
+	struct grid g;
+	enum sch_err ret;
+	const size_t fixed = 5; /* rank device mechanism origin dc */
+	size_t n_cols = fixed + r->n_spots + 3;
+	double cumulative = 0;
+	char buf[128];
+
+	ret = grid_init(&g, r->n_contributions + 1, n_cols);
+	if (ret != SCH_OK)
+		goto out;
+	grid_set(&g, 0, 0, "#");
+	grid_set(&g, 0, 1, "device");
+	grid_set(&g, 0, 2, "mechanism");
+	grid_set(&g, 0, 3, "origin");
+	grid_set(&g, 0, 4, "DC current");
+	for (size_t j = 0; j < r->n_spots; j++) {
+		char f[64];
+		snprintf(buf, sizeof(buf), "at %s", sch_si_format(f, sizeof(f), r->spots[j].freq_hz, 3, "Hz"));
+		grid_set(&g, 0, fixed + j, buf);
+	}
+	grid_set(&g, 0, n_cols - 3, "band rms");
+	grid_set(&g, 0, n_cols - 2, "share");
+	grid_set(&g, 0, n_cols - 1, "cumulative");
+	g.right[0] = true;
+	for (size_t col = 4; col < n_cols; col++)
+		g.right[col] = true;
+	for (size_t i = 0; i < r->n_contributions; i++) {
+		const struct sch_contribution *c = &r->contributions[i];
+		size_t row = i + 1;
+		snprintf(buf, sizeof(buf), "%zu", row);
+		grid_set(&g, row, 0, buf);
+		grid_set(&g, row, 1, or_dash(c->device));
+		grid_set(&g, row, 2, sch_mechanism_name(c->mechanism));
+		grid_set(&g, row, 3, sch_origin_name(c->origin));
+		grid_set(&g, row, 4, sch_si_format(buf, sizeof(buf), c->dc_current_a, 3, "A"));
+		for (size_t j = 0; j < r->n_spots; j++)
+			grid_set(&g, row, fixed + j,
+				 sch_si_format(buf, sizeof(buf), c->spot_density ? c->spot_density[j] : NAN, 3,
+					       "V/√Hz"));
+		grid_set(&g, row, n_cols - 3, sch_si_format(buf, sizeof(buf), c->output_rms_v, 3, "V"));
+		format_share(buf, sizeof(buf), c->share);
+		grid_set(&g, row, n_cols - 2, buf);
+		cumulative += c->share;
+		format_share(buf, sizeof(buf), cumulative);
+		grid_set(&g, row, n_cols - 1, buf);
+	}
+	fputc('\n', out);
+	fprintf(out, "  noise contributions, largest share of the band's output noise power first\n");
+	ret = grid_print(&g, out, "  ");
+out:
+	grid_release(&g);
+	return ret;
+}
+
+static void print_footer(const struct sch_result *r, FILE *out)
+{
+	if (r->n_notes) {
+		fputc('\n', out);
+		fprintf(out, "  assumptions and corrections\n");
+		for (size_t i = 0; i < r->n_notes; i++)
+			fprintf(out, "    - %s\n", or_dash(r->notes[i]));
+	}
+	if (r->sim_version)
+		fprintf(out, "\n  simulated with ngspice %s\n", r->sim_version);
+}
+
+enum sch_err sch_report_table(const struct sch_result *r, FILE *out)
+{
+	enum sch_err ret;
+
+	if (r->n_freq == 0) {
+		fprintf(out, "schrot noise report: %s\n  no noise analysis in this result\n", or_dash(r->netlist));
+		ret = SCH_OK;
+		goto out;
+	}
+	print_headline(r, out);
+	ret = print_spots(r, out);
+	if (ret != SCH_OK)
+		goto out;
+	ret = print_contributions(r, out);
+	if (ret != SCH_OK)
+		goto out;
+	print_footer(r, out);
+	ret = SCH_OK;
+out:
+	if (ret == SCH_OK && (fflush(out) != 0 || ferror(out)))
+		ret = SCH_ERR_IO;
+	return ret;
+}
+
+static enum sch_err print_carriers(const struct sch_result *r, FILE *out)
+{
+	const struct sch_carrier_set *set = &r->set;
+	struct grid g;
+	enum sch_err ret;
+	char buf[128];
+
+	if (set->n_carriers == 0) {
+		fprintf(out, "  no shot-noise carriers found (name rule, diode nodes, --carrier)\n");
+		return SCH_OK;
+	}
+	ret = grid_init(&g, set->n_carriers + 1, 6);
+	if (ret != SCH_OK)
+		goto out;
+	grid_set(&g, 0, 0, "carrier");
+	grid_set(&g, 0, 1, "DC current");
+	grid_set(&g, 0, 2, "shot density");
+	grid_set(&g, 0, 3, "gain M");
+	grid_set(&g, 0, 4, "excess F");
+	grid_set(&g, 0, 5, "chosen because");
+	g.right[1] = g.right[2] = g.right[3] = g.right[4] = true;
+	for (size_t i = 0; i < set->n_carriers; i++) {
+		const struct sch_carrier *c = &set->carriers[i];
+		double density = sqrt(sch_shot_density(c->dc_current_a, sch_carrier_gain(c)));
+		grid_set(&g, i + 1, 0, or_dash(c->name));
+		grid_set(&g, i + 1, 1, sch_si_format(buf, sizeof(buf), c->dc_current_a, 3, "A"));
+		grid_set(&g, i + 1, 2, sch_si_format(buf, sizeof(buf), density, 3, "A/√Hz"));
+		snprintf(buf, sizeof(buf), "%.4g", c->gain_m);
+		grid_set(&g, i + 1, 3, buf);
+		snprintf(buf, sizeof(buf), "%.4g", c->excess_f);
+		grid_set(&g, i + 1, 4, buf);
+		grid_set(&g, i + 1, 5, or_dash(c->reason));
+	}
+	ret = grid_print(&g, out, "  ");
+out:
+	grid_release(&g);
+	return ret;
+}
+
+static enum sch_err print_noiseless(const struct sch_result *r, FILE *out)
+{
+	const struct sch_carrier_set *set = &r->set;
+	struct grid g;
+	enum sch_err ret;
+	char buf[128];
+
+	fputc('\n', out);
+	if (set->n_noiseless == 0) {
+		fprintf(out, "  no noiseless DC current sources\n");
+		return SCH_OK;
+	}
+	fprintf(out, "  noiseless DC current sources (no shot noise added; --carrier REGEX adds one)\n");
+	ret = grid_init(&g, set->n_noiseless + 1, 2);
+	if (ret != SCH_OK)
+		goto out;
+	grid_set(&g, 0, 0, "source");
+	grid_set(&g, 0, 1, "DC current");
+	g.right[1] = true;
+	for (size_t i = 0; i < set->n_noiseless; i++) {
+		grid_set(&g, i + 1, 0, or_dash(set->noiseless[i].name));
+		grid_set(&g, i + 1, 1, sch_si_format(buf, sizeof(buf), set->noiseless[i].dc_current_a, 3, "A"));
+	}
+	ret = grid_print(&g, out, "  ");
+out:
+	grid_release(&g);
+	return ret;
+}
+
+enum sch_err sch_report_carriers_table(const struct sch_result *r, FILE *out)
+{
+	enum sch_err ret;
+
+	fprintf(out, "schrot carriers: %s at %.2f K (%.2f °C)\n", or_dash(r->netlist), r->temp_k,
+		r->temp_k - SCH_ZERO_C_K);
+	ret = print_carriers(r, out);
+	if (ret != SCH_OK)
+		goto out;
+	ret = print_noiseless(r, out);
+out:
+	if (ret == SCH_OK && (fflush(out) != 0 || ferror(out)))
+		ret = SCH_ERR_IO;
+	return ret;
+}
