@@ -1,0 +1,1327 @@
+/* SPDX-License-Identifier: BSD-3-Clause */
+/*
+ * sim_ngspice.c - the simulator session: forks worker processes that drive the ngspice shared
+ * library and stream their results back over a pipe. The only file that includes sharedspice.h.
+ */
+#define _GNU_SOURCE /* dladdr, strcasestr */
+#include <ctype.h>
+#include <dlfcn.h>
+#include <errno.h>
+#include <fcntl.h>
+#include <limits.h>
+#include <math.h>
+#include <poll.h>
+#include <signal.h>
+#include <stdbool.h>
+#include <stdint.h>
+#include <stdio.h>
+#include <stdlib.h>
+#include <string.h>
+#include <sys/stat.h>
+#include <sys/types.h>
+#include <sys/wait.h>
+#include <unistd.h>
+
+#include <ngspice/sharedspice.h>
+
+#include "schrot/sim.h"
+
+#define SCH_SIM_TITLE "* schrot deck"
+#define SCH_SIM_MAX_COMMAND 1000
+#define SCH_SIM_MAX_WORKERS 64
+#define SCH_SIM_FALLBACK_CM "/usr/lib/x86_64-linux-gnu/ngspice/spice2poly.cm"
+#define SCH_SIM_MAX_RECORD ((uint32_t)1 << 31)
+
+/*
+ * Wire format, worker -> parent: records of kind (u8), payload length (u32), payload. Integers and
+ * doubles are in native byte order (both ends are the same process image).
+ */
+enum sch_rec {
+	SCH_REC_MSG = 1,   /* u8 phase, u32 step, text */
+	SCH_REC_FATAL,     /* text: the worker could not set up the simulator */
+	SCH_REC_LOADED,    /* u8 ngSpice_Circ returned nonzero */
+	SCH_REC_QUANT,     /* u32 step, then n_quantities doubles */
+	SCH_REC_VEC,       /* u32 step, u32 name length, name, u32 n, n doubles */
+	SCH_REC_STEP_DONE, /* u32 step, u8 flags */
+	SCH_REC_GAVE_UP,   /* ControlledExit was called */
+	SCH_REC_END        /* the worker finished */
+};
+
+/* Which part of the worker's job a simulator line belongs to; decides how it is judged. */
+enum sch_phase {
+	SCH_PHASE_INIT = 0, /* ngSpice_Init banner, code model, options: not kept */
+	SCH_PHASE_LOAD,     /* ngSpice_Circ */
+	SCH_PHASE_STEP,     /* a step's commands */
+	SCH_PHASE_READ,     /* quantity and vector reads: errors here only mean "no value" */
+	SCH_PHASE_CLEANUP   /* destroy all between steps */
+};
+
+#define SCH_STEP_NO_NOISE_PLOT 0x1u
+#define SCH_STEP_NONE UINT32_MAX
+
+/* ------------------------------------------------------------------------------------------ */
+/* Worker side                                                                                */
+/* ------------------------------------------------------------------------------------------ */
+
+struct sch_worker_ctx {
+	int fd;
+	unsigned char *buf;
+	size_t len;
+	size_t cap;
+	enum sch_phase phase;
+	uint32_t step;
+	volatile bool gave_up;
+	bool load_error;
+};
+
+static void worker_write_raw(struct sch_worker_ctx *w, const void *p, size_t n)
+{
+	const unsigned char *s = p;
+
+	while (n > 0) {
+		ssize_t k = write(w->fd, s, n);
+		if (k < 0) {
+			if (errno == EINTR)
+				continue;
+			_exit(3); /* the parent is gone; nothing left to report to */
+		}
+		s += k;
+		n -= (size_t)k;
+	}
+}
+
+static void worker_flush(struct sch_worker_ctx *w)
+{
+	worker_write_raw(w, w->buf, w->len);
+	w->len = 0;
+}
+
+static void worker_put(struct sch_worker_ctx *w, const void *p, size_t n)
+{
+	if (w->len + n > w->cap)
+		worker_flush(w);
+	if (n > w->cap) {
+		worker_write_raw(w, p, n);
+		return;
+	}
+	memcpy(w->buf + w->len, p, n);
+	w->len += n;
+}
+
+static void worker_put_u8(struct sch_worker_ctx *w, uint8_t v)
+{
+	worker_put(w, &v, 1);
+}
+
+static void worker_put_u32(struct sch_worker_ctx *w, uint32_t v)
+{
+	worker_put(w, &v, sizeof(v));
+}
+
+static void worker_header(struct sch_worker_ctx *w, enum sch_rec kind, size_t payload)
+{
+	worker_put_u8(w, (uint8_t)kind);
+	worker_put_u32(w, (uint32_t)payload);
+}
+
+static void worker_send_text(struct sch_worker_ctx *w, enum sch_rec kind, const char *text)
+{
+	size_t n = strlen(text);
+
+	if (n > 65536)
+		n = 65536;
+	worker_header(w, kind, n);
+	worker_put(w, text, n);
+	worker_flush(w);
+}
+
+static void worker_send_empty(struct sch_worker_ctx *w, enum sch_rec kind)
+{
+	worker_header(w, kind, 0);
+	worker_flush(w);
+}
+
+static bool starts_ci(const char *s, const char *prefix)
+{
+	while (*s == ' ' || *s == '\t')
+		s++;
+	return strncasecmp(s, prefix, strlen(prefix)) == 0;
+}
+
+/* SendChar: every simulator line goes straight to the parent, so a crash loses nothing. */
+static int worker_on_char(char *text, int id, void *user)
+{
+	struct sch_worker_ctx *w = user;
+	size_t n;
+
+	if (!text)
+		return 0;
+	if (strncmp(text, "stdout ", 7) == 0 || strncmp(text, "stderr ", 7) == 0)
+		text += 7;
+	n = strlen(text);
+	while (n > 0 && (text[n - 1] == '\n' || text[n - 1] == '\r'))
+		n--;
+	if (n > 65536)
+		n = 65536;
+	if (w->phase == SCH_PHASE_LOAD && starts_ci(text, "error"))
+		w->load_error = true;
+	worker_header(w, SCH_REC_MSG, 1 + 4 + n);
+	worker_put_u8(w, (uint8_t)w->phase);
+	worker_put_u32(w, w->step);
+	worker_put(w, text, n);
+	worker_flush(w);
+	return 0;
+}
+
+/* ControlledExit: the library is dead from now on. Never exit here; the worker loop stops. */
+static int worker_on_exit(int status, NG_BOOL immediate, NG_BOOL quit, int id, void *user)
+{
+	struct sch_worker_ctx *w = user;
+
+	w->gave_up = true;
+	return 0;
+}
+
+static bool command_char_is_bad(unsigned char c)
+{
+	return c < 0x20 || c == 0x7f || strchr("`;><|&$~\"", c) != NULL;
+}
+
+/* A path may go into a command only if the command language cannot read anything into it. */
+static bool path_is_command_safe(const char *p)
+{
+	if (strlen(p) > SCH_SIM_MAX_COMMAND - 16)
+		return false;
+	for (; *p; p++)
+		if (command_char_is_bad((unsigned char)*p) || *p == ' ' || *p == '\'' || *p == '\\')
+			return false;
+	return true;
+}
+
+/* The code model POLY sources need, next to the library we were linked with. */
+static void worker_load_codemodel(void)
+{
+	char path[PATH_MAX + 32];
+	char cmd[PATH_MAX + 64];
+	const char *chosen = NULL;
+	Dl_info info;
+
+	if (dladdr((void *)ngSpice_Init, &info) && info.dli_fname && strlen(info.dli_fname) < PATH_MAX) {
+		char *slash;
+
+		snprintf(path, sizeof(path), "%s", info.dli_fname);
+		slash = strrchr(path, '/');
+		if (slash) {
+			snprintf(slash + 1, sizeof(path) - (size_t)(slash + 1 - path), "ngspice/spice2poly.cm");
+			if (access(path, R_OK) == 0 && path_is_command_safe(path))
+				chosen = path;
+		}
+	}
+	if (!chosen && access(SCH_SIM_FALLBACK_CM, R_OK) == 0)
+		chosen = SCH_SIM_FALLBACK_CM;
+	if (!chosen)
+		return;
+	snprintf(cmd, sizeof(cmd), "codemodel %s", chosen);
+	ngSpice_Command(cmd);
+}
+
+/* Starts the library with no start-up script able to run (NGSPICE-NOTES.md section 5). */
+static bool worker_init_library(struct sch_worker_ctx *w)
+{
+	const char *tmp = getenv("TMPDIR");
+	char dir[PATH_MAX];
+	char initfile[PATH_MAX + 16];
+	char cwd[PATH_MAX];
+	char reason[PATH_MAX + 128];
+	int cwd_fd, f;
+	bool ok = false;
+
+	if (setenv("SPICE_SCRIPTS", "", 1) != 0) {
+		worker_send_text(w, SCH_REC_FATAL, "cannot clear SPICE_SCRIPTS");
+		return false;
+	}
+	if (!tmp || tmp[0] != '/' || strlen(tmp) > PATH_MAX - 64)
+		tmp = "/tmp";
+	snprintf(dir, sizeof(dir), "%s/schrot-sim-XXXXXX", tmp);
+	if (!mkdtemp(dir)) {
+		snprintf(reason, sizeof(reason), "cannot create a private directory in '%s': %s", tmp,
+			 strerror(errno));
+		worker_send_text(w, SCH_REC_FATAL, reason);
+		return false;
+	}
+	snprintf(initfile, sizeof(initfile), "%s/.spiceinit", dir);
+	f = open(initfile, O_WRONLY | O_CREAT | O_EXCL | O_CLOEXEC, 0600);
+	cwd_fd = open(".", O_RDONLY | O_DIRECTORY | O_CLOEXEC);
+	if (cwd_fd < 0 && !getcwd(cwd, sizeof(cwd))) {
+		snprintf(reason, sizeof(reason), "cannot remember the working directory: %s", strerror(errno));
+		goto out;
+	}
+	if (f < 0 || chdir(dir) != 0) {
+		snprintf(reason, sizeof(reason), "cannot prepare '%s': %s", dir, strerror(errno));
+		goto out;
+	}
+	ngSpice_Init(worker_on_char, NULL, worker_on_exit, NULL, NULL, NULL, w);
+	if ((cwd_fd >= 0 ? fchdir(cwd_fd) : chdir(cwd)) != 0) {
+		snprintf(reason, sizeof(reason), "cannot return to the working directory: %s", strerror(errno));
+		goto out;
+	}
+	ok = true;
+out:
+	if (f >= 0)
+		close(f);
+	if (cwd_fd >= 0)
+		close(cwd_fd);
+	unlink(initfile);
+	rmdir(dir);
+	if (!ok)
+		worker_send_text(w, SCH_REC_FATAL, reason);
+	return ok;
+}
+
+static double vector_value(const struct vector_info *vi, int i)
+{
+	if (vi->v_realdata)
+		return vi->v_realdata[i];
+	if (vi->v_compdata)
+		return vi->v_compdata[i].cx_real;
+	return NAN;
+}
+
+static void worker_send_quantities(struct sch_worker_ctx *w, const struct sch_sim_request *req)
+{
+	if (req->n_quantities == 0)
+		return;
+	worker_header(w, SCH_REC_QUANT, 4 + 8 * req->n_quantities);
+	worker_put_u32(w, w->step);
+	for (size_t q = 0; q < req->n_quantities; q++) {
+		double v = NAN;
+		pvector_info vi = req->quantities[q] ? ngGet_Vec_Info((char *)req->quantities[q]) : NULL;
+
+		if (vi && vi->v_length > 0)
+			v = vector_value(vi, vi->v_length - 1);
+		worker_put(w, &v, sizeof(v));
+	}
+}
+
+static bool plot_has_vector(char *plot, const char *name)
+{
+	char **vecs = ngSpice_AllVecs(plot);
+
+	for (size_t i = 0; vecs && vecs[i]; i++)
+		if (strcmp(vecs[i], name) == 0)
+			return true;
+	return false;
+}
+
+/* The newest noise density plot: named noise<N> and holding "frequency". NULL when none. */
+static char *worker_find_noise_plot(void)
+{
+	char **plots = ngSpice_AllPlots();
+
+	for (size_t i = 0; plots && plots[i]; i++)
+		if (strncmp(plots[i], "noise", 5) == 0 && plot_has_vector(plots[i], "frequency"))
+			return plots[i];
+	return NULL;
+}
+
+/* Copies every vector of plot to the parent; data is copied at once (the info struct is static). */
+static void worker_send_vectors(struct sch_worker_ctx *w, const char *plot)
+{
+	char *plot_copy = strdup(plot);
+	char **vecs;
+	char *full = NULL;
+	size_t full_cap = 0;
+
+	if (!plot_copy)
+		_exit(4);
+	vecs = ngSpice_AllVecs(plot_copy);
+	for (size_t i = 0; vecs && vecs[i]; i++) {
+		size_t name_len = strlen(vecs[i]);
+		size_t need = strlen(plot_copy) + 1 + name_len + 1;
+		pvector_info vi;
+		size_t n;
+
+		if (need > full_cap) {
+			full_cap = need * 2;
+			free(full);
+			full = malloc(full_cap);
+			if (!full)
+				_exit(4);
+		}
+		snprintf(full, full_cap, "%s.%s", plot_copy, vecs[i]);
+		vi = ngGet_Vec_Info(full);
+		n = vi && vi->v_length > 0 ? (size_t)vi->v_length : 0;
+		if (name_len > 65536 || 12 + name_len + 8 * n >= SCH_SIM_MAX_RECORD)
+			continue;
+		worker_header(w, SCH_REC_VEC, 12 + name_len + 8 * n);
+		worker_put_u32(w, w->step);
+		worker_put_u32(w, (uint32_t)name_len);
+		worker_put(w, vecs[i], name_len);
+		worker_put_u32(w, (uint32_t)n);
+		if (n > 0 && vi->v_realdata) {
+			worker_put(w, vi->v_realdata, 8 * n);
+		} else {
+			for (size_t k = 0; k < n; k++) {
+				double v = vector_value(vi, (int)k);
+				worker_put(w, &v, sizeof(v));
+			}
+		}
+	}
+	free(full);
+	free(plot_copy);
+}
+
+static bool step_runs_noise(const struct sch_sim_step *st)
+{
+	for (size_t c = 0; c < st->n_commands; c++) {
+		const char *s = st->commands[c];
+
+		while (*s == ' ' || *s == '\t')
+			s++;
+		if (strncasecmp(s, "noise", 5) == 0 && (s[5] == '\0' || isspace((unsigned char)s[5])))
+			return true;
+	}
+	return false;
+}
+
+/* Runs ngspice commands in this process; returns false once the library has given up. */
+static bool worker_command(struct sch_worker_ctx *w, const char *command)
+{
+	char buf[SCH_SIM_MAX_COMMAND + 1];
+
+	snprintf(buf, sizeof(buf), "%s", command);
+	ngSpice_Command(buf);
+	return !w->gave_up;
+}
+
+static bool worker_run_step(struct sch_worker_ctx *w, const struct sch_sim_request *req, size_t s)
+{
+	const struct sch_sim_step *st = &req->steps[s];
+	uint8_t flags = 0;
+
+	w->step = (uint32_t)s;
+	w->phase = SCH_PHASE_STEP;
+	for (size_t c = 0; c < st->n_commands; c++)
+		if (!worker_command(w, st->commands[c]))
+			return false;
+	w->phase = SCH_PHASE_READ;
+	worker_send_quantities(w, req);
+	if (w->gave_up)
+		return false;
+	if (req->collect_noise) {
+		char *plot = worker_find_noise_plot();
+
+		if (plot)
+			worker_send_vectors(w, plot);
+		else if (step_runs_noise(st))
+			flags |= SCH_STEP_NO_NOISE_PLOT;
+	}
+	if (w->gave_up)
+		return false;
+	worker_header(w, SCH_REC_STEP_DONE, 5);
+	worker_put_u32(w, (uint32_t)s);
+	worker_put_u8(w, flags);
+	worker_flush(w);
+	return true;
+}
+
+/* The whole life of a worker process. Never returns. */
+static void worker_main(const struct sch_sim_request *req, char **deck, size_t first, size_t end, int fd)
+{
+	struct sch_worker_ctx w = { .fd = fd, .cap = 1 << 16, .phase = SCH_PHASE_INIT,
+				    .step = SCH_STEP_NONE };
+	int devnull = open("/dev/null", O_RDWR);
+	int rc;
+
+	/* Stray prints from the library must not land in the tool's report on stdout. */
+	if (devnull >= 0) {
+		dup2(devnull, STDIN_FILENO);
+		dup2(devnull, STDOUT_FILENO);
+		if (devnull > STDERR_FILENO)
+			close(devnull);
+	}
+	w.buf = malloc(w.cap);
+	if (!w.buf)
+		_exit(4);
+	if (!worker_init_library(&w))
+		goto done;
+	worker_load_codemodel();
+	if (req->squared_noise)
+		worker_command(&w, "set sqrnoise");
+	if (w.gave_up)
+		goto gave_up;
+	w.phase = SCH_PHASE_LOAD;
+	rc = ngSpice_Circ(deck);
+	if (w.gave_up)
+		goto gave_up;
+	worker_header(&w, SCH_REC_LOADED, 1);
+	worker_put_u8(&w, rc != 0);
+	worker_flush(&w);
+	if (rc != 0 || w.load_error)
+		goto done;
+	for (size_t s = first; s < end; s++) {
+		if (!worker_run_step(&w, req, s))
+			goto gave_up;
+		if (s + 1 < end) {
+			w.phase = SCH_PHASE_CLEANUP;
+			if (!worker_command(&w, "destroy all"))
+				goto gave_up;
+		}
+	}
+	goto done;
+gave_up:
+	worker_flush(&w);
+	worker_send_empty(&w, SCH_REC_GAVE_UP);
+done:
+	worker_send_empty(&w, SCH_REC_END);
+	_exit(0);
+}
+
+/* ------------------------------------------------------------------------------------------ */
+/* Parent side                                                                                */
+/* ------------------------------------------------------------------------------------------ */
+
+struct sch_tagged_msg {
+	char *text;
+	uint8_t phase;
+	uint32_t step;
+};
+
+struct sch_worker {
+	pid_t pid;
+	int fd;
+	size_t first, end;          /* the steps [first, end) */
+	unsigned char *buf;
+	size_t len, off, cap;
+	struct sch_tagged_msg *msgs;
+	size_t n_msgs, msgs_cap;
+	char *fatal;                /* setup failure sent by the worker */
+	bool loaded, load_rc, gave_up, ended, malformed;
+	uint32_t gave_up_step;      /* SCH_STEP_NONE: during set-up or load */
+	enum sch_phase gave_up_phase;
+	int status;                 /* from waitpid; -1 when unknown */
+};
+
+struct sch_collect {
+	struct sch_sim_result *res;
+	size_t *vec_cap;            /* capacity of res->steps[i].vectors */
+	bool *step_done;
+	uint8_t *step_flags;
+	size_t n_quantities;
+};
+
+static char *dup_mem(const void *p, size_t n)
+{
+	char *s = malloc(n + 1);
+
+	if (!s)
+		return NULL;
+	memcpy(s, p, n);
+	s[n] = '\0';
+	return s;
+}
+
+static uint32_t get_u32(const unsigned char *p)
+{
+	uint32_t v;
+
+	memcpy(&v, p, sizeof(v));
+	return v;
+}
+
+static enum sch_err on_msg(struct sch_worker *wk, const unsigned char *p, size_t n)
+{
+	struct sch_tagged_msg *m;
+
+	if (n < 5) {
+		wk->malformed = true;
+		return SCH_OK;
+	}
+	if (wk->n_msgs == wk->msgs_cap) {
+		size_t cap = wk->msgs_cap ? 2 * wk->msgs_cap : 64;
+		struct sch_tagged_msg *grown = realloc(wk->msgs, cap * sizeof(*grown));
+
+		if (!grown)
+			return SCH_ERR_NOMEM;
+		wk->msgs = grown;
+		wk->msgs_cap = cap;
+	}
+	m = &wk->msgs[wk->n_msgs];
+	m->phase = p[0];
+	m->step = get_u32(p + 1);
+	m->text = dup_mem(p + 5, n - 5);
+	if (!m->text)
+		return SCH_ERR_NOMEM;
+	wk->n_msgs++;
+	return SCH_OK;
+}
+
+static bool step_is_ours(const struct sch_worker *wk, uint32_t step)
+{
+	return step >= wk->first && step < wk->end;
+}
+
+static enum sch_err on_vector(struct sch_worker *wk, struct sch_collect *c, const unsigned char *p, size_t n)
+{
+	uint32_t step, name_len, count;
+	struct sch_sim_outcome *o;
+	struct sch_sim_vector *v;
+
+	if (n < 12)
+		goto bad;
+	step = get_u32(p);
+	name_len = get_u32(p + 4);
+	if (!step_is_ours(wk, step) || n < 12 + (size_t)name_len)
+		goto bad;
+	count = get_u32(p + 8 + name_len);
+	if (n != 12 + (size_t)name_len + 8 * (size_t)count)
+		goto bad;
+	o = &c->res->steps[step];
+	if (o->n_vectors == c->vec_cap[step]) {
+		size_t cap = c->vec_cap[step] ? 2 * c->vec_cap[step] : 16;
+		struct sch_sim_vector *grown = realloc(o->vectors, cap * sizeof(*grown));
+
+		if (!grown)
+			return SCH_ERR_NOMEM;
+		o->vectors = grown;
+		c->vec_cap[step] = cap;
+	}
+	v = &o->vectors[o->n_vectors];
+	memset(v, 0, sizeof(*v));
+	v->name = dup_mem(p + 8, name_len);
+	v->values = malloc(count ? 8 * (size_t)count : 1);
+	if (!v->name || !v->values) {
+		free(v->name);
+		free(v->values);
+		return SCH_ERR_NOMEM;
+	}
+	memcpy(v->values, p + 12 + name_len, 8 * (size_t)count);
+	v->n = count;
+	o->n_vectors++;
+	return SCH_OK;
+bad:
+	wk->malformed = true;
+	return SCH_OK;
+}
+
+static enum sch_err on_record(struct sch_worker *wk, struct sch_collect *c, unsigned kind,
+			      const unsigned char *p, size_t n)
+{
+	uint32_t step;
+
+	switch (kind) {
+	case SCH_REC_MSG:
+		return on_msg(wk, p, n);
+	case SCH_REC_FATAL:
+		if (!wk->fatal) {
+			wk->fatal = dup_mem(p, n);
+			if (!wk->fatal)
+				return SCH_ERR_NOMEM;
+		}
+		return SCH_OK;
+	case SCH_REC_LOADED:
+		wk->loaded = true;
+		wk->load_rc = n >= 1 && p[0] != 0;
+		return SCH_OK;
+	case SCH_REC_QUANT:
+		if (n != 4 + 8 * c->n_quantities || !step_is_ours(wk, get_u32(p)))
+			break;
+		memcpy(c->res->steps[get_u32(p)].quantities, p + 4, 8 * c->n_quantities);
+		return SCH_OK;
+	case SCH_REC_VEC:
+		return on_vector(wk, c, p, n);
+	case SCH_REC_STEP_DONE:
+		if (n != 5 || !step_is_ours(wk, get_u32(p)))
+			break;
+		step = get_u32(p);
+		c->step_done[step] = true;
+		c->step_flags[step] = p[4];
+		return SCH_OK;
+	case SCH_REC_GAVE_UP:
+		wk->gave_up = true;
+		return SCH_OK;
+	case SCH_REC_END:
+		wk->ended = true;
+		return SCH_OK;
+	default:
+		break;
+	}
+	wk->malformed = true;
+	return SCH_OK;
+}
+
+/* Consumes every complete record in the worker's buffer. */
+static enum sch_err parse_records(struct sch_worker *wk, struct sch_collect *c)
+{
+	while (wk->len - wk->off >= 5 && !wk->malformed) {
+		const unsigned char *h = wk->buf + wk->off;
+		uint32_t plen = get_u32(h + 1);
+		enum sch_err err;
+
+		if (plen >= SCH_SIM_MAX_RECORD) {
+			wk->malformed = true;
+			break;
+		}
+		if (wk->len - wk->off - 5 < plen)
+			break;
+		err = on_record(wk, c, h[0], h + 5, plen);
+		if (err != SCH_OK)
+			return err;
+		wk->off += 5 + (size_t)plen;
+	}
+	if (wk->off > 0 && wk->off == wk->len) {
+		wk->off = wk->len = 0;
+	} else if (wk->off > wk->cap / 2) {
+		memmove(wk->buf, wk->buf + wk->off, wk->len - wk->off);
+		wk->len -= wk->off;
+		wk->off = 0;
+	}
+	return SCH_OK;
+}
+
+/* Reads what is available on one worker's pipe. Sets *eof at end of stream. */
+static enum sch_err read_worker(struct sch_worker *wk, struct sch_collect *c, bool *eof)
+{
+	ssize_t k;
+
+	*eof = false;
+	if (wk->cap - wk->len < 65536) {
+		size_t cap = wk->cap ? 2 * wk->cap : 1 << 17;
+		unsigned char *grown = realloc(wk->buf, cap);
+
+		if (!grown)
+			return SCH_ERR_NOMEM;
+		wk->buf = grown;
+		wk->cap = cap;
+	}
+	k = read(wk->fd, wk->buf + wk->len, wk->cap - wk->len);
+	if (k < 0) {
+		if (errno == EINTR || errno == EAGAIN)
+			return SCH_OK;
+		*eof = true;
+		return SCH_OK;
+	}
+	if (k == 0) {
+		*eof = true;
+		return SCH_OK;
+	}
+	wk->len += (size_t)k;
+	return parse_records(wk, c);
+}
+
+/* Reads all workers' pipes until every one is closed, so that no worker blocks on a full pipe. */
+static enum sch_err drain_workers(struct sch_worker *wks, size_t n, struct sch_collect *c)
+{
+	struct pollfd pfd[SCH_SIM_MAX_WORKERS];
+	size_t open_count = n;
+
+	while (open_count > 0) {
+		size_t m = 0;
+		int r;
+
+		for (size_t i = 0; i < n; i++) {
+			if (wks[i].fd < 0)
+				continue;
+			pfd[m].fd = wks[i].fd;
+			pfd[m].events = POLLIN;
+			pfd[m].revents = 0;
+			m++;
+		}
+		r = poll(pfd, (nfds_t)m, -1);
+		if (r < 0) {
+			if (errno == EINTR)
+				continue;
+			return SCH_ERR_SIM;
+		}
+		for (size_t j = 0; j < m; j++) {
+			struct sch_worker *wk = NULL;
+			bool eof = false;
+			enum sch_err err;
+
+			if (!pfd[j].revents)
+				continue;
+			for (size_t i = 0; i < n; i++)
+				if (wks[i].fd == pfd[j].fd)
+					wk = &wks[i];
+			err = read_worker(wk, c, &eof);
+			if (err != SCH_OK)
+				return err;
+			if (eof || wk->malformed) {
+				close(wk->fd);
+				wk->fd = -1;
+				open_count--;
+			}
+		}
+	}
+	return SCH_OK;
+}
+
+/* ---- judging the simulator's text ------------------------------------------------------- */
+
+static bool is_warning(const char *s)
+{
+	return strcasestr(s, "warning") != NULL;
+}
+
+static bool names_a_cause(const char *s)
+{
+	static const char *const causes[] = {
+		"has no ac value", "timestep too small", "no such vector", "dc solution failed",
+		"circuit not parsed", "aren't any circuits loaded", "unknown subckt",
+		"could not find include file", ".end statement is missing", "not enough parameters",
+		"singular matrix",
+	};
+
+	for (size_t i = 0; i < sizeof(causes) / sizeof(causes[0]); i++) {
+		if (!strcasestr(s, causes[i]))
+			continue;
+		/* Warnings about a singular matrix come during gmin stepping, which may still succeed. */
+		if (is_warning(s) && strcmp(causes[i], "has no ac value") != 0)
+			continue;
+		return true;
+	}
+	return false;
+}
+
+/* How strongly a line says the job failed: 0 not at all, 1 the best reason, 3 the weakest. */
+static int failure_rank(const char *s)
+{
+	if (starts_ci(s, "error"))
+		return 1;
+	if (names_a_cause(s))
+		return 2;
+	if (!is_warning(s) && !starts_ci(s, "note") &&
+	    (strcasestr(s, "aborted") || strcasestr(s, "failed")))
+		return 3;
+	return 0;
+}
+
+static bool msg_in(const struct sch_tagged_msg *m, enum sch_phase phase, uint32_t step)
+{
+	return m->phase == phase && (phase != SCH_PHASE_STEP || m->step == step);
+}
+
+/* The reason as one line: "Error on line 3 ...:" is joined with the lines that explain it. */
+static char *reason_from(const struct sch_worker *wk, size_t at, enum sch_phase phase, uint32_t step)
+{
+	const char *text = wk->msgs[at].text;
+	char line[1024];
+	size_t used;
+
+	if (strncasecmp(text, "warning: ", 9) == 0)
+		text += 9;
+	snprintf(line, sizeof(line), "%s", text);
+	used = strlen(line);
+	for (size_t k = at + 1, joined = 0; k < wk->n_msgs && joined < 2; k++) {
+		const char *next = wk->msgs[k].text;
+
+		if (used == 0 || line[used - 1] != ':')
+			break;
+		if (!msg_in(&wk->msgs[k], phase, step))
+			continue;
+		if (starts_ci(next, "error") || is_warning(next))
+			break;
+		while (*next == ' ' || *next == '\t')
+			next++;
+		snprintf(line + used, sizeof(line) - used, " %s%s", next, joined == 0 ? ":" : "");
+		used = strlen(line);
+		joined++;
+	}
+	while (used > 0 && (line[used - 1] == ':' || isspace((unsigned char)line[used - 1])))
+		line[--used] = '\0';
+	for (char *q = line; *q; q++)
+		if (*q == '\n' || *q == '\r' || *q == '\t')
+			*q = ' ';
+	return strdup(line);
+}
+
+/* The most telling failure line of one phase (and step), or NULL when the text shows none. */
+static char *judge_text(const struct sch_worker *wk, enum sch_phase phase, uint32_t step, bool *nomem)
+{
+	size_t best = 0;
+	int best_rank = 0;
+	char *r;
+
+	for (size_t i = 0; i < wk->n_msgs; i++) {
+		int rank;
+
+		if (!msg_in(&wk->msgs[i], phase, step))
+			continue;
+		rank = failure_rank(wk->msgs[i].text);
+		if (rank && (!best_rank || rank < best_rank)) {
+			best = i;
+			best_rank = rank;
+		}
+	}
+	if (!best_rank)
+		return NULL;
+	r = reason_from(wk, best, phase, step);
+	if (!r)
+		*nomem = true;
+	return r;
+}
+
+static char *printf_dup(const char *fmt, const char *arg)
+{
+	char line[1200];
+
+	snprintf(line, sizeof(line), fmt, arg);
+	return strdup(line);
+}
+
+/* Why the library gave up: the line that says what went wrong, not the "cannot recover" line. */
+static char *gave_up_reason(const struct sch_worker *wk)
+{
+	const char *pick = NULL;
+
+	for (size_t i = 0; i < wk->n_msgs; i++) {
+		const struct sch_tagged_msg *m = &wk->msgs[i];
+
+		if (m->phase != wk->gave_up_phase || (m->phase == SCH_PHASE_STEP && m->step != wk->gave_up_step))
+			continue;
+		if (strcasestr(m->text, "err") && !strcasestr(m->text, "cannot recover")) {
+			pick = m->text;
+			break;
+		}
+		if (!pick && strcasestr(m->text, "cannot recover"))
+			pick = m->text;
+	}
+	return printf_dup("simulator gave up: %s", pick ? pick : "it asked to exit");
+}
+
+/* Finds where the worker gave up: the phase of its last message before the end. */
+static void locate_give_up(struct sch_worker *wk, const struct sch_collect *c)
+{
+	wk->gave_up_phase = wk->loaded ? SCH_PHASE_STEP : SCH_PHASE_LOAD;
+	wk->gave_up_step = SCH_STEP_NONE;
+	if (!wk->loaded && wk->n_msgs > 0)
+		wk->gave_up_phase = (enum sch_phase)wk->msgs[wk->n_msgs - 1].phase;
+	for (size_t s = wk->first; s < wk->end && wk->loaded; s++) {
+		if (!c->step_done[s]) {
+			wk->gave_up_step = (uint32_t)s;
+			break;
+		}
+	}
+	if (wk->loaded && wk->n_msgs > 0 && wk->msgs[wk->n_msgs - 1].phase != SCH_PHASE_STEP)
+		wk->gave_up_phase = (enum sch_phase)wk->msgs[wk->n_msgs - 1].phase;
+}
+
+/* The reason the worker as a whole failed (set-up, load, give-up, crash), or NULL. */
+static char *worker_failure(struct sch_worker *wk, const struct sch_collect *c, bool *nomem)
+{
+	char *r = NULL;
+	char num[32];
+
+	if (wk->fatal)
+		return printf_dup("%s", wk->fatal);
+	if (wk->gave_up) {
+		locate_give_up(wk, c);
+		return gave_up_reason(wk);
+	}
+	if (wk->status >= 0 && WIFSIGNALED(wk->status)) {
+		snprintf(num, sizeof(num), "%d", WTERMSIG(wk->status));
+		return printf_dup("simulator crashed (signal %s)", num);
+	}
+	r = judge_text(wk, SCH_PHASE_LOAD, SCH_STEP_NONE, nomem);
+	if (r || *nomem)
+		return r;
+	if (wk->loaded && wk->load_rc)
+		return strdup("the simulator did not load the deck");
+	if (wk->malformed)
+		return strdup("simulator worker sent malformed data");
+	if (!wk->ended)
+		return strdup("simulator worker exited without a result");
+	return NULL;
+}
+
+/* ---- request checks and the deck ------------------------------------------------------- */
+
+static enum sch_err check_commands(const struct sch_sim_request *req, struct sch_diag *d)
+{
+	for (size_t s = 0; s < req->n_steps; s++) {
+		const struct sch_sim_step *st = &req->steps[s];
+
+		for (size_t c = 0; c < st->n_commands; c++) {
+			const char *cmd = st->commands[c];
+
+			if (!cmd)
+				return sch_diag_error(d, SCH_ERR_USAGE, NULL, 0, "simulator: empty command");
+			if (strlen(cmd) > SCH_SIM_MAX_COMMAND)
+				return sch_diag_error(d, SCH_ERR_USAGE, NULL, 0,
+						      "simulator: refusing a command longer than %d bytes",
+						      SCH_SIM_MAX_COMMAND);
+			for (const char *p = cmd; *p; p++)
+				if (command_char_is_bad((unsigned char)*p))
+					return sch_diag_error(d, SCH_ERR_USAGE, NULL, 0,
+							      "simulator: refusing command '%.60s': it contains "
+							      "a character the command language interprets",
+							      cmd);
+		}
+	}
+	return SCH_OK;
+}
+
+static bool line_runs_commands(const char *s)
+{
+	static const char *const prefixes[] = { ".control", ".endc", "*#", ".inc", ".lib", "*ng_script" };
+
+	for (size_t i = 0; i < sizeof(prefixes) / sizeof(prefixes[0]); i++)
+		if (starts_ci(s, prefixes[i]))
+			return true;
+	return false;
+}
+
+/*
+ * The deck as the library gets it: our own title, then every line except those that could make
+ * the simulator run commands. A .control block is dropped whole. NULL-terminated; the strings
+ * still belong to req.
+ */
+static enum sch_err build_deck(const struct sch_sim_request *req, char ***out, struct sch_diag *d)
+{
+	char **deck = calloc(req->n_lines + 2, sizeof(*deck));
+	size_t n = 0;
+	bool in_control = false;
+
+	if (!deck)
+		return SCH_ERR_NOMEM;
+	deck[n++] = (char *)SCH_SIM_TITLE;
+	for (size_t i = 1; i < req->n_lines; i++) {
+		const char *line = req->lines[i];
+
+		if (!line)
+			continue;
+		if (in_control) {
+			if (starts_ci(line, ".endc"))
+				in_control = false;
+			continue;
+		}
+		if (strchr(line, '\n')) {
+			sch_diag_report(d, SCH_WARNING, NULL, 0, "simulator: dropped deck line %zu: it holds a newline",
+					i + 1);
+			continue;
+		}
+		if (line_runs_commands(line)) {
+			sch_diag_report(d, SCH_WARNING, NULL, 0,
+					"simulator: dropped deck line %zu '%.40s': netlists may not run commands",
+					i + 1, line);
+			in_control = starts_ci(line, ".control");
+			continue;
+		}
+		deck[n++] = (char *)line;
+	}
+	deck[n] = NULL;
+	*out = deck;
+	return SCH_OK;
+}
+
+/* ---- assembling the result ------------------------------------------------------------- */
+
+static enum sch_err alloc_result(struct sch_sim_result *res, const struct sch_sim_request *req,
+				 struct sch_collect *c)
+{
+	c->res = res;
+	c->n_quantities = req->n_quantities;
+	c->vec_cap = calloc(req->n_steps + 1, sizeof(*c->vec_cap));
+	c->step_done = calloc(req->n_steps + 1, sizeof(*c->step_done));
+	c->step_flags = calloc(req->n_steps + 1, sizeof(*c->step_flags));
+	res->steps = calloc(req->n_steps + 1, sizeof(*res->steps));
+	if (!c->vec_cap || !c->step_done || !c->step_flags || !res->steps)
+		return SCH_ERR_NOMEM;
+	res->n_steps = req->n_steps;
+	for (size_t s = 0; s < req->n_steps; s++) {
+		res->steps[s].quantities = malloc((req->n_quantities + 1) * sizeof(double));
+		if (!res->steps[s].quantities)
+			return SCH_ERR_NOMEM;
+		for (size_t q = 0; q < req->n_quantities; q++)
+			res->steps[s].quantities[q] = NAN;
+	}
+	return SCH_OK;
+}
+
+/* "ngspice-39" from the banner line "** ngspice-39 shared library". */
+static char *version_from(const struct sch_worker *wk)
+{
+	for (size_t i = 0; i < wk->n_msgs; i++) {
+		const char *p;
+		size_t n = 0;
+
+		if (wk->msgs[i].phase != SCH_PHASE_INIT || !(p = strstr(wk->msgs[i].text, "ngspice-")))
+			continue;
+		while (p[n] && !isspace((unsigned char)p[n]) && n < 40)
+			n++;
+		return dup_mem(p, n);
+	}
+	return strdup("ngspice");
+}
+
+/* Moves the workers' messages into res in worker order; the start-up banner is left out. */
+static enum sch_err take_messages(struct sch_sim_result *res, struct sch_worker *wks, size_t n_wk)
+{
+	size_t total = 0;
+
+	for (size_t w = 0; w < n_wk; w++)
+		total += wks[w].n_msgs;
+	res->messages = calloc(total + 1, sizeof(*res->messages));
+	if (!res->messages)
+		return SCH_ERR_NOMEM;
+	for (size_t w = 0; w < n_wk; w++) {
+		for (size_t i = 0; i < wks[w].n_msgs; i++) {
+			if (wks[w].msgs[i].phase == SCH_PHASE_INIT)
+				continue;
+			res->messages[res->n_messages++] = wks[w].msgs[i].text;
+			wks[w].msgs[i].text = NULL;
+		}
+	}
+	return SCH_OK;
+}
+
+static void report_notes(struct sch_worker *wks, size_t n_wk, struct sch_diag *d)
+{
+	for (size_t w = 0; w < n_wk; w++) {
+		for (size_t i = 0; i < wks[w].n_msgs; i++) {
+			const struct sch_tagged_msg *m = &wks[w].msgs[i];
+
+			/* Every worker loads the same deck; its load warnings are said once. */
+			if (m->phase == SCH_PHASE_INIT || (w > 0 && m->phase == SCH_PHASE_LOAD))
+				continue;
+			if (starts_ci(m->text, "warning"))
+				sch_diag_report(d, SCH_NOTE, NULL, 0, "simulator: %s", m->text);
+		}
+	}
+}
+
+/* Sets every step's failure and res->failure; returns whether anything failed. */
+static enum sch_err judge(struct sch_sim_result *res, struct sch_worker *wks, size_t n_wk,
+			  struct sch_collect *c, bool *failed)
+{
+	bool nomem = false;
+
+	*failed = false;
+	for (size_t w = 0; w < n_wk; w++) {
+		struct sch_worker *wk = &wks[w];
+		char *wfail = worker_failure(wk, c, &nomem);
+
+		if (nomem)
+			return SCH_ERR_NOMEM;
+		for (size_t s = wk->first; s < wk->end; s++) {
+			struct sch_sim_outcome *o = &res->steps[s];
+
+			if (c->step_done[s])
+				o->failure = judge_text(wk, SCH_PHASE_STEP, (uint32_t)s, &nomem);
+			if (!o->failure && !nomem && c->step_done[s] && (c->step_flags[s] & SCH_STEP_NO_NOISE_PLOT))
+				o->failure = strdup("the noise analysis produced no result");
+			if (!o->failure && !nomem && !c->step_done[s])
+				o->failure = strdup(wfail ? wfail : "simulator worker exited without a result");
+			if (nomem || (!o->failure && !c->step_done[s])) {
+				free(wfail);
+				return SCH_ERR_NOMEM;
+			}
+			if (o->failure)
+				*failed = true;
+		}
+		if (wfail) {
+			*failed = true;
+			if (!res->failure)
+				res->failure = wfail;
+			else
+				free(wfail);
+		}
+	}
+	/* The first reason in step order wins over a worker-level one found later. */
+	for (size_t s = 0; s < res->n_steps; s++) {
+		if (!res->steps[s].failure)
+			continue;
+		free(res->failure);
+		res->failure = strdup(res->steps[s].failure);
+		if (!res->failure)
+			return SCH_ERR_NOMEM;
+		break;
+	}
+	return SCH_OK;
+}
+
+static void release_workers(struct sch_worker *wks, size_t n_wk)
+{
+	for (size_t w = 0; w < n_wk; w++) {
+		struct sch_worker *wk = &wks[w];
+
+		if (wk->fd >= 0)
+			close(wk->fd);
+		if (wk->pid > 0) {
+			int st;
+
+			if (!wk->ended || wk->status < 0)
+				kill(wk->pid, SIGKILL);
+			while (waitpid(wk->pid, &st, 0) < 0 && errno == EINTR)
+				;
+		}
+		for (size_t i = 0; i < wk->n_msgs; i++)
+			free(wk->msgs[i].text);
+		free(wk->msgs);
+		free(wk->buf);
+		free(wk->fatal);
+	}
+}
+
+static enum sch_err start_workers(const struct sch_sim_request *req, char **deck, struct sch_worker *wks,
+				  size_t n_wk, char *why, size_t why_len)
+{
+	for (size_t w = 0; w < n_wk; w++) {
+		wks[w].fd = -1;
+		wks[w].status = -1;
+		wks[w].first = req->n_steps * w / n_wk;
+		wks[w].end = req->n_steps * (w + 1) / n_wk;
+	}
+	fflush(NULL); /* a child must not write out the parent's buffered output again */
+	for (size_t w = 0; w < n_wk; w++) {
+		int fds[2];
+		pid_t pid;
+
+		if (pipe(fds) != 0) {
+			snprintf(why, why_len, "cannot start the simulator: %s", strerror(errno));
+			return SCH_ERR_SIM;
+		}
+		pid = fork();
+		if (pid < 0) {
+			snprintf(why, why_len, "cannot start the simulator: %s", strerror(errno));
+			close(fds[0]);
+			close(fds[1]);
+			return SCH_ERR_SIM;
+		}
+		if (pid == 0) {
+			close(fds[0]);
+			for (size_t k = 0; k < w; k++)
+				if (wks[k].fd >= 0)
+					close(wks[k].fd);
+			signal(SIGPIPE, SIG_DFL);
+			worker_main(req, deck, wks[w].first, wks[w].end, fds[1]);
+		}
+		close(fds[1]);
+		wks[w].pid = pid;
+		wks[w].fd = fds[0];
+	}
+	return SCH_OK;
+}
+
+static void reap_workers(struct sch_worker *wks, size_t n_wk)
+{
+	for (size_t w = 0; w < n_wk; w++) {
+		int st;
+		pid_t r;
+
+		while ((r = waitpid(wks[w].pid, &st, 0)) < 0 && errno == EINTR)
+			;
+		wks[w].status = r == wks[w].pid ? st : 0;
+		wks[w].pid = 0;
+	}
+}
+
+enum sch_err sch_sim_run(const struct sch_sim_request *req, struct sch_sim_result *res, struct sch_diag *d)
+{
+	enum sch_err ret = SCH_ERR_SIM;
+	struct sch_worker wks[SCH_SIM_MAX_WORKERS];
+	struct sch_collect c = { 0 };
+	char **deck = NULL;
+	size_t n_wk = 1;
+	char why[512] = "";
+	bool failed = false;
+
+	memset(res, 0, sizeof(*res));
+	memset(wks, 0, sizeof(wks));
+	ret = check_commands(req, d);
+	if (ret != SCH_OK)
+		goto out;
+	ret = build_deck(req, &deck, d);
+	if (ret != SCH_OK)
+		goto out;
+	ret = alloc_result(res, req, &c);
+	if (ret != SCH_OK)
+		goto out;
+	if (req->n_workers > 1 && req->n_steps > 1)
+		n_wk = (size_t)req->n_workers < req->n_steps ? (size_t)req->n_workers : req->n_steps;
+	if (n_wk > SCH_SIM_MAX_WORKERS)
+		n_wk = SCH_SIM_MAX_WORKERS;
+	ret = start_workers(req, deck, wks, n_wk, why, sizeof(why));
+	if (ret == SCH_OK)
+		ret = drain_workers(wks, n_wk, &c);
+	if (ret == SCH_ERR_NOMEM)
+		goto out;
+	if (ret != SCH_OK) {
+		res->failure = strdup(why[0] ? why : "lost contact with the simulator");
+		ret = SCH_ERR_SIM;
+		goto out;
+	}
+	reap_workers(wks, n_wk);
+	res->version = version_from(&wks[0]);
+	ret = judge(res, wks, n_wk, &c, &failed);
+	if (ret != SCH_OK)
+		goto out;
+	report_notes(wks, n_wk, d);
+	ret = take_messages(res, wks, n_wk);
+	if (ret != SCH_OK)
+		goto out;
+	ret = failed ? SCH_ERR_SIM : SCH_OK;
+out:
+	if (ret == SCH_ERR_SIM)
+		sch_diag_error(d, SCH_ERR_SIM, NULL, 0, "simulator: %s",
+			       res->failure ? res->failure : "the simulation failed");
+	else if (ret == SCH_ERR_NOMEM)
+		sch_diag_error(d, SCH_ERR_NOMEM, NULL, 0, "simulator: out of memory");
+	release_workers(wks, n_wk);
+	free(c.vec_cap);
+	free(c.step_done);
+	free(c.step_flags);
+	free(deck);
+	return ret;
+}
+
+void sch_sim_result_release(struct sch_sim_result *res)
+{
+	if (!res)
+		return;
+	for (size_t s = 0; s < res->n_steps; s++) {
+		struct sch_sim_outcome *o = &res->steps[s];
+
+		for (size_t v = 0; v < o->n_vectors; v++) {
+			free(o->vectors[v].name);
+			free(o->vectors[v].values);
+		}
+		free(o->vectors);
+		free(o->quantities);
+		free(o->failure);
+	}
+	free(res->steps);
+	for (size_t i = 0; i < res->n_messages; i++)
+		free(res->messages[i]);
+	free(res->messages);
+	free(res->version);
+	free(res->failure);
+	memset(res, 0, sizeof(*res));
+}
+
+const struct sch_sim_vector *sch_sim_find_vector(const struct sch_sim_outcome *o, const char *name)
+{
+	if (!o || !name)
+		return NULL;
+	for (size_t i = 0; i < o->n_vectors; i++)
+		if (strcmp(o->vectors[i].name, name) == 0)
+			return &o->vectors[i];
+	return NULL;
+}
+
+bool sch_sim_name_is_safe(const char *name)
+{
+	size_t n = 0;
+
+	if (!name)
+		return false;
+	for (; name[n]; n++) {
+		unsigned char ch = (unsigned char)name[n];
+
+		if (n >= 200)
+			return false;
+		if (!((ch >= 'a' && ch <= 'z') || (ch >= '0' && ch <= '9') || strchr("_.#+-", ch)))
+			return false;
+	}
+	return n >= 1;
+}
