@@ -46,9 +46,22 @@ static const struct sch_element *paired_diode(const struct sch_deck *deck, const
 	return NULL;
 }
 
-static bool rule_matches(const struct sch_gain_rule *r, const char *path)
+/* Compiles each rule's regex (whole name, caseless) into pats[]. */
+static enum sch_err compile_rules(const struct sch_gain_rule *rules, size_t n, struct sch_pattern **pats,
+				  const char *what, struct sch_diag *d)
 {
-	return sch_pattern_match(r->pattern, path, strlen(path));
+	for (size_t k = 0; k < n; k++) {
+		enum sch_err ret = sch_pattern_compile(&pats[k], rules[k].regex, SCH_PAT_CASELESS | SCH_PAT_WHOLE, what, d);
+		if (ret != SCH_OK)
+			return ret;
+	}
+	return SCH_OK;
+}
+
+static void free_rules(struct sch_pattern **pats, size_t n)
+{
+	for (size_t k = 0; k < n; k++)
+		sch_pattern_free(pats[k]);
 }
 
 const char *sch_carriers_current_quantity(struct sch_arena *arena, char letter, const char *sim_name)
@@ -74,6 +87,8 @@ enum sch_err sch_carriers_find(const struct sch_deck *deck, const struct sch_car
 	enum sch_err ret;
 	struct sch_pattern *name_rule = NULL, *add = NULL, *ignore = NULL;
 	struct elem_info *info = NULL;
+	struct sch_pattern *aval_pat[64] = { NULL }, *fano_pat[64] = { NULL };
+	size_t n_aval = opt ? opt->n_avalanche : 0, n_fano = opt ? opt->n_fano : 0;
 	size_t n_cur = 0;
 
 	memset(set, 0, sizeof(*set));
@@ -91,6 +106,13 @@ enum sch_err sch_carriers_find(const struct sch_deck *deck, const struct sch_car
 		if (ret != SCH_OK)
 			goto out;
 	}
+	if (n_aval > 64 || n_fano > 64) {
+		ret = sch_diag_error(d, SCH_ERR_USAGE, NULL, 0, "too many --avalanche or --fano rules");
+		goto out;
+	}
+	if ((ret = compile_rules(opt ? opt->avalanche : NULL, n_aval, aval_pat, "--avalanche", d)) != SCH_OK ||
+	    (ret = compile_rules(opt ? opt->fano : NULL, n_fano, fano_pat, "--fano", d)) != SCH_OK)
+		goto out;
 	ret = sch_deck_instances(deck, arena, &set->instances, &set->n_instances, d);
 	if (ret != SCH_OK)
 		goto out;
@@ -132,12 +154,12 @@ enum sch_err sch_carriers_find(const struct sch_deck *deck, const struct sch_car
 			why |= SCH_WHY_NAME;
 		if (add && sch_pattern_match(add, in->path, plen))
 			why |= SCH_WHY_OPTION;
-		for (size_t r = 0; opt && r < opt->n_avalanche && !aval; r++) {
-			if (rule_matches(&opt->avalanche[r], in->path))
+		for (size_t r = 0; r < n_aval && !aval; r++) {
+			if (sch_pattern_match(aval_pat[r], in->path, plen))
 				aval = &opt->avalanche[r];
 		}
-		for (size_t r = 0; opt && r < opt->n_fano && !fano; r++) {
-			if (rule_matches(&opt->fano[r], in->path))
+		for (size_t r = 0; r < n_fano && !fano; r++) {
+			if (sch_pattern_match(fano_pat[r], in->path, plen))
 				fano = &opt->fano[r];
 		}
 		if (aval)
@@ -190,6 +212,8 @@ enum sch_err sch_carriers_find(const struct sch_deck *deck, const struct sch_car
 	}
 	ret = SCH_OK;
 out:
+	free_rules(aval_pat, n_aval <= 64 ? n_aval : 0);
+	free_rules(fano_pat, n_fano <= 64 ? n_fano : 0);
 	sch_pattern_free(name_rule);
 	sch_pattern_free(add);
 	sch_pattern_free(ignore);

@@ -26,7 +26,6 @@ enum sch_carrier_why {
 /* --avalanche REGEX=M:K or --fano REGEX=F */
 struct sch_gain_rule {
 	const char *regex;
-	struct sch_pattern *pattern;
 	double gain_m;   /* avalanche: M >= 1 */
 	double k_ratio;  /* avalanche: 0 <= k <= 1 */
 	double fano;     /* fano: F >= 0 */

@@ -1,0 +1,40 @@
+/* SPDX-License-Identifier: BSD-3-Clause */
+/* cli.h - the options every command shares, parsed into run options and output choices. */
+#ifndef SCH_CLI_H
+#define SCH_CLI_H
+
+#include <stdbool.h>
+#include "schrot/analysis.h"
+#include "schrot/diag.h"
+
+#define SCH_MAX_SPOTS 32
+#define SCH_MAX_RULES 16
+
+struct sch_cli {
+	const char *command;           /* "report", "carriers", ... */
+	const char *netlist;
+	struct sch_run_options run;
+	const char *json_path, *csv_path, *spectrum_path, *plot_path, *html_path, *depfile_path, *out_path;
+	double budget_v;               /* NaN: no budget */
+	int top_n;                     /* spectrum columns */
+	int verbosity;                 /* -1 quiet, 0, 1 verbose */
+	double spots[SCH_MAX_SPOTS];
+	struct sch_gain_rule avalanche[SCH_MAX_RULES];
+	struct sch_gain_rule fano[SCH_MAX_RULES];
+	const char *vary;              /* sweep: NAME=START:STOP:N[:lin] */
+	bool help;
+};
+
+/*
+ * Parses argv (argv[0] is the command name). Returns SCH_ERR_USAGE with a one-line message for
+ * unknown options, missing values, malformed numbers, M < 1, K outside [0, 1], F < 0.
+ */
+enum sch_err sch_cli_parse(struct sch_cli *cli, int argc, char **argv, struct sch_diag *d);
+
+/* Parses "F1:F2" (SI suffixes) into lo < hi. SCH_ERR_USAGE when malformed. */
+enum sch_err sch_cli_parse_range(const char *text, double *lo, double *hi);
+
+/* Frees compiled rule patterns. */
+void sch_cli_release(struct sch_cli *cli);
+
+#endif

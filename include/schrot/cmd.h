@@ -1,0 +1,31 @@
+/* SPDX-License-Identifier: BSD-3-Clause */
+/*
+ * cmd.h - the subcommands. Adding a command takes three steps:
+ *   1. write src/cmd_<name>.c defining int cmd_<name>(int argc, char **argv, struct sch_ctx *ctx);
+ *   2. declare it below;
+ *   3. add a row to the commands[] table in src/main.c (and a CLI test case under tests/cli/).
+ * A command only parses its options, calls sch_analysis_run and chooses outputs.
+ */
+#ifndef SCH_CMD_H
+#define SCH_CMD_H
+
+#include "schrot/cli.h"
+#include "schrot/diag.h"
+
+struct sch_ctx {
+	struct sch_diag diag;
+};
+
+/* Each returns a process exit code (enum sch_exit). argv[0] is the command name. */
+int cmd_report(int argc, char **argv, struct sch_ctx *ctx);
+int cmd_carriers(int argc, char **argv, struct sch_ctx *ctx);
+int cmd_augment(int argc, char **argv, struct sch_ctx *ctx);
+int cmd_sweep(int argc, char **argv, struct sch_ctx *ctx);
+
+/* Writes every output file the options ask for (json, csv, spectrum, plot, html, depfile). */
+enum sch_err sch_cmd_write_outputs(const struct sch_cli *cli, const struct sch_result *res, struct sch_diag *d);
+
+/* Prints the help text of the whole tool to out. */
+void sch_cmd_print_help(FILE *out);
+
+#endif
