@@ -1,0 +1,80 @@
+#!/usr/bin/env python3
+# SPDX-License-Identifier: BSD-3-Clause
+"""Runs the command-line cases in tests/cli/NNNN-slug/.
+
+Each case directory holds:
+  name             one line saying what the case checks
+  cmd              the arguments after 'schrot', one shell-style line; run in the case directory
+  expected.rc      the exit code
+  expected.stdout  optional: every non-empty line must occur in stdout (substring)
+  expected.stderr  optional: every non-empty line must occur in stderr (substring)
+  absent           optional: files (relative to the case) that must not exist afterwards
+  setup            optional: shell commands run first in the case directory
+"""
+import os
+import shlex
+import subprocess
+import sys
+
+
+def run_case(schrot, case):
+    def read(name):
+        p = os.path.join(case, name)
+        return open(p, encoding="utf-8").read() if os.path.exists(p) else None
+
+    problems = []
+    absent = [l.strip() for l in (read("absent") or "").splitlines() if l.strip()]
+    for f in absent:
+        if os.path.exists(os.path.join(case, f)):
+            os.remove(os.path.join(case, f))
+    setup = read("setup")
+    if setup:
+        subprocess.run(setup, shell=True, cwd=case, check=True)
+    args = shlex.split(read("cmd").strip())
+    env = dict(os.environ)
+    proc = subprocess.run([schrot] + args, cwd=case, capture_output=True, timeout=300, env=env)
+    out = proc.stdout.decode("utf-8", "replace")
+    err = proc.stderr.decode("utf-8", "replace")
+    want_rc = int(read("expected.rc").strip())
+    if proc.returncode != want_rc:
+        problems.append("exit code %d, expected %d" % (proc.returncode, want_rc))
+    for stream, text in (("stdout", out), ("stderr", err)):
+        exp = read("expected." + stream)
+        if exp is None:
+            continue
+        for line in exp.splitlines():
+            if line.strip() and line.strip() not in text:
+                problems.append("%s lacks %r" % (stream, line.strip()))
+    for f in absent:
+        if os.path.exists(os.path.join(case, f)):
+            problems.append("file %s exists" % f)
+            os.remove(os.path.join(case, f))
+    if problems:
+        problems.append("stdout was:\n" + out + "\nstderr was:\n" + err)
+    return problems
+
+
+def main():
+    schrot, root = os.path.abspath(sys.argv[1]), sys.argv[2]
+    passed = failed = 0
+    for name in sorted(os.listdir(root)):
+        case = os.path.join(root, name)
+        if not os.path.isdir(case) or not os.path.exists(os.path.join(case, "cmd")):
+            continue
+        problems = run_case(schrot, case)
+        title = (open(os.path.join(case, "name")).read().strip()
+                 if os.path.exists(os.path.join(case, "name")) else name)
+        if problems:
+            failed += 1
+            print("FAIL %s: %s" % (name, title))
+            for p in problems:
+                print("     " + p)
+        else:
+            passed += 1
+            print("ok   %s: %s" % (name, title))
+    print("%d passed, %d failed" % (passed, failed))
+    return 1 if failed or not passed else 0
+
+
+if __name__ == "__main__":
+    sys.exit(main())
