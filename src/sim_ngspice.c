@@ -287,20 +287,25 @@ static double vector_value(const struct vector_info *vi, int i)
 	return NAN;
 }
 
+/* Values are read first: a read may print, and a message must not land inside a record. */
 static void worker_send_quantities(struct sch_worker_ctx *w, const struct sch_sim_request *req)
 {
+	double *values;
+
 	if (req->n_quantities == 0)
 		return;
-	worker_header(w, SCH_REC_QUANT, 4 + 8 * req->n_quantities);
-	worker_put_u32(w, w->step);
+	values = malloc(req->n_quantities * sizeof(*values));
+	if (!values)
+		_exit(4);
 	for (size_t q = 0; q < req->n_quantities; q++) {
-		double v = NAN;
 		pvector_info vi = req->quantities[q] ? ngGet_Vec_Info((char *)req->quantities[q]) : NULL;
 
-		if (vi && vi->v_length > 0)
-			v = vector_value(vi, vi->v_length - 1);
-		worker_put(w, &v, sizeof(v));
+		values[q] = vi && vi->v_length > 0 ? vector_value(vi, vi->v_length - 1) : NAN;
 	}
+	worker_header(w, SCH_REC_QUANT, 4 + 8 * req->n_quantities);
+	worker_put_u32(w, w->step);
+	worker_put(w, values, 8 * req->n_quantities);
+	free(values);
 }
 
 static bool plot_has_vector(char *plot, const char *name)
