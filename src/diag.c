@@ -34,14 +34,14 @@ static void vreport(struct sch_diag *d, enum sch_severity sev, const char *file,
 		return;
 	vsnprintf(msg, sizeof(msg), fmt, ap);
 	if (file && line > 0)
-		snprintf(prefix, sizeof(prefix), "%s:%ld", file, line);
+		snprintf(prefix, sizeof(prefix), "%.500s:%ld", file, line);
 	else if (file)
-		snprintf(prefix, sizeof(prefix), "%s", file);
+		snprintf(prefix, sizeof(prefix), "%.500s", file);
 	else
 		snprintf(prefix, sizeof(prefix), "schrot");
 	if (sev == SCH_ERROR) {
 		if (d->n_errors == 0)
-			snprintf(d->first_error, sizeof(d->first_error), "%s: %s", prefix, msg);
+			snprintf(d->first_error, sizeof(d->first_error), "%.200s: %.300s", prefix, msg);
 		d->n_errors++;
 	} else if (sev == SCH_WARNING) {
 		d->n_warnings++;
