@@ -76,9 +76,9 @@ enum sch_err sch_report_depfile(const struct sch_result *r, const char *path, co
 	fputc(':', o.fp);
 	col++;
 	for (size_t i = 0; i < n_files; i++) {
-		if (col > 1 && col + strlen(files[i]) + 1 > DEP_WRAP) {
-			fputs(" \\\n ", o.fp);
-			col = 1;
+		if (col + strlen(files[i]) + 1 > DEP_WRAP) {
+			fputs(" \\\n", o.fp);
+			col = 0;
 		}
 		fputc(' ', o.fp);
 		col += put_name(o.fp, files[i]) + 1;

@@ -160,7 +160,7 @@ static void draw_band(cairo_t *cr, const struct sch_result *r, const struct axes
 	if (x1 <= x0)
 		return;
 	cairo_rectangle(cr, x0, AREA_T, x1 - x0, AREA_B - AREA_T);
-	cairo_set_source_rgb(cr, 1.0, 0.95, 0.80);
+	cairo_set_source_rgb(cr, 1.0, 0.965, 0.86);
 	cairo_fill(cr);
 	cairo_set_font_size(cr, 11);
 	set_colour(cr, 0.55, 0.42, 0.10);

@@ -1,0 +1,201 @@
+/* SPDX-License-Identifier: BSD-3-Clause */
+/* test_outfile.c - atomic output files: commit replaces, abort and failure leave the target alone. */
+#include <dirent.h>
+#include <stdlib.h>
+#include <string.h>
+#include <sys/stat.h>
+#include <unistd.h>
+#include "check.h"
+#include "schrot/outfile.h"
+
+static char dir[64];
+
+static void remove_dir(void)
+{
+	DIR *dp = opendir(dir);
+	struct dirent *e;
+	char p[512];
+
+	if (!dp)
+		return;
+	while ((e = readdir(dp)))
+		if (strcmp(e->d_name, ".") && strcmp(e->d_name, "..")) {
+			snprintf(p, sizeof(p), "%s/%s", dir, e->d_name);
+			remove(p);
+		}
+	closedir(dp);
+	rmdir(dir);
+}
+
+/* A fresh scratch file name in a private directory, removed at exit. */
+static const char *scratch(const char *name)
+{
+	static char p[512];
+
+	if (!dir[0]) {
+		snprintf(dir, sizeof(dir), "/tmp/schrot-outfile-XXXXXX");
+		if (!mkdtemp(dir))
+			abort();
+		atexit(remove_dir);
+	}
+	snprintf(p, sizeof(p), "%s/%s", dir, name);
+	return p;
+}
+
+static int count_entries(void)
+{
+	DIR *dp = opendir(dir);
+	struct dirent *e;
+	int n = 0;
+
+	if (!dp)
+		return -1;
+	while ((e = readdir(dp)))
+		if (strcmp(e->d_name, ".") && strcmp(e->d_name, ".."))
+			n++;
+	closedir(dp);
+	return n;
+}
+
+static void write_text(const char *path, const char *text)
+{
+	FILE *fp = fopen(path, "w");
+
+	if (fp) {
+		fputs(text, fp);
+		fclose(fp);
+	}
+}
+
+static char *slurp(const char *path)
+{
+	static char buf[4096];
+	FILE *fp = fopen(path, "r");
+	size_t n;
+
+	if (!fp)
+		return NULL;
+	n = fread(buf, 1, sizeof(buf) - 1, fp);
+	buf[n] = '\0';
+	fclose(fp);
+	return buf;
+}
+
+static void test_outfile__commit_replaces_target(void)
+{
+	char path[512];
+	struct sch_outfile o;
+	struct sch_diag d;
+
+	sch_diag_init(&d, NULL, 0);
+	snprintf(path, sizeof(path), "%s", scratch("a.json"));
+	write_text(path, "old\n");
+	CHECK(sch_outfile_open(&o, path, &d) == SCH_OK);
+	CHECK(o.tmp_path && strncmp(o.tmp_path, path, strlen(path)) == 0);
+	fputs("new\n", o.fp);
+	CHECK_STR(slurp(path), "old\n");
+	CHECK(sch_outfile_commit(&o, &d) == SCH_OK);
+	CHECK_STR(slurp(path), "new\n");
+	CHECK(o.fp == NULL);
+	CHECK(count_entries() == 1);
+	remove(path);
+}
+
+static void test_outfile__abort_leaves_old_file_untouched(void)
+{
+	char path[512];
+	struct sch_outfile o;
+	struct sch_diag d;
+
+	sch_diag_init(&d, NULL, 0);
+	snprintf(path, sizeof(path), "%s", scratch("b.csv"));
+	write_text(path, "earlier run\n");
+	CHECK(sch_outfile_open(&o, path, &d) == SCH_OK);
+	fputs("half a report", o.fp);
+	sch_outfile_abort(&o);
+	CHECK_STR(slurp(path), "earlier run\n");
+	CHECK(count_entries() == 1);
+	sch_outfile_abort(&o); /* no-op on a closed outfile */
+	remove(path);
+}
+
+static void test_outfile__abort_without_target_leaves_nothing(void)
+{
+	char path[512];
+	struct sch_outfile o;
+	struct sch_diag d;
+
+	sch_diag_init(&d, NULL, 0);
+	snprintf(path, sizeof(path), "%s", scratch("c.svg"));
+	CHECK(sch_outfile_open(&o, path, &d) == SCH_OK);
+	sch_outfile_abort(&o);
+	CHECK(access(path, F_OK) != 0);
+	CHECK(count_entries() == 0);
+}
+
+static void test_outfile__open_in_missing_directory_fails_naming_the_file(void)
+{
+	char path[512];
+	struct sch_outfile o;
+	struct sch_diag d;
+
+	sch_diag_init(&d, NULL, 0);
+	snprintf(path, sizeof(path), "%s", scratch("no/such/dir/x.json"));
+	CHECK(sch_outfile_open(&o, path, &d) == SCH_ERR_IO);
+	CHECK(o.fp == NULL && o.tmp_path == NULL && o.path == NULL);
+	CHECK(d.n_errors == 1);
+	CHECK(strstr(d.first_error, "x.json") != NULL);
+}
+
+static void test_outfile__dash_is_stdout(void)
+{
+	struct sch_outfile o;
+	struct sch_diag d;
+
+	sch_diag_init(&d, NULL, 0);
+	CHECK(sch_outfile_open(&o, "-", &d) == SCH_OK);
+	CHECK(o.fp == stdout);
+	CHECK(o.is_stdout);
+	CHECK(o.tmp_path == NULL);
+	CHECK(sch_outfile_commit(&o, &d) == SCH_OK);
+	CHECK(o.fp == NULL);
+}
+
+static void test_outfile__new_file_gets_umask_permissions(void)
+{
+	char path[512];
+	struct sch_outfile o;
+	struct sch_diag d;
+	struct stat st;
+	mode_t mask = umask(022);
+
+	umask(mask);
+	sch_diag_init(&d, NULL, 0);
+	snprintf(path, sizeof(path), "%s", scratch("d.json"));
+	CHECK(sch_outfile_open(&o, path, &d) == SCH_OK);
+	CHECK(sch_outfile_commit(&o, &d) == SCH_OK);
+	CHECK(stat(path, &st) == 0 && (st.st_mode & 0777) == (0666 & ~mask));
+	remove(path);
+}
+
+static void test_outfile__replaced_file_keeps_its_mode(void)
+{
+	char path[512];
+	struct sch_outfile o;
+	struct sch_diag d;
+	struct stat st;
+
+	sch_diag_init(&d, NULL, 0);
+	snprintf(path, sizeof(path), "%s", scratch("e.json"));
+	write_text(path, "x");
+	chmod(path, 0640);
+	CHECK(sch_outfile_open(&o, path, &d) == SCH_OK);
+	CHECK(sch_outfile_commit(&o, &d) == SCH_OK);
+	CHECK(stat(path, &st) == 0 && (st.st_mode & 0777) == 0640);
+	remove(path);
+}
+
+CHECK_MAIN(CASE(test_outfile__commit_replaces_target), CASE(test_outfile__abort_leaves_old_file_untouched),
+	   CASE(test_outfile__abort_without_target_leaves_nothing),
+	   CASE(test_outfile__open_in_missing_directory_fails_naming_the_file), CASE(test_outfile__dash_is_stdout),
+	   CASE(test_outfile__new_file_gets_umask_permissions), CASE(test_outfile__replaced_file_keeps_its_mode))
