@@ -1,0 +1,686 @@
+/* SPDX-License-Identifier: BSD-3-Clause */
+/*
+ * deck.c - the deck reader's file level: reading files, physical lines into logical cards
+ * (comments, '+' continuations), the title, .include/.lib resolution and the dropping of
+ * .control blocks and '*#' lines, in the top file and in every file it pulls in.
+ */
+#include <errno.h>
+#include <fcntl.h>
+#include <limits.h>
+#include <stdint.h>
+#include <stdlib.h>
+#include <string.h>
+#include <strings.h>
+#include <sys/stat.h>
+#include <unistd.h>
+#include "deck_int.h"
+
+#define DECK_MAX_FILE ((size_t)1 << 30) /* a netlist file larger than this is refused */
+
+enum src_mode { SRC_TOP, SRC_INCLUDE, SRC_LIB };
+
+/* Where a file's reader is: reading cards, or skipping text that must never reach the simulator. */
+enum src_state {
+	ST_CARDS,    /* ordinary reading */
+	ST_CONTROL,  /* inside .control ... .endc */
+	ST_DEF_SKIP, /* inside a .lib NAME ... .endl section definition that nobody asked for */
+	ST_OUTSIDE   /* library file read for one section: not inside it (yet) */
+};
+
+struct src {
+	const char *path;    /* as opened, in the arena */
+	const char *id;      /* canonical identity, in the arena */
+	const char *section; /* SRC_LIB: the section wanted (as written) */
+	enum src_mode mode;
+	enum src_state state;
+	bool found;          /* SRC_LIB: the section was seen */
+	bool stop;           /* .end in the top file, .endl closing the wanted section */
+};
+
+struct reader {
+	struct sch_deck_load ld;
+	const struct src *stack[SCH_MAX_INCLUDE_DEPTH + 1];
+	int depth;
+};
+
+static enum sch_err read_source(struct reader *r, struct src *src, const char *text, size_t len);
+
+static inline bool is_blank(char c)
+{
+	return c == ' ' || c == '\t' || c == '\r' || c == '\f' || c == '\v';
+}
+
+static bool ci_prefix(const char *s, size_t n, const char *prefix)
+{
+	size_t k = strlen(prefix);
+
+	return n >= k && strncasecmp(s, prefix, k) == 0;
+}
+
+/*
+ * Length of s[0..n) without its inline comment (';' anywhere, '$' at the start or after a
+ * blank) and trailing blanks. *high tells whether a kept byte is not ASCII.
+ */
+static size_t strip_inline(const char *s, size_t n, bool *high)
+{
+	unsigned char any = 0;
+	size_t i;
+
+	for (i = 0; i < n; i++) {
+		unsigned char c = (unsigned char)s[i];
+
+		if (c == ';' || (c == '$' && (i == 0 || is_blank(s[i - 1]))))
+			break;
+		any |= c;
+	}
+	while (i > 0 && is_blank(s[i - 1]))
+		i--;
+	*high = (any & 0x80) != 0;
+	return i;
+}
+
+/* Offset of the first byte that is not valid UTF-8 in s[0..n), or n. */
+static size_t utf8_bad(const char *str, size_t n)
+{
+	const unsigned char *s = (const unsigned char *)str;
+	size_t i = 0;
+
+	while (i < n) {
+		unsigned c = s[i];
+		size_t k;
+		unsigned cp, min;
+
+		if (c < 0x80) {
+			i++;
+			continue;
+		}
+		if (c >= 0xc2 && c <= 0xdf)
+			k = 1, cp = c & 0x1f, min = 0x80;
+		else if (c >= 0xe0 && c <= 0xef)
+			k = 2, cp = c & 0x0f, min = 0x800;
+		else if (c >= 0xf0 && c <= 0xf4)
+			k = 3, cp = c & 0x07, min = 0x10000;
+		else
+			return i;
+		if (n - i <= k)
+			return i;
+		for (size_t j = 1; j <= k; j++) {
+			if ((s[i + j] & 0xc0) != 0x80)
+				return i;
+			cp = (cp << 6) | (s[i + j] & 0x3f);
+		}
+		if (cp < min || cp > 0x10ffff || (cp >= 0xd800 && cp <= 0xdfff))
+			return i;
+		i += k + 1;
+	}
+	return n;
+}
+
+static enum sch_err check_utf8(struct reader *r, const struct src *src, long line, const char *s, size_t n)
+{
+	size_t bad = utf8_bad(s, n);
+
+	if (bad == n)
+		return SCH_OK;
+	return sch_diag_error(r->ld.d, SCH_ERR_INPUT, src->path, line, "invalid utf-8 (byte 0x%02x)",
+			      (unsigned char)s[bad]);
+}
+
+/* Reads a whole file. *err_no is set on failure (EISDIR for a directory, EFBIG when too large). */
+static enum sch_err slurp(const char *path, char **out, size_t *out_len, int *err_no)
+{
+	enum sch_err ret = SCH_ERR_INPUT;
+	struct stat st;
+	char *data = NULL;
+	size_t len = 0, alloc = 0;
+	int fd = open(path, O_RDONLY | O_CLOEXEC);
+
+	*out = NULL;
+	*out_len = 0;
+	*err_no = 0;
+	if (fd < 0) {
+		*err_no = errno;
+		goto out;
+	}
+	if (fstat(fd, &st) != 0) {
+		*err_no = errno;
+		goto out;
+	}
+	if (S_ISDIR(st.st_mode)) {
+		*err_no = EISDIR;
+		goto out;
+	}
+	for (;;) {
+		ssize_t got;
+
+		if (len + 1 >= alloc) {
+			size_t want = alloc ? alloc * 2 : (S_ISREG(st.st_mode) && st.st_size > 0 ? (size_t)st.st_size + 2 : 65536);
+			char *p;
+
+			if (alloc > DECK_MAX_FILE) {
+				*err_no = EFBIG;
+				goto out;
+			}
+			p = realloc(data, want);
+			if (!p) {
+				ret = SCH_ERR_NOMEM;
+				goto out;
+			}
+			data = p;
+			alloc = want;
+		}
+		got = read(fd, data + len, alloc - len - 1);
+		if (got < 0 && errno == EINTR)
+			continue;
+		if (got < 0) {
+			*err_no = errno;
+			goto out;
+		}
+		if (got == 0)
+			break;
+		len += (size_t)got;
+	}
+	if (len > DECK_MAX_FILE) {
+		*err_no = EFBIG;
+		goto out;
+	}
+	data[len] = '\0';
+	*out = data;
+	*out_len = len;
+	data = NULL;
+	ret = SCH_OK;
+out:
+	free(data);
+	if (fd >= 0)
+		close(fd);
+	return ret;
+}
+
+static const char *reason(int err_no, char *buf, size_t size)
+{
+	snprintf(buf, size, "%s", err_no == EFBIG ? "file too large" : strerror(err_no));
+	if (buf[0] >= 'A' && buf[0] <= 'Z')
+		buf[0] = (char)(buf[0] - 'A' + 'a');
+	return buf;
+}
+
+/* The directory part of path joined with name; name itself when absolute or path has no '/'. */
+static const char *resolve(struct sch_arena *a, const char *including, const char *name, size_t n)
+{
+	const char *slash = strrchr(including, '/');
+
+	if (name[0] == '/' || !slash)
+		return sch_arena_strndup(a, name, n);
+	return sch_arena_printf(a, "%.*s/%.*s", (int)(slash - including), including, (int)n, name);
+}
+
+static enum sch_err note_file(struct reader *r, const char *path, const char *id)
+{
+	struct sch_deck_load *ld = &r->ld;
+
+	for (size_t i = 0; i < ld->n_files; i++)
+		if (strcmp(ld->file_ids[i], id) == 0)
+			return SCH_OK;
+	if (sch_deck_grow((void **)&ld->files, &ld->a_files, ld->n_files, sizeof(*ld->files)) != SCH_OK ||
+	    sch_deck_grow((void **)&ld->file_ids, &ld->a_file_ids, ld->n_files, sizeof(*ld->file_ids)) != SCH_OK)
+		return SCH_ERR_NOMEM;
+	ld->files[ld->n_files] = path;
+	ld->file_ids[ld->n_files] = id;
+	ld->n_files++;
+	return SCH_OK;
+}
+
+static const char *identity(struct sch_arena *a, const char *path)
+{
+	char *real = realpath(path, NULL);
+	const char *id = sch_arena_strdup(a, real ? real : path);
+
+	free(real);
+	return id;
+}
+
+/*
+ * Reads path (named by the card at inc_file:inc_line) as an include file or, when section is
+ * given, for that library section.
+ */
+static enum sch_err open_source(struct reader *r, const char *path, const char *section, const char *inc_file,
+				long inc_line)
+{
+	struct sch_deck_load *ld = &r->ld;
+	struct src src = { 0 };
+	char *text = NULL;
+	size_t len;
+	int err_no;
+	char why[128];
+	enum sch_err ret;
+
+	if (r->depth > SCH_MAX_INCLUDE_DEPTH) {
+		ret = sch_diag_error(ld->d, SCH_ERR_INPUT, inc_file, inc_line,
+				     "includes nested more than %d levels deep at '%s'", SCH_MAX_INCLUDE_DEPTH, path);
+		goto out;
+	}
+	ret = slurp(path, &text, &len, &err_no);
+	if (ret == SCH_ERR_INPUT) {
+		ret = sch_diag_error(ld->d, SCH_ERR_INPUT, inc_file, inc_line, err_no == EISDIR ?
+				     "%s file '%s' is a directory%s" : "cannot open %s file '%s': %s",
+				     section ? "library" : "include", path,
+				     err_no == EISDIR ? "" : reason(err_no, why, sizeof(why)));
+		goto out;
+	}
+	if (ret != SCH_OK)
+		goto out;
+	ret = SCH_ERR_NOMEM;
+	src.path = path;
+	src.id = identity(&ld->deck->arena, path);
+	src.section = section;
+	src.mode = section ? SRC_LIB : SRC_INCLUDE;
+	src.state = section ? ST_OUTSIDE : ST_CARDS;
+	if (!src.id)
+		goto out;
+	for (int i = 0; i < r->depth; i++) {
+		const struct src *o = r->stack[i];
+		bool same_section = (!o->section && !section) ||
+				    (o->section && section && strcasecmp(o->section, section) == 0);
+
+		if (strcmp(o->id, src.id) == 0 && same_section) {
+			ret = sch_diag_error(ld->d, SCH_ERR_INPUT, inc_file, inc_line,
+					     "include cycle: '%s'%s%s%s is already being read", path,
+					     section ? " section '" : "", section ? section : "", section ? "'" : "");
+			goto out;
+		}
+	}
+	if (note_file(r, path, src.id) != SCH_OK)
+		goto out;
+	r->stack[r->depth++] = &src;
+	ret = read_source(r, &src, text, len);
+	r->depth--;
+	if (ret == SCH_OK && section && !src.found)
+		ret = sch_diag_error(ld->d, SCH_ERR_INPUT, inc_file, inc_line,
+				     "library section '%s' not found in '%s'", section, path);
+out:
+	free(text);
+	return ret;
+}
+
+/* Argument i (1-based) of an .include/.lib card matched by re, quotes removed; NULL if absent. */
+static const char *card_arg(struct reader *r, const struct sch_pattern *re, const char *text, size_t len,
+			    int i, size_t *n)
+{
+	size_t ov[6];
+	const char *s;
+
+	if (!sch_pattern_search(re, text, len, 0, ov, 3) || ov[2 * i] == SIZE_MAX)
+		return NULL;
+	s = text + ov[2 * i];
+	*n = ov[2 * i + 1] - ov[2 * i];
+	if (*n >= 2 && (s[0] == '"' || s[0] == '\'') && s[*n - 1] == s[0]) {
+		s++;
+		*n -= 2;
+	}
+	return s;
+}
+
+static enum sch_err include_card(struct reader *r, struct src *src, long line, const char *text, size_t len)
+{
+	struct sch_arena *a = &r->ld.deck->arena;
+	size_t n = 0;
+	const char *name = card_arg(r, r->ld.re_include, text, len, 1, &n);
+	const char *path;
+
+	if (!name || n == 0)
+		return sch_diag_error(r->ld.d, SCH_ERR_INPUT, src->path, line, "'.include' needs a file name");
+	path = resolve(a, src->path, name, n);
+	if (!path)
+		return SCH_ERR_NOMEM;
+	return open_source(r, path, NULL, src->path, line);
+}
+
+static enum sch_err lib_card(struct reader *r, struct src *src, long line, const char *text, size_t len)
+{
+	struct sch_arena *a = &r->ld.deck->arena;
+	size_t n1 = 0, n2 = 0;
+	const char *file = card_arg(r, r->ld.re_lib, text, len, 1, &n1);
+	const char *sec = card_arg(r, r->ld.re_lib, text, len, 2, &n2);
+	const char *path, *section;
+
+	if (!file || n1 == 0)
+		return sch_diag_error(r->ld.d, SCH_ERR_INPUT, src->path, line,
+				      "'.lib' needs a file name and a section");
+	if (!sec) {
+		/* ".lib NAME" opens a section definition; it is read only when a .lib FILE NAME asks. */
+		src->state = ST_DEF_SKIP;
+		return SCH_OK;
+	}
+	path = resolve(a, src->path, file, n1);
+	section = sch_arena_strndup(a, sec, n2);
+	if (!path || !section)
+		return SCH_ERR_NOMEM;
+	return open_source(r, path, section, src->path, line);
+}
+
+/* One complete logical line of src. */
+static enum sch_err flush_card(struct reader *r, struct src *src, long line, const char *text, size_t len)
+{
+	char kw[16];
+	size_t k = 0;
+
+	if (text[0] != '.')
+		return sch_deck_load_card(&r->ld, src->path, line, text, len);
+	while (k < len && k + 1 < sizeof(kw) && !is_blank(text[k]) && text[k] != '(' && text[k] != '"' &&
+	       text[k] != '\'') {
+		kw[k] = (char)((text[k] >= 'A' && text[k] <= 'Z') ? text[k] - 'A' + 'a' : text[k]);
+		k++;
+	}
+	kw[k] = '\0';
+	/* ngspice takes any card starting ".inc" as an include and ".lib" as a library call. */
+	if (strncmp(kw, ".inc", 4) == 0)
+		return include_card(r, src, line, text, len);
+	if (strncmp(kw, ".endl", 5) == 0) {
+		if (src->mode == SRC_LIB)
+			src->stop = true;
+		return SCH_OK;
+	}
+	if (strncmp(kw, ".lib", 4) == 0)
+		return lib_card(r, src, line, text, len);
+	if (strncmp(kw, ".endc", 5) == 0)
+		return SCH_OK;
+	if (strcmp(kw, ".end") == 0) {
+		/* ngspice ignores .end in included files; in the top file it ends the deck. */
+		if (src->mode == SRC_TOP)
+			src->stop = true;
+		return SCH_OK;
+	}
+	return sch_deck_load_card(&r->ld, src->path, line, text, len);
+}
+
+/* In a library file outside the wanted section: does this line open it? */
+static bool opens_section(struct reader *r, const struct src *src, const char *s, size_t n)
+{
+	size_t n1 = 0, n2 = 0;
+	const char *name;
+
+	if (!ci_prefix(s, n, ".lib"))
+		return false;
+	name = card_arg(r, r->ld.re_lib, s, n, 1, &n1);
+	if (!name || card_arg(r, r->ld.re_lib, s, n, 2, &n2))
+		return false;
+	return n1 == strlen(src->section) && strncasecmp(name, src->section, n1) == 0;
+}
+
+static void warn_dropped(struct reader *r, const struct src *src, long line, bool control)
+{
+	if (control) {
+		r->ld.deck->n_dropped_control++;
+		sch_diag_report(r->ld.d, SCH_WARNING, src->path, line,
+				"'.control' block dropped: netlist commands are never run");
+	} else {
+		r->ld.deck->n_dropped_script++;
+		sch_diag_report(r->ld.d, SCH_WARNING, src->path, line,
+				"'*#' command line dropped: netlist commands are never run");
+	}
+}
+
+static enum sch_err take_title(struct reader *r, struct src *src, const char *s, size_t n)
+{
+	size_t b = 0;
+
+	if (n > SCH_MAX_LINE)
+		return sch_diag_error(r->ld.d, SCH_ERR_INPUT, src->path, 1, "title line longer than %zu bytes",
+				      SCH_MAX_LINE);
+	if (check_utf8(r, src, 1, s, n) != SCH_OK)
+		return SCH_ERR_INPUT;
+	r->ld.deck->title = sch_arena_strndup(&r->ld.deck->arena, s, n);
+	if (!r->ld.deck->title)
+		return SCH_ERR_NOMEM;
+	while (b < n && is_blank(s[b]))
+		b++;
+	if (ci_prefix(s + b, n - b, "*ng_script"))
+		sch_diag_report(r->ld.d, SCH_WARNING, src->path, 1,
+				"title starts with '*ng_script': it is kept as a title and never run as a script");
+	return SCH_OK;
+}
+
+static enum sch_err read_source(struct reader *r, struct src *src, const char *text, size_t len)
+{
+	enum sch_err ret = SCH_ERR_NOMEM;
+	struct sch_buf card;
+	long card_line = 0;
+	bool pending = false;
+	bool need_title = src->mode == SRC_TOP;
+	bool title_blank = false;
+	const char *nul = memchr(text, '\0', len);
+	size_t pos = 0;
+	long lineno = 0;
+
+	sch_buf_init(&card, SCH_MAX_LINE);
+	if (nul) {
+		long at = 1;
+		for (const char *p = text; p < nul; p++)
+			at += *p == '\n';
+		ret = sch_diag_error(r->ld.d, SCH_ERR_INPUT, src->path, at, "binary file");
+		goto out;
+	}
+	while (pos < len && !src->stop) {
+		const char *s = text + pos;
+		const char *nl = memchr(s, '\n', len - pos);
+		size_t n = nl ? (size_t)(nl - s) : len - pos;
+		size_t b = 0, kept;
+		bool high;
+
+		pos += n + 1;
+		lineno++;
+		if (n && s[n - 1] == '\r')
+			n--;
+		if (need_title) {
+			need_title = false;
+			ret = take_title(r, src, s, n);
+			if (ret != SCH_OK)
+				goto out;
+			ret = SCH_ERR_NOMEM;
+			title_blank = r->ld.deck->title[strspn(r->ld.deck->title, " \t\r\f\v")] == '\0';
+			continue;
+		}
+		while (b < n && is_blank(s[b]))
+			b++;
+		if (b == n)
+			continue;
+		if (title_blank) {
+			/* ngspice looks for the script marker past a blank first line too. */
+			title_blank = false;
+			if (ci_prefix(s + b, n - b, "*ng_script"))
+				sch_diag_report(r->ld.d, SCH_WARNING, src->path, lineno,
+						"'*ng_script' after a blank title is a comment here and never run");
+		}
+		s += b;
+		n -= b;
+		if (s[0] == '*') {
+			if (n > 1 && s[1] == '#' && src->state == ST_CARDS)
+				warn_dropped(r, src, lineno, false);
+			continue;
+		}
+		if (s[0] == '+') {
+			if (src->state != ST_CARDS)
+				continue;
+			s++;
+			n--;
+			while (n && is_blank(*s))
+				s++, n--;
+			kept = strip_inline(s, n, &high);
+			if (!kept)
+				continue;
+			if (high && check_utf8(r, src, lineno, s, kept) != SCH_OK) {
+				ret = SCH_ERR_INPUT;
+				goto out;
+			}
+			if (!pending) {
+				sch_diag_report(r->ld.d, SCH_WARNING, src->path, lineno,
+						"continuation line with no card to continue: ignored");
+				continue;
+			}
+			if (card.len + 1 + kept > SCH_MAX_LINE) {
+				ret = sch_diag_error(r->ld.d, SCH_ERR_INPUT, src->path, card_line,
+						     "line longer than %zu bytes", SCH_MAX_LINE);
+				goto out;
+			}
+			if (sch_buf_add(&card, " ", 1) != SCH_OK || sch_buf_add(&card, s, kept) != SCH_OK)
+				goto out;
+			continue;
+		}
+		kept = strip_inline(s, n, &high);
+		if (!kept)
+			continue; /* a line holding only an inline comment does not end the card above */
+		if (pending) {
+			pending = false;
+			ret = flush_card(r, src, card_line, card.data, card.len);
+			if (ret != SCH_OK)
+				goto out;
+			ret = SCH_ERR_NOMEM;
+			if (src->stop)
+				break;
+		}
+		if (src->state == ST_CONTROL) {
+			if (ci_prefix(s, kept, ".endc"))
+				src->state = ST_CARDS;
+			continue;
+		}
+		if (src->state == ST_DEF_SKIP) {
+			if (ci_prefix(s, kept, ".endl"))
+				src->state = ST_CARDS;
+			continue;
+		}
+		if (src->state == ST_OUTSIDE) {
+			if (opens_section(r, src, s, kept)) {
+				src->state = ST_CARDS;
+				src->found = true;
+			}
+			continue;
+		}
+		if (s[0] == '.' && sch_pattern_match(r->ld.re_control, s, kept)) {
+			src->state = ST_CONTROL;
+			warn_dropped(r, src, lineno, true);
+			continue;
+		}
+		if (high && check_utf8(r, src, lineno, s, kept) != SCH_OK) {
+			ret = SCH_ERR_INPUT;
+			goto out;
+		}
+		if (kept > SCH_MAX_LINE) {
+			ret = sch_diag_error(r->ld.d, SCH_ERR_INPUT, src->path, lineno, "line longer than %zu bytes",
+					     SCH_MAX_LINE);
+			goto out;
+		}
+		sch_buf_reset(&card);
+		if (sch_buf_add(&card, s, kept) != SCH_OK)
+			goto out;
+		card_line = lineno;
+		pending = true;
+	}
+	if (pending && !src->stop) {
+		ret = flush_card(r, src, card_line, card.data, card.len);
+		if (ret != SCH_OK)
+			goto out;
+	}
+	ret = SCH_OK;
+out:
+	sch_buf_release(&card);
+	return ret;
+}
+
+static enum sch_err compile(struct sch_pattern **p, const char *re, struct sch_diag *d)
+{
+	/* Our own fixed patterns: a failure here is a bug, reported without a location. */
+	return sch_pattern_compile(p, re, SCH_PAT_CASELESS, "the deck reader", d);
+}
+
+#define ARG_RE "(\"[^\"]*\"|'[^']*'|[^ \\t]+)"
+
+void sch_deck_init(struct sch_deck *deck)
+{
+	memset(deck, 0, sizeof(*deck));
+	sch_arena_init(&deck->arena);
+	deck->noise.card = -1;
+}
+
+void sch_deck_release(struct sch_deck *deck)
+{
+	if (!deck)
+		return;
+	sch_arena_release(&deck->arena);
+	sch_deck_init(deck);
+}
+
+static bool all_blank(const char *text, size_t len)
+{
+	for (size_t i = 0; i < len; i++)
+		if (!is_blank(text[i]) && text[i] != '\n')
+			return false;
+	return true;
+}
+
+enum sch_err sch_deck_load_text(struct sch_deck *deck, const char *name, const char *text, size_t len,
+				struct sch_diag *d)
+{
+	struct reader r;
+	struct src top = { 0 };
+	enum sch_err ret = SCH_ERR_NOMEM;
+
+	sch_deck_release(deck);
+	memset(&r, 0, sizeof(r));
+	r.ld.deck = deck;
+	r.ld.d = d;
+	if (!name)
+		name = "<netlist>";
+	if (compile(&r.ld.re_control, "^[ \\t]*\\.control", d) != SCH_OK ||
+	    compile(&r.ld.re_include, "^[ \\t]*\\.inc[^ \\t]*(?:[ \\t]+" ARG_RE ")?", d) != SCH_OK ||
+	    compile(&r.ld.re_lib, "^[ \\t]*\\.lib[^ \\t]*(?:[ \\t]+" ARG_RE ")?(?:[ \\t]+" ARG_RE ")?", d) != SCH_OK)
+		goto out;
+	deck->path = sch_arena_strdup(&deck->arena, name);
+	top.path = deck->path;
+	top.id = deck->path ? identity(&deck->arena, name) : NULL;
+	if (!top.id)
+		goto out;
+	if (!text || all_blank(text, len)) {
+		ret = sch_diag_error(d, SCH_ERR_INPUT, name, 0, "empty netlist");
+		goto out;
+	}
+	top.mode = SRC_TOP;
+	top.state = ST_CARDS;
+	if (note_file(&r, top.path, top.id) != SCH_OK)
+		goto out;
+	r.stack[r.depth++] = &top;
+	ret = read_source(&r, &top, text, len);
+	if (ret == SCH_OK)
+		ret = sch_deck_load_finish(&r.ld);
+out:
+	sch_deck_load_release(&r.ld);
+	return ret;
+}
+
+enum sch_err sch_deck_load(struct sch_deck *deck, const char *path, struct sch_diag *d)
+{
+	enum sch_err ret;
+	char *text = NULL;
+	size_t len = 0;
+	int err_no = 0;
+	char why[128];
+
+	if (!path) {
+		sch_deck_release(deck);
+		return sch_diag_error(d, SCH_ERR_INPUT, NULL, 0, "no netlist given");
+	}
+	ret = slurp(path, &text, &len, &err_no);
+	if (ret == SCH_ERR_INPUT) {
+		sch_deck_release(deck);
+		if (err_no == EISDIR)
+			ret = sch_diag_error(d, SCH_ERR_INPUT, NULL, 0, "netlist '%s' is a directory", path);
+		else
+			ret = sch_diag_error(d, SCH_ERR_INPUT, NULL, 0, "cannot open netlist '%s': %s", path,
+					     reason(err_no, why, sizeof(why)));
+	} else if (ret == SCH_OK) {
+		ret = sch_deck_load_text(deck, path, text, len, d);
+	} else {
+		sch_deck_release(deck);
+	}
+	free(text);
+	return ret;
+}

@@ -1,0 +1,96 @@
+/* SPDX-License-Identifier: BSD-3-Clause */
+/*
+ * deck_int.h - internals shared by the deck reader's files: the load state that deck.c (files,
+ * lines, includes) fills through deck_cards.c (tokens, cards), and a small name index.
+ */
+#ifndef SCH_DECK_INT_H
+#define SCH_DECK_INT_H
+
+#include <stdbool.h>
+#include <stddef.h>
+#include "schrot/buf.h"
+#include "schrot/deck.h"
+#include "schrot/pattern.h"
+
+/* Hierarchies that expand to more instances than this are refused (exponential fan-out). */
+#define SCH_MAX_INSTANCES ((size_t)1 << 22)
+
+/* Name -> int multimap with separate chaining; keys are borrowed, never copied. */
+struct sch_name_entry {
+	const char *key;
+	size_t len;
+	int value;
+	int next;
+};
+
+struct sch_names {
+	int *bucket;
+	size_t mask;
+	struct sch_name_entry *e;
+	size_t n, alloc;
+};
+
+/* Prepares an index for about n keys. SCH_ERR_NOMEM on failure (then releasable). */
+enum sch_err sch_names_init(struct sch_names *ix, size_t n);
+
+/* Adds key -> value. SCH_ERR_NOMEM on failure (index unchanged). */
+enum sch_err sch_names_add(struct sch_names *ix, const char *key, size_t len, int value);
+
+/*
+ * Next entry with this key after entry `after` (-1 to start); returns the entry index or -1.
+ * Values are ix->e[i].value.
+ */
+int sch_names_next(const struct sch_names *ix, const char *key, size_t len, int after);
+
+/* Frees the index; it is then empty (no-op on a zeroed index). */
+void sch_names_release(struct sch_names *ix);
+
+/*
+ * The definition named `name` visible from scope (a subckt index or -1): a definition whose parent
+ * is scope or one of its ancestors, the nearest one winning. -1 when none.
+ */
+int sch_deck_resolve_subckt(const struct sch_subckt *subckts, const struct sch_names *ix,
+			    const char *name, int scope);
+
+/* Index of the token holding an X element's subcircuit name, or -1. */
+int sch_deck_x_name_index(const struct sch_element *e);
+
+/* Grows a malloc'd array so that it holds at least n + 1 items of size bytes. */
+enum sch_err sch_deck_grow(void **data, size_t *alloc, size_t n, size_t size);
+
+/* State of one sch_deck_load call; the vectors are malloc'd and moved into the arena at the end. */
+struct sch_deck_load {
+	struct sch_deck *deck;
+	struct sch_diag *d;
+	struct sch_card *cards;
+	size_t n_cards, a_cards;
+	struct sch_element *elements;
+	size_t n_elements, a_elements;
+	struct sch_subckt *subckts;
+	size_t n_subckts, a_subckts;
+	struct sch_model *models;
+	size_t n_models, a_models;
+	const char **files;
+	const char **file_ids; /* canonical identity of files[i] (realpath, or the name as given) */
+	size_t n_files, a_files, a_file_ids;
+	int *open;             /* .subckt definitions not yet closed, innermost last */
+	size_t n_open, a_open;
+	char *scratch;          /* lower-case tokens of the card being read, NUL-separated */
+	size_t scratch_len, a_scratch;
+	size_t *tok_off;
+	size_t n_tok, a_tok;
+	bool noise_seen;
+	struct sch_pattern *re_control, *re_include, *re_lib;
+};
+
+/* Adds one ordinary card (an element or a dot card other than include/lib/control/end). */
+enum sch_err sch_deck_load_card(struct sch_deck_load *ld, const char *file, long line,
+				const char *text, size_t len);
+
+/* Checks what needs the whole deck (balance, subckt and model names), then moves it into the arena. */
+enum sch_err sch_deck_load_finish(struct sch_deck_load *ld);
+
+/* Frees the load state's own storage (not the deck). */
+void sch_deck_load_release(struct sch_deck_load *ld);
+
+#endif
