@@ -57,6 +57,7 @@ enum sch_phase {
 };
 
 #define SCH_STEP_NO_NOISE_PLOT 0x1u
+#define SCH_STEP_NOISE_GARBLED 0x2u
 #define SCH_STEP_NONE UINT32_MAX
 
 /* ------------------------------------------------------------------------------------------ */
@@ -72,6 +73,18 @@ struct sch_worker_ctx {
 	uint32_t step;
 	volatile bool gave_up;
 	bool load_error;
+	/*
+	 * The newest noise density plot of the current step, as SendData delivered it: n_rows rows
+	 * of n_names values, in the order SendInitData named them. With "save none" the library
+	 * itself keeps only each vector's last point, which is what keeps big circuits affordable.
+	 */
+	bool noise_live;  /* the plot now being written is a density plot */
+	bool noise_seen;  /* this step produced one */
+	bool noise_order_bad;
+	char **names;
+	size_t n_names;
+	double *rows;
+	size_t n_rows, rows_cap;
 };
 
 static void worker_write_raw(struct sch_worker_ctx *w, const void *p, size_t n)
@@ -198,6 +211,99 @@ static bool path_is_command_safe(const char *p)
 	return true;
 }
 
+static void noise_clear(struct sch_worker_ctx *w)
+{
+	for (size_t i = 0; i < w->n_names; i++)
+		free(w->names[i]);
+	free(w->names);
+	free(w->rows);
+	w->names = NULL;
+	w->rows = NULL;
+	w->n_names = w->n_rows = w->rows_cap = 0;
+	w->noise_live = w->noise_seen = w->noise_order_bad = false;
+}
+
+/* SendInitData: a new plot starts. A noise plot holding "frequency" is a density plot. */
+static int worker_on_init_data(pvecinfoall info, int id, void *user)
+{
+	struct sch_worker_ctx *w = user;
+	bool density = false;
+
+	w->noise_live = false;
+	if (!info || !info->type || strncmp(info->type, "noise", 5) != 0 || info->veccount <= 0)
+		return 0;
+	for (int i = 0; i < info->veccount; i++)
+		if (info->vecs[i] && info->vecs[i]->vecname && strcmp(info->vecs[i]->vecname, "frequency") == 0)
+			density = true;
+	if (!density)
+		return 0;
+	noise_clear(w);
+	w->names = calloc((size_t)info->veccount, sizeof(*w->names));
+	if (!w->names)
+		_exit(4);
+	for (int i = 0; i < info->veccount; i++) {
+		w->names[i] = strdup(info->vecs[i] && info->vecs[i]->vecname ? info->vecs[i]->vecname : "");
+		if (!w->names[i])
+			_exit(4);
+	}
+	w->n_names = (size_t)info->veccount;
+	w->noise_live = w->noise_seen = true;
+	return 0;
+}
+
+/* SendData: one frequency point of every vector; appended, so copying stays linear. */
+static int worker_on_data(pvecvaluesall vals, int count, int id, void *user)
+{
+	struct sch_worker_ctx *w = user;
+	double *row;
+
+	if (!w->noise_live || !vals)
+		return 0;
+	if ((size_t)vals->veccount != w->n_names) {
+		w->noise_order_bad = true;
+		return 0;
+	}
+	if ((w->n_rows + 1) * w->n_names > w->rows_cap) {
+		size_t cap = w->rows_cap ? 2 * w->rows_cap : 64 * w->n_names;
+		double *grown = realloc(w->rows, cap * sizeof(*grown));
+
+		if (!grown)
+			_exit(4);
+		w->rows = grown;
+		w->rows_cap = cap;
+	}
+	row = w->rows + w->n_rows * w->n_names;
+	for (size_t i = 0; i < w->n_names; i++) {
+		const struct vecvalues *v = vals->vecsa[i];
+
+		if (w->n_rows == 0 && (!v->name || strcmp(v->name, w->names[i]) != 0))
+			w->noise_order_bad = true;
+		row[i] = v->creal;
+	}
+	w->n_rows++;
+	return 0;
+}
+
+/* Sends the collected density plot to the parent, one record per vector. */
+static void worker_send_vectors(struct sch_worker_ctx *w)
+{
+	size_t n = w->n_rows;
+
+	for (size_t j = 0; j < w->n_names; j++) {
+		size_t name_len = strlen(w->names[j]);
+
+		if (name_len > 65536 || 12 + name_len + 8 * n >= SCH_SIM_MAX_RECORD)
+			continue;
+		worker_header(w, SCH_REC_VEC, 12 + name_len + 8 * n);
+		worker_put_u32(w, w->step);
+		worker_put_u32(w, (uint32_t)name_len);
+		worker_put(w, w->names[j], name_len);
+		worker_put_u32(w, (uint32_t)n);
+		for (size_t k = 0; k < n; k++)
+			worker_put(w, &w->rows[k * w->n_names + j], sizeof(double));
+	}
+}
+
 /* The code model POLY sources need, next to the library we were linked with. */
 static void worker_load_codemodel(void)
 {
@@ -260,7 +366,7 @@ static bool worker_init_library(struct sch_worker_ctx *w)
 		snprintf(reason, sizeof(reason), "cannot prepare '%s': %s", dir, strerror(errno));
 		goto out;
 	}
-	ngSpice_Init(worker_on_char, NULL, worker_on_exit, NULL, NULL, NULL, w);
+	ngSpice_Init(worker_on_char, NULL, worker_on_exit, worker_on_data, worker_on_init_data, NULL, w);
 	if ((cwd_fd >= 0 ? fchdir(cwd_fd) : chdir(cwd)) != 0) {
 		snprintf(reason, sizeof(reason), "cannot return to the working directory: %s", strerror(errno));
 		goto out;
@@ -308,74 +414,6 @@ static void worker_send_quantities(struct sch_worker_ctx *w, const struct sch_si
 	free(values);
 }
 
-static bool plot_has_vector(char *plot, const char *name)
-{
-	char **vecs = ngSpice_AllVecs(plot);
-
-	for (size_t i = 0; vecs && vecs[i]; i++)
-		if (strcmp(vecs[i], name) == 0)
-			return true;
-	return false;
-}
-
-/* The newest noise density plot: named noise<N> and holding "frequency". NULL when none. */
-static char *worker_find_noise_plot(void)
-{
-	char **plots = ngSpice_AllPlots();
-
-	for (size_t i = 0; plots && plots[i]; i++)
-		if (strncmp(plots[i], "noise", 5) == 0 && plot_has_vector(plots[i], "frequency"))
-			return plots[i];
-	return NULL;
-}
-
-/* Copies every vector of plot to the parent; data is copied at once (the info struct is static). */
-static void worker_send_vectors(struct sch_worker_ctx *w, const char *plot)
-{
-	char *plot_copy = strdup(plot);
-	char **vecs;
-	char *full = NULL;
-	size_t full_cap = 0;
-
-	if (!plot_copy)
-		_exit(4);
-	vecs = ngSpice_AllVecs(plot_copy);
-	for (size_t i = 0; vecs && vecs[i]; i++) {
-		size_t name_len = strlen(vecs[i]);
-		size_t need = strlen(plot_copy) + 1 + name_len + 1;
-		pvector_info vi;
-		size_t n;
-
-		if (need > full_cap) {
-			full_cap = need * 2;
-			free(full);
-			full = malloc(full_cap);
-			if (!full)
-				_exit(4);
-		}
-		snprintf(full, full_cap, "%s.%s", plot_copy, vecs[i]);
-		vi = ngGet_Vec_Info(full);
-		n = vi && vi->v_length > 0 ? (size_t)vi->v_length : 0;
-		if (name_len > 65536 || 12 + name_len + 8 * n >= SCH_SIM_MAX_RECORD)
-			continue;
-		worker_header(w, SCH_REC_VEC, 12 + name_len + 8 * n);
-		worker_put_u32(w, w->step);
-		worker_put_u32(w, (uint32_t)name_len);
-		worker_put(w, vecs[i], name_len);
-		worker_put_u32(w, (uint32_t)n);
-		if (n > 0 && vi->v_realdata) {
-			worker_put(w, vi->v_realdata, 8 * n);
-		} else {
-			for (size_t k = 0; k < n; k++) {
-				double v = vector_value(vi, (int)k);
-				worker_put(w, &v, sizeof(v));
-			}
-		}
-	}
-	free(full);
-	free(plot_copy);
-}
-
 static bool step_runs_noise(const struct sch_sim_step *st)
 {
 	for (size_t c = 0; c < st->n_commands; c++) {
@@ -406,6 +444,7 @@ static bool worker_run_step(struct sch_worker_ctx *w, const struct sch_sim_reque
 
 	w->step = (uint32_t)s;
 	w->phase = SCH_PHASE_STEP;
+	noise_clear(w);
 	for (size_t c = 0; c < st->n_commands; c++)
 		if (!worker_command(w, st->commands[c]))
 			return false;
@@ -414,13 +453,14 @@ static bool worker_run_step(struct sch_worker_ctx *w, const struct sch_sim_reque
 	if (w->gave_up)
 		return false;
 	if (req->collect_noise) {
-		char *plot = worker_find_noise_plot();
-
-		if (plot)
-			worker_send_vectors(w, plot);
+		if (w->noise_seen && !w->noise_order_bad)
+			worker_send_vectors(w);
+		else if (w->noise_seen)
+			flags |= SCH_STEP_NOISE_GARBLED;
 		else if (step_runs_noise(st))
 			flags |= SCH_STEP_NO_NOISE_PLOT;
 	}
+	noise_clear(w);
 	if (w->gave_up)
 		return false;
 	worker_header(w, SCH_REC_STEP_DONE, 5);
@@ -464,6 +504,10 @@ static void worker_main(const struct sch_sim_request *req, char **deck, size_t f
 	worker_flush(&w);
 	if (rc != 0 || w.load_error)
 		goto done;
+	/* Plots keep only last points; densities arrive through SendData (NGSPICE-NOTES.md 6). */
+	w.phase = SCH_PHASE_CLEANUP;
+	if (!worker_command(&w, "save none"))
+		goto gave_up;
 	for (size_t s = first; s < end; s++) {
 		if (!worker_run_step(&w, req, s))
 			goto gave_up;
@@ -1115,6 +1159,8 @@ static enum sch_err judge(struct sch_sim_result *res, struct sch_worker *wks, si
 				o->failure = judge_text(wk, SCH_PHASE_STEP, (uint32_t)s, &nomem);
 			if (!o->failure && !nomem && c->step_done[s] && (c->step_flags[s] & SCH_STEP_NO_NOISE_PLOT))
 				o->failure = strdup("the noise analysis produced no result");
+			if (!o->failure && !nomem && c->step_done[s] && (c->step_flags[s] & SCH_STEP_NOISE_GARBLED))
+				o->failure = strdup("the simulator sent noise data that does not match its vector list");
 			if (!o->failure && !nomem && !c->step_done[s])
 				o->failure = strdup(wfail ? wfail : "simulator worker exited without a result");
 			if (nomem || (!o->failure && !c->step_done[s])) {
