@@ -172,7 +172,7 @@ static void spot_table(struct page *b, const struct sch_result *r)
 
 static void contribution_table(struct page *b, const struct sch_result *r)
 {
-	char x[64];
+	char x[64], share[32];
 	double cumulative = 0;
 
 	adds(b, "<h2>Contributions, largest share first</h2>\n<table><tr><th class=\"n\">#</th>"
@@ -195,9 +195,11 @@ static void contribution_table(struct page *b, const struct sch_result *r)
 			elem(b, "<td class=\"n\">", si(x, sizeof(x), c->spot_density ? c->spot_density[j] : NAN, "V/√Hz"),
 			     "</td>");
 		elem(b, "<td class=\"n\">", si(x, sizeof(x), c->output_rms_v, "V"), "</td>");
-		addf(b, "<td class=\"n%s\"><span class=\"bar\" style=\"width:%.1fpx\"></span>%.2f %%</td>",
-			       pct < 0 ? " neg" : "", isfinite(pct) ? fmin(fabs(pct), 100.0) * 0.8 : 0.0, pct);
-		addf(b, "<td class=\"n\">%.1f %%</td></tr>\n", 100.0 * cumulative);
+		sch_report_format_share(share, sizeof(share), c->share);
+		addf(b, "<td class=\"n%s\"><span class=\"bar\" style=\"width:%.1fpx\"></span>%s</td>",
+		     pct < 0 ? " neg" : "", isfinite(pct) ? fmin(fabs(pct), 100.0) * 0.8 : 0.0, share);
+		sch_report_format_share(share, sizeof(share), cumulative);
+		addf(b, "<td class=\"n\">%s</td></tr>\n", share);
 	}
 	adds(b, "</table>\n");
 }
@@ -284,7 +286,7 @@ static void assumptions(struct page *b, const struct sch_result *r)
 	adds(b, "<li>densities are single-sided; added shot noise is 2q·|I|·G per carrier</li>\n");
 	for (size_t i = 0; i < r->n_notes; i++)
 		elem(b, "<li>", r->notes[i], "</li>\n");
-	elem(b, "<li>simulator: ngspice ", r->sim_version, "</li>\n");
+	elem(b, "<li>simulator: ", r->sim_version, "</li>\n");
 	elem(b, "<li>schrot ", SCH_VERSION, "</li>\n");
 	adds(b, "</ul>\n");
 }

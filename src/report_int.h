@@ -19,6 +19,9 @@ void sch_report_label(const struct sch_contribution *c, char *out, size_t size);
 /* min(n, number of contributions); n < 0 means all. */
 size_t sch_report_top_count(const struct sch_result *r, int n);
 
+/* A share as a percentage: "45.2 %", "0.042 %", "-0.7 %"; the sign always shows; NaN is "-". */
+void sch_report_format_share(char *out, size_t size, double share);
+
 /* 10*log10(ratio), NaN for a ratio that is not positive and finite. */
 double sch_report_db(double ratio);
 

@@ -331,7 +331,7 @@ static void legend_entry(cairo_t *cr, double y, const char *name, const char *de
 
 static void draw_legend(cairo_t *cr, const struct sch_result *r, size_t top)
 {
-	char name[512], detail[160], rms[48];
+	char name[512], detail[160], rms[48], pct[32];
 	double y = AREA_T + 10;
 
 	line_style(cr, 0, true, false);
@@ -342,7 +342,8 @@ static void draw_legend(cairo_t *cr, const struct sch_result *r, size_t top)
 		y += 40;
 		line_style(cr, i, false, c->origin == SCH_ORIGIN_CORRECTION);
 		sch_report_label(c, name, sizeof(name));
-		snprintf(detail, sizeof(detail), "%.1f %% · %s rms%s", 100.0 * c->share,
+		sch_report_format_share(pct, sizeof(pct), c->share);
+		snprintf(detail, sizeof(detail), "%s · %s rms%s", pct,
 			 sch_si_format(rms, sizeof(rms), c->output_rms_v, 3, "V"),
 			 c->origin == SCH_ORIGIN_CORRECTION ? " (correction)" : "");
 		legend_entry(cr, y, name, detail);

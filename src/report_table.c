@@ -131,7 +131,7 @@ static void grid_release(struct grid *g)
 	sch_arena_release(&g->arena);
 }
 
-static void format_share(char *out, size_t size, double share)
+void sch_report_format_share(char *out, size_t size, double share)
 {
 	double pct = share * 100.0;
 
@@ -139,8 +139,10 @@ static void format_share(char *out, size_t size, double share)
 		snprintf(out, size, "-");
 	else if (pct == 0 || fabs(pct) >= 0.1)
 		snprintf(out, size, "%.1f %%", pct);
+	else if (fabs(pct) >= 0.001)
+		snprintf(out, size, "%.3f %%", pct);
 	else
-		snprintf(out, size, "%.2g %%", pct);
+		snprintf(out, size, "%s0.000 %%", pct < 0 ? "-" : "");
 }
 
 static const char *or_dash(const char *s)
@@ -267,10 +269,10 @@ static enum sch_err print_contributions(const struct sch_result *r, FILE *out)
 				 sch_si_format(buf, sizeof(buf), c->spot_density ? c->spot_density[j] : NAN, 3,
 					       "V/√Hz"));
 		grid_set(&g, row, n_cols - 3, sch_si_format(buf, sizeof(buf), c->output_rms_v, 3, "V"));
-		format_share(buf, sizeof(buf), c->share);
+		sch_report_format_share(buf, sizeof(buf), c->share);
 		grid_set(&g, row, n_cols - 2, buf);
 		cumulative += c->share;
-		format_share(buf, sizeof(buf), cumulative);
+		sch_report_format_share(buf, sizeof(buf), cumulative);
 		grid_set(&g, row, n_cols - 1, buf);
 	}
 	fputc('\n', out);
@@ -290,7 +292,7 @@ static void print_footer(const struct sch_result *r, FILE *out)
 			fprintf(out, "    - %s\n", or_dash(r->notes[i]));
 	}
 	if (r->sim_version)
-		fprintf(out, "\n  simulated with ngspice %s\n", r->sim_version);
+		fprintf(out, "\n  simulator: %s\n", r->sim_version);
 }
 
 enum sch_err sch_report_table(const struct sch_result *r, FILE *out)

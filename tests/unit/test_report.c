@@ -114,7 +114,7 @@ static void fake_result(struct sch_result *r)
 	r->deck.files = (const char **)files;
 	r->deck.n_files = 3;
 	r->netlist = "canopy probe.cir";
-	r->sim_version = "39";
+	r->sim_version = "ngspice-39";
 	r->temp_k = 300.15;
 	r->output = "v(out)";
 	r->input = "iph";
@@ -284,7 +284,7 @@ static void test_report__json_round_trips_every_schema_key(void)
 	CHECK(real(get(json_array_get(get(doc, "noiseless_sources"), 0), "dc_current_a")) == 1e-6);
 	CHECK(real(get(get(doc, "snr"), "ratio")) == r.snr);
 	CHECK_REL(real(get(get(doc, "snr"), "db")), 10 * log10(r.snr), 1e-15);
-	CHECK_STR(json_string_value(get(doc, "simulator")), "39");
+	CHECK_STR(json_string_value(get(doc, "simulator")), "ngspice-39");
 	CHECK(json_array_size(get(doc, "notes")) == 2);
 out:
 	json_decref(doc);
@@ -703,7 +703,7 @@ static void test_report__html_escapes_netlist_text_and_inlines_the_plot(void)
 	CHECK(strstr(text, "<?xml") == NULL);
 	CHECK(strstr(text, "junction correction applied to x1.d1") != NULL);
 	CHECK(strstr(text, "named by --avalanche") != NULL);
-	CHECK(strstr(text, "ngspice 39") != NULL);
+	CHECK(strstr(text, "simulator: ngspice-39") != NULL);
 	CHECK(strstr(text, "</html>\n") != NULL);
 	if (getenv("SCH_KEEP_HTML"))
 		CHECK(sch_report_html(&r, getenv("SCH_KEEP_HTML"), &d) == SCH_OK);
