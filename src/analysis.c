@@ -551,7 +551,7 @@ static enum sch_err take_noise(struct sch_result *res, const struct sch_run_opti
 		int probe_of = -1;
 		int k;
 
-		if (vec->n != nf || strcmp(vec->name, "onoise_spectrum") == 0 || strcmp(vec->name, "inoise_spectrum") == 0)
+		if (vec->n != nf || strncmp(vec->name, "onoise", 6) != 0 || strcmp(vec->name, "onoise_spectrum") == 0)
 			continue;
 		k = classify_vector(m, vec->name, &gen, &probe_of);
 		if (k == -3) {
