@@ -231,7 +231,7 @@ static enum sch_err print_contributions(const struct sch_result *r, FILE *out)
 {
 	struct grid g;
 	enum sch_err ret;
-	const size_t fixed = 5; /* rank device mechanism origin dc */
+	const size_t fixed = 6; /* rank device generator mechanism origin dc */
 	size_t n_cols = fixed + r->n_spots + 3;
 	double cumulative = 0;
 	char buf[128];
@@ -241,9 +241,10 @@ static enum sch_err print_contributions(const struct sch_result *r, FILE *out)
 		goto out;
 	grid_set(&g, 0, 0, "#");
 	grid_set(&g, 0, 1, "device");
-	grid_set(&g, 0, 2, "mechanism");
-	grid_set(&g, 0, 3, "origin");
-	grid_set(&g, 0, 4, "DC current");
+	grid_set(&g, 0, 2, "generator");
+	grid_set(&g, 0, 3, "mechanism");
+	grid_set(&g, 0, 4, "origin");
+	grid_set(&g, 0, 5, "DC current");
 	for (size_t j = 0; j < r->n_spots; j++) {
 		char f[64];
 		snprintf(buf, sizeof(buf), "at %s", sch_si_format(f, sizeof(f), r->spots[j].freq_hz, 3, "Hz"));
@@ -253,7 +254,7 @@ static enum sch_err print_contributions(const struct sch_result *r, FILE *out)
 	grid_set(&g, 0, n_cols - 2, "share");
 	grid_set(&g, 0, n_cols - 1, "cumulative");
 	g.right[0] = true;
-	for (size_t col = 4; col < n_cols; col++)
+	for (size_t col = 5; col < n_cols; col++)
 		g.right[col] = true;
 	for (size_t i = 0; i < r->n_contributions; i++) {
 		const struct sch_contribution *c = &r->contributions[i];
@@ -261,9 +262,10 @@ static enum sch_err print_contributions(const struct sch_result *r, FILE *out)
 		snprintf(buf, sizeof(buf), "%zu", row);
 		grid_set(&g, row, 0, buf);
 		grid_set(&g, row, 1, or_dash(c->device));
-		grid_set(&g, row, 2, sch_mechanism_name(c->mechanism));
-		grid_set(&g, row, 3, sch_origin_name(c->origin));
-		grid_set(&g, row, 4, sch_si_format(buf, sizeof(buf), c->dc_current_a, 3, "A"));
+		grid_set(&g, row, 2, or_dash(c->generator));
+		grid_set(&g, row, 3, sch_mechanism_name(c->mechanism));
+		grid_set(&g, row, 4, sch_origin_name(c->origin));
+		grid_set(&g, row, 5, sch_si_format(buf, sizeof(buf), c->dc_current_a, 3, "A"));
 		for (size_t j = 0; j < r->n_spots; j++)
 			grid_set(&g, row, fixed + j,
 				 sch_si_format(buf, sizeof(buf), c->spot_density ? c->spot_density[j] : NAN, 3,
