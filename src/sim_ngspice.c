@@ -288,7 +288,10 @@ static int worker_on_data(pvecvaluesall vals, int count, int id, void *user)
 static void worker_send_vectors(struct sch_worker_ctx *w)
 {
 	size_t n = w->n_rows;
+	double *column = malloc((n ? n : 1) * sizeof(*column));
 
+	if (!column)
+		_exit(4);
 	for (size_t j = 0; j < w->n_names; j++) {
 		size_t name_len = strlen(w->names[j]);
 
@@ -300,8 +303,10 @@ static void worker_send_vectors(struct sch_worker_ctx *w)
 		worker_put(w, w->names[j], name_len);
 		worker_put_u32(w, (uint32_t)n);
 		for (size_t k = 0; k < n; k++)
-			worker_put(w, &w->rows[k * w->n_names + j], sizeof(double));
+			column[k] = w->rows[k * w->n_names + j];
+		worker_put(w, column, n * sizeof(*column));
 	}
+	free(column);
 }
 
 /* The code model POLY sources need, next to the library we were linked with. */
@@ -1248,6 +1253,9 @@ static enum sch_err start_workers(const struct sch_sim_request *req, char **deck
 			worker_main(req, deck, wks[w].first, wks[w].end, fds[1]);
 		}
 		close(fds[1]);
+#ifdef F_SETPIPE_SZ
+		fcntl(fds[0], F_SETPIPE_SZ, 1 << 20); /* fewer wake-ups for big vector sets; a hint only */
+#endif
 		wks[w].pid = pid;
 		wks[w].fd = fds[0];
 	}
