@@ -259,16 +259,6 @@ static enum sch_err open_source(struct reader *r, const char *path, const char *
 				     "includes nested more than %d levels deep at '%s'", SCH_MAX_INCLUDE_DEPTH, path);
 		goto out;
 	}
-	ret = slurp(path, &text, &len, &err_no);
-	if (ret == SCH_ERR_INPUT) {
-		ret = sch_diag_error(ld->d, SCH_ERR_INPUT, inc_file, inc_line, err_no == EISDIR ?
-				     "%s file '%s' is a directory%s" : "cannot open %s file '%s': %s",
-				     section ? "library" : "include", path,
-				     err_no == EISDIR ? "" : reason(err_no, why, sizeof(why)));
-		goto out;
-	}
-	if (ret != SCH_OK)
-		goto out;
 	ret = SCH_ERR_NOMEM;
 	src.path = path;
 	src.id = identity(&ld->deck->arena, path);
@@ -289,6 +279,17 @@ static enum sch_err open_source(struct reader *r, const char *path, const char *
 			goto out;
 		}
 	}
+	ret = slurp(path, &text, &len, &err_no);
+	if (ret == SCH_ERR_INPUT) {
+		ret = sch_diag_error(ld->d, SCH_ERR_INPUT, inc_file, inc_line, err_no == EISDIR ?
+				     "%s file '%s' is a directory%s" : "cannot open %s file '%s': %s",
+				     section ? "library" : "include", path,
+				     err_no == EISDIR ? "" : reason(err_no, why, sizeof(why)));
+		goto out;
+	}
+	if (ret != SCH_OK)
+		goto out;
+	ret = SCH_ERR_NOMEM;
 	if (note_file(r, path, src.id) != SCH_OK)
 		goto out;
 	r->stack[r->depth++] = &src;

@@ -1,0 +1,903 @@
+/* SPDX-License-Identifier: BSD-3-Clause */
+/* test_deck.c - unit tests of the deck reader: dialect, includes, libraries, safety, errors, hierarchy. */
+#include <stdio.h>
+#include <stdlib.h>
+#include <string.h>
+#include <sys/stat.h>
+#include <time.h>
+#include <unistd.h>
+#include "check.h"
+#include "schrot/buf.h"
+#include "schrot/deck.h"
+
+#define INLINE_NAME "data/deck/inline.cir"
+
+static struct sch_diag diag;
+
+/* Every index the deck stores is valid, and cards point back at their elements. */
+static void assert_sane_deck(const struct sch_deck *deck)
+{
+	CHECK(deck->title != NULL);
+	for (size_t i = 0; i < deck->n_cards; i++) {
+		const struct sch_card *c = &deck->cards[i];
+		CHECK(c->text && c->file && c->line >= 1);
+		CHECK(c->subckt >= -1 && c->subckt < (int)deck->n_subckts);
+		CHECK(c->element >= -1 && c->element < (int)deck->n_elements);
+		CHECK((c->element >= 0) == (c->keyword == NULL));
+		if (c->element >= 0)
+			CHECK(deck->elements[c->element].card == (int)i);
+	}
+	for (size_t i = 0; i < deck->n_elements; i++) {
+		const struct sch_element *e = &deck->elements[i];
+		CHECK(e->name && e->letter == e->name[0] && e->n_tok >= 0);
+		CHECK(e->card >= 0 && e->card < (int)deck->n_cards);
+		CHECK(e->subckt == deck->cards[e->card].subckt);
+	}
+	for (size_t i = 0; i < deck->n_subckts; i++) {
+		const struct sch_subckt *s = &deck->subckts[i];
+		CHECK(s->card_begin >= 0 && s->card_begin < s->card_end && s->card_end < (int)deck->n_cards);
+		CHECK(s->parent >= -1 && s->parent < (int)i);
+		CHECK(s->params != NULL);
+	}
+	for (size_t i = 0; i < deck->n_models; i++)
+		CHECK(deck->models[i].card >= 0 && deck->models[i].card < (int)deck->n_cards);
+	CHECK(deck->n_files >= 1);
+}
+
+static enum sch_err load_text(struct sch_deck *deck, const char *text)
+{
+	sch_deck_init(deck);
+	sch_diag_init(&diag, NULL, 0);
+	return sch_deck_load_text(deck, INLINE_NAME, text, strlen(text), &diag);
+}
+
+/* Loads text expecting SCH_ERR_INPUT with exactly this first error. */
+static void expect_error(const char *text, const char *message)
+{
+	struct sch_deck deck;
+
+	CHECK(load_text(&deck, text) == SCH_ERR_INPUT);
+	CHECK_STR(diag.first_error, message);
+	sch_deck_release(&deck);
+}
+
+static const struct sch_element *element(const struct sch_deck *deck, const char *name)
+{
+	for (size_t i = 0; i < deck->n_elements; i++)
+		if (strcmp(deck->elements[i].name, name) == 0)
+			return &deck->elements[i];
+	return NULL;
+}
+
+static const char *card_of(const struct sch_deck *deck, const char *name)
+{
+	const struct sch_element *e = element(deck, name);
+	return e ? deck->cards[e->card].text : NULL;
+}
+
+/* ---- dialect ------------------------------------------------------------------------------ */
+
+static void test_deck__joins_plus_continuation_lines(void)
+{
+	struct sch_deck deck;
+
+	CHECK(load_text(&deck, "picoammeter input\n"
+				"rin in\n"
+				"* a comment line between continuation lines\n"
+				"\n"
+				"+ guard\n"
+				"+   100MEG ; inline comment on a continuation\n"
+				"cin guard 0 1p\n") == SCH_OK);
+	assert_sane_deck(&deck);
+	CHECK(deck.n_elements == 2);
+	CHECK_STR(card_of(&deck, "rin"), "rin in guard 100MEG");
+	CHECK(deck.cards[0].line == 2);
+	CHECK(deck.cards[1].line == 7);
+	CHECK(element(&deck, "rin")->n_tok == 3);
+	sch_deck_release(&deck);
+}
+
+static void test_deck__drops_star_comment_lines(void)
+{
+	struct sch_deck deck;
+
+	CHECK(load_text(&deck, "turbidity sensor\n* comment\n   * indented comment\nr1 a 0 1k\n") == SCH_OK);
+	CHECK(deck.n_cards == 1);
+	CHECK(deck.cards[0].line == 4);
+	sch_deck_release(&deck);
+}
+
+static void test_deck__strips_semicolon_and_dollar_comments(void)
+{
+	struct sch_deck deck;
+
+	CHECK(load_text(&deck, "hydrophone preamp\n"
+				"r1 a b 4.7k ; bias resistor\n"
+				"r2 b 0 10k $ to ground\n"
+				"r3 b$x 0 1k\n"
+				"; a whole-line semicolon comment\n"
+				"c1 a 0 10n\n") == SCH_OK);
+	CHECK_STR(card_of(&deck, "r1"), "r1 a b 4.7k");
+	CHECK_STR(card_of(&deck, "r2"), "r2 b 0 10k");
+	CHECK_STR(card_of(&deck, "r3"), "r3 b$x 0 1k");
+	CHECK(deck.n_cards == 4);
+	sch_deck_release(&deck);
+}
+
+static void test_deck__comment_only_line_does_not_end_a_card(void)
+{
+	struct sch_deck deck;
+
+	CHECK(load_text(&deck, "t\nr1 a\n; note\n+ b 1k\n") == SCH_OK);
+	CHECK_STR(card_of(&deck, "r1"), "r1 a b 1k");
+	sch_deck_release(&deck);
+}
+
+static void test_deck__title_is_never_a_card(void)
+{
+	struct sch_deck deck;
+
+	CHECK(load_text(&deck, "r1 a b 1k\nr2 a b 2k\n") == SCH_OK);
+	CHECK_STR(deck.title, "r1 a b 1k");
+	CHECK(deck.n_elements == 1);
+	CHECK_STR(deck.elements[0].name, "r2");
+	sch_deck_release(&deck);
+}
+
+static void test_deck__lowercases_tokens_and_keeps_card_text(void)
+{
+	struct sch_deck deck;
+	const struct sch_element *e;
+
+	CHECK(load_text(&deck, "Case\r\nRLoad OUT Gnd 10K\r\n") == SCH_OK);
+	CHECK_STR(deck.title, "Case");
+	e = element(&deck, "rload");
+	CHECK(e && e->letter == 'r' && e->n_tok == 3);
+	if (e) {
+		CHECK_STR(e->tok[0], "out");
+		CHECK_STR(e->tok[1], "gnd");
+		CHECK_STR(e->tok[2], "10k");
+	}
+	CHECK_STR(deck.cards[0].text, "RLoad OUT Gnd 10K");
+	sch_deck_release(&deck);
+}
+
+static void test_deck__accepts_engineering_suffixes(void)
+{
+	struct sch_deck deck;
+
+	CHECK(load_text(&deck, "suffixes\n"
+				"rf in out 1MEG\n"
+				"cf in out 10pF\n"
+				"rg in 0 2.2k\n"
+				"lw a 0 5mil\n"
+				"cx a 0 1.5e-12\n"
+				"ib a 0 dc 3.3uA ac 1\n"
+				"vs b 0 -2.5\n") == SCH_OK);
+	CHECK(deck.n_elements == 7);
+	sch_deck_release(&deck);
+}
+
+static void test_deck__rejects_malformed_number(void)
+{
+	expect_error("t\nr1 a b 1k\nr2 a b 1.2.3\n", INLINE_NAME ":3: malformed number '1.2.3'");
+	expect_error("t\nc1 a b 1e\n", INLINE_NAME ":2: malformed number '1e'");
+	expect_error("t\nv1 a 0 dc 5x.3\n", INLINE_NAME ":2: malformed number '5x.3'");
+	expect_error("t\n.temp 2-7\n", INLINE_NAME ":2: malformed number '2-7'");
+}
+
+static void test_deck__keeps_param_and_braces_as_text(void)
+{
+	struct sch_deck deck;
+	const struct sch_element *e;
+
+	CHECK(load_text(&deck, "params\n.param rval = 10k gain={2*pi}\nr1 a b {rval*2}\n") == SCH_OK);
+	CHECK(deck.n_cards == 2);
+	CHECK_STR(deck.cards[0].keyword, ".param");
+	CHECK_STR(deck.cards[0].text, ".param rval = 10k gain={2*pi}");
+	e = element(&deck, "r1");
+	CHECK(e && e->n_tok == 3);
+	if (e)
+		CHECK_STR(e->tok[2], "{rval*2}");
+	sch_deck_release(&deck);
+}
+
+static void test_deck__groups_brackets_quotes_and_assignments(void)
+{
+	struct sch_deck deck;
+	const struct sch_element *e;
+
+	CHECK(load_text(&deck, "groups\n"
+				"vin a 0 dc 0 sin(0 1m 1k) ac 1\n"
+				"bsense b 0 i = 'v(a) * 2'\n"
+				"xu1 a b amp params: gain = {g1 * 2}\n"
+				".subckt amp p q params: gain=1\nrq p q 1k\n.ends\n") == SCH_OK);
+	e = element(&deck, "vin");
+	CHECK(e && e->n_tok == 7);
+	if (e)
+		CHECK_STR(e->tok[4], "sin(0 1m 1k)");
+	e = element(&deck, "bsense");
+	CHECK(e && e->n_tok == 3);
+	if (e)
+		CHECK_STR(e->tok[2], "i='v(a) * 2'");
+	e = element(&deck, "xu1");
+	CHECK(e && e->n_tok == 5);
+	if (e)
+		CHECK_STR(e->tok[4], "gain={g1 * 2}");
+	sch_deck_release(&deck);
+}
+
+static void test_deck__reads_models_in_each_form(void)
+{
+	struct sch_deck deck;
+
+	CHECK(load_text(&deck, "models\n"
+				".model dleak D(IS=10f N=1)\n"
+				".model QPRE NPN (BF=300 IS=1e-16)\n"
+				".model nfet nmos level=1 vto=0.7\n") == SCH_OK);
+	CHECK(deck.n_models == 3);
+	CHECK_STR(deck.models[0].name, "dleak");
+	CHECK_STR(deck.models[0].type, "d");
+	CHECK_STR(deck.models[1].name, "qpre");
+	CHECK_STR(deck.models[1].type, "npn");
+	CHECK_STR(deck.models[2].type, "nmos");
+	CHECK(deck.models[2].subckt == -1);
+	CHECK_STR(deck.cards[1].keyword, ".model");
+	CHECK(sch_deck_find_model(&deck, "qpre", -1) == 1);
+	CHECK(sch_deck_find_model(&deck, "nothere", -1) == -1);
+	sch_deck_release(&deck);
+}
+
+static void test_deck__fills_noise_temp_and_options(void)
+{
+	struct sch_deck deck;
+
+	CHECK(load_text(&deck, "noise\n"
+				"iph 0 in dc 1n ac 1\nrf in 0 1meg\n"
+				".temp 27\n.options reltol=1e-4\n"
+				".NOISE V( out , 0 ) IPH dec 20 1 1MEG 5\n") == SCH_OK);
+	CHECK(deck.noise.present);
+	CHECK_STR(deck.noise.output, "v(out,0)");
+	CHECK_STR(deck.noise.input, "iph");
+	CHECK_STR(deck.noise.sweep, "dec");
+	CHECK_STR(deck.noise.n_points, "20");
+	CHECK_STR(deck.noise.f_start, "1");
+	CHECK_STR(deck.noise.f_stop, "1meg");
+	CHECK_STR(deck.noise.pts_per_summary, "5");
+	CHECK(deck.noise.card == 4);
+	CHECK_STR(deck.cards[2].keyword, ".temp");
+	CHECK_STR(deck.cards[3].keyword, ".options");
+	sch_deck_release(&deck);
+
+	CHECK(load_text(&deck, "no noise line\nr1 a 0 1k\n") == SCH_OK);
+	CHECK(!deck.noise.present);
+	CHECK(deck.noise.pts_per_summary == NULL);
+	sch_deck_release(&deck);
+}
+
+static void test_deck__end_stops_reading_the_top_file(void)
+{
+	struct sch_deck deck;
+
+	CHECK(load_text(&deck, "t\nr1 a 0 1k\n.END\nthis is not read 1.2.3\n") == SCH_OK);
+	CHECK(deck.n_cards == 1);
+	sch_deck_release(&deck);
+}
+
+static void test_deck__subckt_with_params(void)
+{
+	struct sch_deck deck;
+	const struct sch_subckt *s;
+
+	CHECK(load_text(&deck, "sensor\n"
+				".subckt leak_cell top guard bot params: rleak=1t cpar = 2p\n"
+				"ileak top bot dc {1/rleak}\n"
+				".ends leak_cell\n"
+				".subckt plain a b rser=10\nr1 a b {rser}\n.ends\n"
+				"x1 n1 n2 0 leak_cell rleak=500g\n"
+				"x2 n1 n2 plain\n") == SCH_OK);
+	assert_sane_deck(&deck);
+	CHECK(deck.n_subckts == 2);
+	s = &deck.subckts[0];
+	CHECK_STR(s->name, "leak_cell");
+	CHECK(s->n_ports == 3);
+	CHECK_STR(s->ports[2], "bot");
+	CHECK_STR(s->params, "rleak=1t cpar=2p");
+	CHECK(s->parent == -1 && s->card_begin == 0 && s->card_end == 2);
+	CHECK_STR(deck.subckts[1].params, "rser=10");
+	CHECK(deck.subckts[1].n_ports == 2);
+	CHECK(sch_deck_find_subckt(&deck, "plain") == 1);
+	CHECK(sch_deck_find_subckt(&deck, "nothing") == -1);
+	CHECK(element(&deck, "ileak")->subckt == 0);
+	CHECK(element(&deck, "x1")->subckt == -1);
+	CHECK_STR(sch_deck_x_subckt(&deck, element(&deck, "x1")), "leak_cell");
+	CHECK_STR(sch_deck_x_subckt(&deck, element(&deck, "x2")), "plain");
+	CHECK(sch_deck_x_subckt(&deck, element(&deck, "ileak")) == NULL);
+	sch_deck_release(&deck);
+}
+
+static void test_deck__nested_subckt_definitions_have_parents(void)
+{
+	struct sch_deck deck;
+
+	CHECK(load_text(&deck, "nested\n"
+				".subckt outer a b\n"
+				".subckt inner p q\n.model dloc d is=1f\ndj p q dloc\n.ends inner\n"
+				"xi a b inner\n"
+				".ends outer\n"
+				"xo 1 0 outer\n") == SCH_OK);
+	assert_sane_deck(&deck);
+	CHECK(deck.n_subckts == 2);
+	CHECK(deck.subckts[1].parent == 0);
+	CHECK(deck.models[0].subckt == 1);
+	CHECK(sch_deck_find_model(&deck, "dloc", 1) == 0);
+	CHECK(sch_deck_find_model(&deck, "dloc", -1) == -1);
+	CHECK(element(&deck, "dj")->subckt == 1);
+	CHECK(element(&deck, "xi")->subckt == 0);
+	sch_deck_release(&deck);
+}
+
+static void test_deck__reads_an_upper_case_export_with_continuations(void)
+{
+	struct sch_deck deck;
+	const struct sch_element *e;
+
+	sch_deck_init(&deck);
+	sch_diag_init(&diag, NULL, 0);
+	CHECK(sch_deck_load(&deck, "data/deck/upper.cir", &diag) == SCH_OK);
+	assert_sane_deck(&deck);
+	CHECK(deck.n_subckts == 1);
+	CHECK_STR(deck.subckts[0].name, "apd_rx");
+	CHECK(deck.subckts[0].n_ports == 3);
+	CHECK_STR(deck.subckts[0].ports[2], "vref");
+	e = element(&deck, "iphoto");
+	CHECK(e && e->n_tok == 6);
+	CHECK_STR(card_of(&deck, "iphoto"), "IPHOTO IN 0 DC 12N AC 1");
+	e = element(&deck, "x1");
+	CHECK(e && e->n_tok == 4);
+	CHECK_STR(sch_deck_x_subckt(&deck, e), "apd_rx");
+	CHECK(deck.cards[element(&deck, "x1")->card].line == 10);
+	CHECK_STR(deck.models[0].name, "dapd_model");
+	CHECK(deck.noise.present);
+	CHECK_STR(deck.noise.output, "v(b)");
+	CHECK_STR(deck.noise.f_stop, "10meg");
+	sch_deck_release(&deck);
+}
+
+/* ---- files -------------------------------------------------------------------------------- */
+
+static void check_probe_deck(const struct sch_deck *deck)
+{
+	const struct sch_element *e;
+
+	assert_sane_deck(deck);
+	CHECK(deck->n_files == 4);
+	if (deck->n_files == 4) {
+		CHECK(strstr(deck->files[0], "probe_top.cir") != NULL);
+		CHECK(strstr(deck->files[1], "sub/pd.inc") != NULL);
+		CHECK(strstr(deck->files[2], "sub/models/pin.mod") != NULL);
+		CHECK(strstr(deck->files[3], "lib/parts.lib") != NULL);
+	}
+	CHECK(deck->n_models == 1);
+	CHECK(deck->n_subckts == 2);
+	e = element(deck, "dpin");
+	CHECK(e != NULL);
+	if (e) {
+		CHECK(strstr(deck->cards[e->card].file, "sub/pd.inc") != NULL);
+		CHECK(deck->cards[e->card].line == 9);
+	}
+	CHECK(element(deck, "rf") != NULL);
+	CHECK(element(deck, "rafter") == NULL);
+	CHECK(deck->n_dropped_control == 2);
+	CHECK(deck->n_dropped_script == 2);
+	for (size_t i = 0; i < deck->n_cards; i++)
+		CHECK(strstr(deck->cards[i].text, "pwn") == NULL && strstr(deck->cards[i].text, "would be") == NULL);
+	CHECK(deck->noise.present);
+}
+
+static void test_deck__reads_nested_includes_relative_to_the_including_file(void)
+{
+	struct sch_deck deck;
+
+	sch_deck_init(&deck);
+	sch_diag_init(&diag, NULL, 0);
+	CHECK(sch_deck_load(&deck, "data/deck/probe_top.cir", &diag) == SCH_OK);
+	check_probe_deck(&deck);
+	CHECK(diag.n_warnings == 4);
+	sch_deck_release(&deck);
+}
+
+static void test_deck__resolves_includes_from_another_working_directory(void)
+{
+	struct sch_deck deck;
+	char here[4096];
+
+	CHECK(getcwd(here, sizeof(here)) != NULL);
+	CHECK(chdir("data/deck/sub/models") == 0);
+	sch_deck_init(&deck);
+	sch_diag_init(&diag, NULL, 0);
+	CHECK(sch_deck_load(&deck, "../../probe_top.cir", &diag) == SCH_OK);
+	check_probe_deck(&deck);
+	sch_deck_release(&deck);
+	CHECK(chdir(here) == 0);
+}
+
+static void test_deck__reads_only_the_named_lib_section(void)
+{
+	struct sch_deck deck;
+
+	CHECK(load_text(&deck, "lib\n.LIB 'lib/parts.lib' OPAMP\nxa 1 2 0 tia_amp\n") == SCH_OK);
+	CHECK(deck.n_subckts == 1);
+	CHECK_STR(deck.subckts[0].name, "tia_amp");
+	CHECK(strstr(deck.cards[0].file, "lib/parts.lib") != NULL);
+	CHECK(deck.n_dropped_control == 1 && deck.n_dropped_script == 1);
+	sch_deck_release(&deck);
+}
+
+static void test_deck__skips_lib_definitions_in_a_normally_read_file(void)
+{
+	struct sch_deck deck;
+
+	CHECK(load_text(&deck, "lib def\n.lib corner_a\nr1 a 0 1.2.3\n.endl corner_a\nr2 a 0 1k\n") == SCH_OK);
+	CHECK(deck.n_elements == 1);
+	CHECK_STR(deck.elements[0].name, "r2");
+	sch_deck_release(&deck);
+
+	CHECK(load_text(&deck, "include of a library\n.include lib/parts.lib\nr2 a 0 1k\n") == SCH_OK);
+	CHECK(deck.n_elements == 1 && deck.n_subckts == 0);
+	CHECK(deck.n_dropped_control == 0);
+	sch_deck_release(&deck);
+}
+
+static void test_deck__lists_each_file_once(void)
+{
+	struct sch_deck deck;
+
+	CHECK(load_text(&deck, "twice\n.include sub/models/pin.mod\n.inc \"sub/models/pin.mod\"\n"
+				".lib lib/parts.lib opamp\n") == SCH_OK);
+	CHECK(deck.n_files == 3);
+	CHECK(deck.n_models == 2);
+	sch_deck_release(&deck);
+}
+
+/* ---- safety ------------------------------------------------------------------------------- */
+
+static void test_deck__drops_control_blocks(void)
+{
+	struct sch_deck deck;
+
+	CHECK(load_text(&deck, "ctl\n"
+				"r1 a 0 1k\n"
+				"   .CONTROL\nshell touch pwn1\n+ more\n.endc\n"
+				".controlX\nshell touch pwn2\n.ENDC\n"
+				"r2 a 0 2k\n") == SCH_OK);
+	CHECK(deck.n_elements == 2);
+	CHECK(deck.n_cards == 2);
+	CHECK(deck.n_dropped_control == 2);
+	CHECK(diag.n_warnings == 2);
+	sch_deck_release(&deck);
+}
+
+static void test_deck__drops_script_lines(void)
+{
+	struct sch_deck deck;
+
+	CHECK(load_text(&deck, "script\n*#shell touch pwn\n   *# echo hi\nr1 a 0 1k\n") == SCH_OK);
+	CHECK(deck.n_cards == 1);
+	CHECK(deck.n_dropped_script == 2);
+	CHECK(diag.n_warnings == 2);
+	sch_deck_release(&deck);
+}
+
+static void test_deck__drops_control_and_script_in_included_files(void)
+{
+	struct sch_deck deck;
+
+	CHECK(load_text(&deck, "inc\n.include sub/pd.inc\n") == SCH_OK);
+	CHECK(deck.n_dropped_control == 1);
+	CHECK(deck.n_dropped_script == 1);
+	for (size_t i = 0; i < deck.n_cards; i++)
+		CHECK(strstr(deck.cards[i].text, "pwn") == NULL);
+	sch_deck_release(&deck);
+}
+
+static void test_deck__warns_about_a_script_title(void)
+{
+	struct sch_deck deck;
+
+	CHECK(load_text(&deck, "*NG_SCRIPT harmless looking title\nr1 a 0 1k\n") == SCH_OK);
+	CHECK_STR(deck.title, "*NG_SCRIPT harmless looking title");
+	CHECK(deck.n_cards == 1);
+	CHECK(diag.n_warnings == 1);
+	sch_deck_release(&deck);
+
+	CHECK(load_text(&deck, "\n*ng_script after a blank title\nr1 a 0 1k\n") == SCH_OK);
+	CHECK(deck.n_cards == 1);
+	CHECK(diag.n_warnings == 1);
+	sch_deck_release(&deck);
+}
+
+/* ---- errors ------------------------------------------------------------------------------- */
+
+static void test_deck__reports_missing_include_file(void)
+{
+	expect_error("t\nr1 a 0 1k\n.include \"no/such.inc\"\n",
+		     INLINE_NAME ":3: cannot open include file 'data/deck/no/such.inc': no such file or directory");
+}
+
+static void test_deck__reports_include_cycle(void)
+{
+	expect_error("t\n.include cycle/a.inc\n",
+		     "data/deck/cycle/b.inc:2: include cycle: 'data/deck/cycle/a.inc' is already being read");
+	expect_error("t\n.include inline.cir\n",
+		     INLINE_NAME ":2: include cycle: 'data/deck/inline.cir' is already being read");
+}
+
+static void test_deck__reports_include_depth(void)
+{
+	char dir[] = "/tmp/schrot-deck-depthXXXXXX";
+	char path[256], top[256];
+	struct sch_deck deck;
+	FILE *f;
+
+	CHECK(mkdtemp(dir) != NULL);
+	for (int i = 0; i <= SCH_MAX_INCLUDE_DEPTH + 1; i++) {
+		snprintf(path, sizeof(path), "%s/f%d.inc", dir, i);
+		f = fopen(path, "w");
+		CHECK(f != NULL);
+		if (!f)
+			return;
+		fprintf(f, "r%d a 0 1k\n.include f%d.inc\n", i, i + 1);
+		fclose(f);
+	}
+	snprintf(top, sizeof(top), "%s/top.cir", dir);
+	f = fopen(top, "w");
+	if (f) {
+		fprintf(f, "deep\n.include f0.inc\n");
+		fclose(f);
+	}
+	sch_deck_init(&deck);
+	sch_diag_init(&diag, NULL, 0);
+	CHECK(sch_deck_load(&deck, top, &diag) == SCH_ERR_INPUT);
+	snprintf(path, sizeof(path), "%s/f%d.inc:2: includes nested more than %d levels deep at '%s/f%d.inc'", dir,
+		 SCH_MAX_INCLUDE_DEPTH - 1, SCH_MAX_INCLUDE_DEPTH, dir, SCH_MAX_INCLUDE_DEPTH);
+	CHECK_STR(diag.first_error, path);
+	sch_deck_release(&deck);
+	for (int i = 0; i <= SCH_MAX_INCLUDE_DEPTH + 1; i++) {
+		snprintf(path, sizeof(path), "%s/f%d.inc", dir, i);
+		unlink(path);
+	}
+	unlink(top);
+	rmdir(dir);
+}
+
+static void test_deck__reports_missing_lib_section(void)
+{
+	expect_error("t\n\n.lib lib/parts.lib fast_corner\n",
+		     INLINE_NAME ":3: library section 'fast_corner' not found in 'data/deck/lib/parts.lib'");
+	expect_error("t\n.lib lib/nothere.lib tt\n",
+		     INLINE_NAME ":2: cannot open library file 'data/deck/lib/nothere.lib': no such file or directory");
+}
+
+static void test_deck__rejects_binary_input(void)
+{
+	static const char bin[] = "title\nr1 a 0 1k\nr2 \0 0 1k\n";
+	struct sch_deck deck;
+
+	sch_deck_init(&deck);
+	sch_diag_init(&diag, NULL, 0);
+	CHECK(sch_deck_load_text(&deck, INLINE_NAME, bin, sizeof(bin) - 1, &diag) == SCH_ERR_INPUT);
+	CHECK_STR(diag.first_error, INLINE_NAME ":3: binary file");
+	sch_deck_release(&deck);
+}
+
+static void test_deck__rejects_invalid_utf8_outside_comments(void)
+{
+	struct sch_deck deck;
+
+	expect_error("t\nr1 a 0 1k\nr\xe9sistor a 0 1k\n", INLINE_NAME ":3: invalid utf-8 (byte 0xe9)");
+	expect_error("t\nr1 a 0 1k\n+ \xc0\xaf\n", INLINE_NAME ":3: invalid utf-8 (byte 0xc0)");
+	CHECK(load_text(&deck, "Lichtsonde f\xc3\xbcr Gew\xc3\xa4" "chshaus\n* gr\xfc\xdf" "e\n"
+				"r1 a 0 1k ; \xff\xfe\nr2 a 0 1k $ \x80\n") == SCH_OK);
+	CHECK(deck.n_elements == 2);
+	sch_deck_release(&deck);
+}
+
+static void test_deck__rejects_overlong_line(void)
+{
+	size_t n = 2 * SCH_MAX_LINE;
+	char *text = malloc(n + 64);
+	struct sch_deck deck;
+
+	CHECK(text != NULL);
+	if (!text)
+		return;
+	strcpy(text, "long\nr1 a 0 1k\nr2 a 0\n");
+	for (size_t len = strlen(text); len < n;) {
+		memcpy(text + len, "+ 1k\n", 5);
+		len += 5;
+		text[len] = '\0';
+	}
+	sch_deck_init(&deck);
+	sch_diag_init(&diag, NULL, 0);
+	CHECK(sch_deck_load_text(&deck, INLINE_NAME, text, strlen(text), &diag) == SCH_ERR_INPUT);
+	CHECK_STR(diag.first_error, INLINE_NAME ":3: line longer than 1048576 bytes");
+	sch_deck_release(&deck);
+	free(text);
+}
+
+static void test_deck__rejects_element_not_starting_with_a_letter(void)
+{
+	expect_error("t\nr1 a 0 1k\n1r a 0 1k\n", INLINE_NAME ":3: element name '1r' does not start with a letter");
+	expect_error("t\n-q 1 2 3\n", INLINE_NAME ":2: element name '-q' does not start with a letter");
+}
+
+static void test_deck__rejects_too_few_fields_per_letter(void)
+{
+	static const struct {
+		const char *line;
+		const char *needs;
+	} cases[] = {
+		{ "r1 a b", "'r1': needs 2 nodes and a value" },
+		{ "c1 a", "'c1': needs 2 nodes and a value" },
+		{ "l1 a b", "'l1': needs 2 nodes and a value" },
+		{ "d1 a b", "'d1': needs 2 nodes and a model" },
+		{ "q1 c b e", "'q1': needs 3 nodes and a model" },
+		{ "m1 d g s", "'m1': needs 4 nodes and a model" },
+		{ "j1 d g", "'j1': needs 3 nodes and a model" },
+		{ "i1 a", "'i1': needs 2 nodes" },
+		{ "v1", "'v1': needs 2 nodes" },
+		{ "e1 a b c", "'e1': needs 2 nodes and a control (2 nodes and a gain, or an expression)" },
+		{ "g1 a b", "'g1': needs 2 nodes and a control (2 nodes and a gain, or an expression)" },
+		{ "f1 a b vsense", "'f1': needs 2 nodes and a control (a source and a gain)" },
+		{ "h1 a b", "'h1': needs 2 nodes and a control (a source and a gain)" },
+		{ "x1", "'x1': needs a subcircuit name" },
+		{ "x2 gain=3", "'x2': needs a subcircuit name" },
+	};
+	char text[128], message[256];
+
+	for (size_t i = 0; i < sizeof(cases) / sizeof(cases[0]); i++) {
+		snprintf(text, sizeof(text), "fields\n.model m d\n%s\n", cases[i].line);
+		snprintf(message, sizeof(message), INLINE_NAME ":3: too few fields for %s", cases[i].needs);
+		expect_error(text, message);
+	}
+}
+
+static void test_deck__accepts_behavioural_controlled_sources(void)
+{
+	struct sch_deck deck;
+
+	CHECK(load_text(&deck, "behavioural\nvs s 0 0\n"
+				"e1 a 0 vol='v(b)*2'\ng1 a 0 value={v(b)/1k}\ng2 a 0 cur = 'v(c)'\n"
+				"f1 a 0 vs 2\nh1 a 0 poly(1) vs 0 1\ne2 a 0 b 0 10\n") == SCH_OK);
+	CHECK(deck.n_elements == 7);
+	sch_deck_release(&deck);
+}
+
+static void test_deck__rejects_unbalanced_subckt(void)
+{
+	expect_error("t\n.subckt cell a b\nr1 a b 1k\n", INLINE_NAME ":2: '.subckt cell' has no matching '.ends'");
+	expect_error("t\nr1 a b 1k\n.ends\n", INLINE_NAME ":3: '.ends' without '.subckt'");
+	expect_error("t\n.subckt\n.ends\n", INLINE_NAME ":2: '.subckt' needs a name");
+}
+
+static void test_deck__rejects_unknown_subckt_at_the_x_line(void)
+{
+	expect_error("t\nx1 a b sensor_cell\n.subckt other a b\nr1 a b 1k\n.ends\n",
+		     INLINE_NAME ":2: unknown subcircuit 'sensor_cell'");
+	/* a definition nested in another one is not visible from the top level */
+	expect_error("t\n.subckt outer a\n.subckt inner p\nr1 p 0 1k\n.ends\n.ends\nx1 a inner\n",
+		     INLINE_NAME ":7: unknown subcircuit 'inner'");
+}
+
+static void test_deck__rejects_undefined_model_at_the_line(void)
+{
+	struct sch_deck deck;
+
+	expect_error("t\n.model dpin d is=1f\nd1 a b dpin\nd2 a b dpn\n", INLINE_NAME ":4: model 'dpn' is not defined");
+	expect_error("t\nq1 c b e qnpn\n", INLINE_NAME ":2: model 'qnpn' is not defined");
+	expect_error("t\nm1 d g s b nch w=1u\n", INLINE_NAME ":2: model 'nch' is not defined");
+	expect_error("t\nj1 d g s jfet1\n", INLINE_NAME ":2: model 'jfet1' is not defined");
+	/* defined later, four-terminal BJT, binned MOS models, models in a subcircuit */
+	CHECK(load_text(&deck, "t\nd1 a b dlate\nq1 c b e sub qnpn 2\nm1 d g s b nch l=1u\n"
+				".subckt s1 a\nd9 a 0 dloc\n.model dloc d\n.ends\n"
+				".model dlate d\n.model qnpn npn\n.model nch.1 nmos\n.model nch.2 nmos\n") == SCH_OK);
+	sch_deck_release(&deck);
+}
+
+static void test_deck__rejects_empty_netlist(void)
+{
+	struct sch_deck deck;
+
+	expect_error("", INLINE_NAME ": empty netlist");
+	expect_error(" \n\n\t\n", INLINE_NAME ": empty netlist");
+	sch_deck_init(&deck);
+	sch_diag_init(&diag, NULL, 0);
+	CHECK(sch_deck_load(&deck, "data/deck/empty.cir", &diag) == SCH_ERR_INPUT);
+	CHECK_STR(diag.first_error, "data/deck/empty.cir: empty netlist");
+	sch_deck_release(&deck);
+}
+
+static void test_deck__loads_a_title_only_file(void)
+{
+	struct sch_deck deck;
+
+	sch_deck_init(&deck);
+	sch_diag_init(&diag, NULL, 0);
+	CHECK(sch_deck_load(&deck, "data/deck/title_only.cir", &diag) == SCH_OK);
+	CHECK_STR(deck.title, "Only a title, nothing else");
+	CHECK(deck.n_cards == 0 && deck.n_elements == 0);
+	CHECK(deck.n_files == 1);
+	sch_deck_release(&deck);
+}
+
+static void test_deck__rejects_directories_and_missing_files(void)
+{
+	struct sch_deck deck;
+
+	sch_deck_init(&deck);
+	sch_diag_init(&diag, NULL, 0);
+	CHECK(sch_deck_load(&deck, "data/deck", &diag) == SCH_ERR_INPUT);
+	CHECK_STR(diag.first_error, "schrot: netlist 'data/deck' is a directory");
+	sch_diag_init(&diag, NULL, 0);
+	CHECK(sch_deck_load(&deck, "data/deck/absent.cir", &diag) == SCH_ERR_INPUT);
+	CHECK_STR(diag.first_error, "schrot: cannot open netlist 'data/deck/absent.cir': no such file or directory");
+	sch_deck_release(&deck);
+	expect_error("t\n.include sub\n", INLINE_NAME ":2: include file 'data/deck/sub' is a directory");
+}
+
+/* ---- hierarchy ---------------------------------------------------------------------------- */
+
+static void test_deck__expands_two_level_subcircuit_instances(void)
+{
+	struct sch_deck deck;
+	struct sch_arena arena;
+	struct sch_instance *in = NULL;
+	size_t n = 0;
+
+	CHECK(load_text(&deck, "two channel turbidity sensor\n"
+				".subckt pd a k\niph k a dc 2n\nd5 a k dpd\n.ends\n"
+				".subckt channel in out\nxpd in 0 pd\nrf in out 1meg\n.ends\n"
+				".model dpd d is=1p\n"
+				"x1 a1 o1 channel\nX2 a2 o2 channel\nrload o1 0 10k\n") == SCH_OK);
+	sch_arena_init(&arena);
+	CHECK(sch_deck_instances(&deck, &arena, &in, &n, &diag) == SCH_OK);
+	CHECK(n == 7);
+	if (n == 7) {
+		CHECK_STR(in[0].path, "x1.xpd.iph");
+		CHECK_STR(in[0].sim_name, "i.x1.xpd.iph");
+		CHECK_STR(in[1].path, "x1.xpd.d5");
+		CHECK_STR(in[1].sim_name, "d.x1.xpd.d5");
+		CHECK_STR(in[2].path, "x1.rf");
+		CHECK_STR(in[2].sim_name, "r.x1.rf");
+		CHECK_STR(in[3].path, "x2.xpd.iph");
+		CHECK_STR(in[5].sim_name, "r.x2.rf");
+		CHECK_STR(in[6].path, "rload");
+		CHECK_STR(in[6].sim_name, "rload");
+		CHECK(in[6].parent == -1);
+		CHECK(in[0].parent == in[1].parent && in[0].parent != in[2].parent);
+		CHECK(in[2].parent != in[5].parent && in[0].parent != in[3].parent);
+		CHECK(deck.elements[in[4].element].letter == 'd');
+	}
+	sch_arena_release(&arena);
+	sch_deck_release(&deck);
+}
+
+static void test_deck__rejects_recursive_instantiation(void)
+{
+	struct sch_deck deck;
+	struct sch_arena arena;
+	struct sch_instance *in = NULL;
+	size_t n = 0;
+
+	CHECK(load_text(&deck, "loop\n.subckt a p\nxb p b\n.ends\n.subckt b p\nxa p a\n.ends\nx1 n a\n") == SCH_OK);
+	sch_arena_init(&arena);
+	CHECK(sch_deck_instances(&deck, &arena, &in, &n, &diag) == SCH_ERR_INPUT);
+	CHECK_STR(diag.first_error, INLINE_NAME ":6: recursive instantiation of subcircuit 'a'");
+	sch_arena_release(&arena);
+	sch_deck_release(&deck);
+}
+
+static void test_deck__expands_8000_instances_quickly(void)
+{
+	struct sch_buf text;
+	struct sch_deck deck;
+	struct sch_arena arena;
+	struct sch_instance *in = NULL;
+	size_t n = 0;
+	clock_t t0 = clock();
+
+	sch_buf_init(&text, (size_t)64 << 20);
+	CHECK(sch_buf_adds(&text, "8000 leakage sensors\n.subckt cell a\nileak a 0 1p\ndl a 0 dl\nrl a 0 1g\n.ends\n"
+				  ".model dl d\n") == SCH_OK);
+	for (int i = 0; i < 8000; i++)
+		CHECK(sch_buf_printf(&text, "x%d n%d cell\n", i, i) == SCH_OK);
+	for (int i = 0; i < 100000; i++)
+		CHECK(sch_buf_printf(&text, "r%d n%d n%d 1k\n", i, i % 8000, (i + 1) % 8000) == SCH_OK);
+	sch_deck_init(&deck);
+	sch_diag_init(&diag, NULL, 0);
+	CHECK(sch_deck_load_text(&deck, INLINE_NAME, text.data, text.len, &diag) == SCH_OK);
+	sch_arena_init(&arena);
+	CHECK(sch_deck_instances(&deck, &arena, &in, &n, &diag) == SCH_OK);
+	CHECK(n == 8000 * 3 + 100000);
+	if (n > 8000 * 3)
+		CHECK_STR(in[3 * 7999 + 1].sim_name, "d.x7999.dl");
+	CHECK((double)(clock() - t0) / CLOCKS_PER_SEC < 2.0);
+	sch_arena_release(&arena);
+	sch_deck_release(&deck);
+	sch_buf_release(&text);
+}
+
+static void test_deck__reports_element_nodes(void)
+{
+	static const struct {
+		const char *name;
+		int n;
+		const char *first;
+	} want[] = {
+		{ "r1", 2, "a" }, { "d1", 2, "a" }, { "i1", 2, "0" }, { "q1", 3, "c" }, { "q2", 4, "c" },
+		{ "m1", 4, "d" }, { "j1", 3, "d" }, { "g1", 2, "a" }, { "g2", 4, "a" }, { "e1", 2, "o" },
+		{ "f1", 2, "a" }, { "b1", 2, "a" }, { "x1", 3, "p" }, { "x2", 0, NULL }, { "k1", 0, NULL },
+	};
+	struct sch_deck deck;
+	const char *const *nodes;
+
+	CHECK(load_text(&deck, "nodes\n.model dm d\n.model qm npn\n.model nm nmos\n.model jm njf\n"
+				".subckt s a b c\n.ends\n.subckt empty\n.ends\n"
+				"r1 a b 1k\nd1 a b dm\ni1 0 a 1n\nq1 c b e qm\nq2 c b e sub qm\nm1 d g s b nm\n"
+				"j1 d g s jm\ng1 a b cur='v(x)'\ng2 a b c d 1m\ne1 o 0 vol={v(i)}\nvs a 0 0\n"
+				"f1 a b vs 1\nb1 a b i=1u\nx1 p q r s g=1\nx2 empty\nl1 a 0 1u\nl2 b 0 1u\nk1 l1 l2 0.9\n") == SCH_OK);
+	for (size_t i = 0; i < sizeof(want) / sizeof(want[0]); i++) {
+		const struct sch_element *e = element(&deck, want[i].name);
+		int got;
+
+		CHECK(e != NULL);
+		if (!e)
+			continue;
+		got = sch_deck_element_nodes(&deck, e, &nodes);
+		if (got != want[i].n)
+			fprintf(stderr, "  %s: %d nodes, want %d\n", want[i].name, got, want[i].n);
+		CHECK(got == want[i].n);
+		if (want[i].first && got > 0)
+			CHECK_STR(nodes[0], want[i].first);
+	}
+	sch_deck_release(&deck);
+}
+
+static void test_deck__release_is_safe_on_null_and_twice(void)
+{
+	struct sch_deck deck;
+
+	sch_deck_release(NULL);
+	CHECK(load_text(&deck, "t\nr1 a 0 1k\n") == SCH_OK);
+	sch_deck_release(&deck);
+	sch_deck_release(&deck);
+	CHECK(deck.n_cards == 0 && deck.cards == NULL);
+}
+
+CHECK_MAIN(CASE(test_deck__joins_plus_continuation_lines), CASE(test_deck__drops_star_comment_lines),
+	   CASE(test_deck__strips_semicolon_and_dollar_comments),
+	   CASE(test_deck__comment_only_line_does_not_end_a_card), CASE(test_deck__title_is_never_a_card),
+	   CASE(test_deck__lowercases_tokens_and_keeps_card_text), CASE(test_deck__accepts_engineering_suffixes),
+	   CASE(test_deck__rejects_malformed_number), CASE(test_deck__keeps_param_and_braces_as_text),
+	   CASE(test_deck__groups_brackets_quotes_and_assignments), CASE(test_deck__reads_models_in_each_form),
+	   CASE(test_deck__fills_noise_temp_and_options), CASE(test_deck__end_stops_reading_the_top_file),
+	   CASE(test_deck__subckt_with_params), CASE(test_deck__nested_subckt_definitions_have_parents),
+	   CASE(test_deck__reads_an_upper_case_export_with_continuations),
+	   CASE(test_deck__reads_nested_includes_relative_to_the_including_file),
+	   CASE(test_deck__resolves_includes_from_another_working_directory),
+	   CASE(test_deck__reads_only_the_named_lib_section),
+	   CASE(test_deck__skips_lib_definitions_in_a_normally_read_file), CASE(test_deck__lists_each_file_once),
+	   CASE(test_deck__drops_control_blocks), CASE(test_deck__drops_script_lines),
+	   CASE(test_deck__drops_control_and_script_in_included_files), CASE(test_deck__warns_about_a_script_title),
+	   CASE(test_deck__reports_missing_include_file), CASE(test_deck__reports_include_cycle),
+	   CASE(test_deck__reports_include_depth), CASE(test_deck__reports_missing_lib_section),
+	   CASE(test_deck__rejects_binary_input), CASE(test_deck__rejects_invalid_utf8_outside_comments),
+	   CASE(test_deck__rejects_overlong_line), CASE(test_deck__rejects_element_not_starting_with_a_letter),
+	   CASE(test_deck__rejects_too_few_fields_per_letter), CASE(test_deck__accepts_behavioural_controlled_sources),
+	   CASE(test_deck__rejects_unbalanced_subckt), CASE(test_deck__rejects_unknown_subckt_at_the_x_line),
+	   CASE(test_deck__rejects_undefined_model_at_the_line), CASE(test_deck__rejects_empty_netlist),
+	   CASE(test_deck__loads_a_title_only_file), CASE(test_deck__rejects_directories_and_missing_files),
+	   CASE(test_deck__expands_two_level_subcircuit_instances), CASE(test_deck__rejects_recursive_instantiation),
+	   CASE(test_deck__expands_8000_instances_quickly), CASE(test_deck__reports_element_nodes),
+	   CASE(test_deck__release_is_safe_on_null_and_twice))
