@@ -596,7 +596,14 @@ static enum sch_err take_noise(struct sch_result *res, const struct sch_run_opti
 			ct->origin = SCH_ORIGIN_SIMULATOR;
 			if (!ct->device || !ct->generator)
 				return SCH_ERR_NOMEM;
-			memcpy(ct->psd, vec->values, nf * sizeof(double));
+			{
+				/* restate the simulator's CODATA 2014 constants as the exact SI 2019 ones */
+				double scale = ct->mechanism == SCH_MECH_THERMAL ? SCH_K / SCH_SIM_K
+					       : ct->mechanism == SCH_MECH_SHOT  ? SCH_Q / SCH_SIM_Q
+										  : 1.0;
+				for (size_t i = 0; i < nf; i++)
+					ct->psd[i] = vec->values[i] * scale;
+			}
 		}
 	}
 
@@ -616,7 +623,7 @@ static enum sch_err take_noise(struct sch_result *res, const struct sch_run_opti
 			list.v[m->id_row[k]].dc_current_a = id;
 		if (!opt->junction_correction || !isfinite(id) || !isfinite(vd) || !isfinite(gd))
 			continue;
-		sim_s = 2.0 * SCH_SIM_Q * fabs(id);
+		sim_s = 2.0 * SCH_SIM_Q * fabs(id); /* what the simulator's own id row was computed with */
 		if (m->id_vec[k] >= 0 && sim_s > 0) {
 			h2_src = o->vectors[m->id_vec[k]].values;
 			h2_scale = 1.0 / sim_s;
@@ -637,7 +644,7 @@ static enum sch_err take_noise(struct sch_result *res, const struct sch_run_opti
 		ct->dc_current_a = ij;
 		for (size_t i = 0; i < nf; i++) {
 			double h2 = h2_src[i] * h2_scale;
-			double sim_psd = m->id_vec[k] >= 0 ? o->vectors[m->id_vec[k]].values[i] : 0.0;
+			double sim_psd = m->id_row[k] >= 0 ? list.v[m->id_row[k]].psd[i] : 0.0;
 			ct->psd[i] = h2 * sj - sim_psd;
 		}
 		n_corrected++;

@@ -78,10 +78,11 @@ if data:
 # P8/P9: an unbiased dark junction across a noiseless load shows the thermal noise of its
 # R0 = nkT/(qI_s): I_s = 1 pA, n = 1, 300 K: 4kT/R0 = 4qI_s = 6.4087065e-31 A^2/Hz (van der Ziel,
 # Proc. IEEE 58(8), 1178 (1970), section II; the identity is derived).
+# tnom = 26.85 C makes I_s = 1 pA hold at the 300 K of the check (the model scales I_s with temperature).
 zero_bias = """an unbiased dark junction across a noiseless load
 itest 0 a dc 0 ac 1
 d1 a 0 dj
-.model dj d is=1p n=1
+.model dj d is=1p n=1 tnom=26.85
 rl a 0 1g noisy=0
 .temp 26.85
 .noise v(a) itest dec 10 1 1k 1
