@@ -147,17 +147,18 @@ char *sch_si_format(char *out, size_t size, double value, int digits, const char
 	}
 	mag = fabs(value);
 	exp3 = (int)floor(log10(mag) / 3.0);
-	/* Rounding may carry into the next prefix: 999.96 -> "1.00 k". */
 	scaled = mag / pow(10.0, 3.0 * exp3);
+	/* Round to the significant digits first: 999.96 becomes "1.00 k", 99.96 k becomes "100 k". */
 	{
 		char probe[64];
-		int int_digits = scaled >= 100 ? 3 : scaled >= 10 ? 2 : 1;
-		int dec = digits - int_digits;
-		snprintf(probe, sizeof(probe), "%.*f", dec > 0 ? dec : 0, scaled);
-		if (strtod(probe, NULL) >= 1000.0) {
+		double rounded;
+		snprintf(probe, sizeof(probe), "%.*e", digits - 1, scaled);
+		rounded = strtod(probe, NULL);
+		if (rounded >= 1000.0) {
 			exp3++;
-			scaled /= 1000.0;
+			rounded /= 1000.0;
 		}
+		scaled = rounded;
 	}
 	index = exp3 + zero_index;
 	if (index < 0 || index >= (int)(sizeof(prefixes) / sizeof(prefixes[0]))) {

@@ -52,6 +52,10 @@ static void test_si__formats_with_prefixes(void)
 	CHECK_STR(sch_si_format(buf, sizeof(buf), 999.96, 3, "V"), "1.00 kV");
 	CHECK_STR(sch_si_format(buf, sizeof(buf), -2e-6, 3, "A"), "-2.00 µA");
 	CHECK_STR(sch_si_format(buf, sizeof(buf), 0, 3, "V"), "0 V");
+	CHECK_STR(sch_si_format(buf, sizeof(buf), 1e5, 3, "Hz"), "100 kHz");
+	CHECK_STR(sch_si_format(buf, sizeof(buf), 99.96e3, 3, "Hz"), "100 kHz");
+	CHECK_STR(sch_si_format(buf, sizeof(buf), 1.0, 3, "Hz"), "1.00 Hz");
+	CHECK_STR(sch_si_format(buf, sizeof(buf), 9.9999, 3, "V"), "10.0 V");
 	CHECK_STR(sch_si_format(buf, sizeof(buf), NAN, 3, "V"), "-");
 }
 
