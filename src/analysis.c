@@ -360,6 +360,8 @@ struct quantity_plan {
 	size_t diodes;     /* first diode quantity; three (id, vd, gd) per diode instance */
 	int *diode_inst;   /* the diode instances, n_diodes of them */
 	size_t n_diodes;
+	size_t bjts;       /* first bipolar quantity; two (ic, ib) per bipolar instance */
+	int *bjt_of_inst;  /* instance -> its index among the bipolar instances, -1 */
 };
 
 static enum sch_err plan_quantities(struct sch_result *res, const struct sch_augmented *aug, struct quantity_plan *q)
@@ -399,6 +401,20 @@ static enum sch_err plan_quantities(struct sch_result *res, const struct sch_aug
 		if ((ret = strlist_push(a, &q->names, sch_arena_printf(a, "@%s[id]", in->sim_name))) != SCH_OK ||
 		    (ret = strlist_push(a, &q->names, sch_arena_printf(a, "@%s[vd]", in->sim_name))) != SCH_OK ||
 		    (ret = strlist_push(a, &q->names, sch_arena_printf(a, "@%s[gd]", in->sim_name))) != SCH_OK)
+			return ret;
+	}
+	q->bjts = q->names.n;
+	q->bjt_of_inst = sch_arena_alloc(a, (set->n_instances + 1) * sizeof(int));
+	if (!q->bjt_of_inst)
+		return SCH_ERR_NOMEM;
+	for (size_t k = 0, nb = 0; k < set->n_instances; k++) {
+		const struct sch_instance *in = &set->instances[k];
+		q->bjt_of_inst[k] = -1;
+		if (res->deck.elements[in->element].letter != 'q')
+			continue;
+		q->bjt_of_inst[k] = (int)nb++;
+		if ((ret = strlist_push(a, &q->names, sch_arena_printf(a, "@%s[ic]", in->sim_name))) != SCH_OK ||
+		    (ret = strlist_push(a, &q->names, sch_arena_printf(a, "@%s[ib]", in->sim_name))) != SCH_OK)
 			return ret;
 	}
 	return SCH_OK;
@@ -584,6 +600,8 @@ static enum sch_err take_noise(struct sch_result *res, const struct sch_run_opti
 				ct->device = in->path;
 				ct->generator = sch_arena_strdup(a, gen);
 				ct->mechanism = mechanism_of(letter, gen);
+				if (letter == 'q' && q->bjt_of_inst[k] >= 0 && (strcmp(gen, "ic") == 0 || strcmp(gen, "ib") == 0))
+					ct->dc_current_a = o->quantities[q->bjts + 2 * (size_t)q->bjt_of_inst[k] + (gen[1] == 'b')];
 				if (letter == 'd' && strcmp(gen, "id") == 0) {
 					m->id_vec[k] = (int)v;
 					m->id_row[k] = (int)(list.n - 1);
@@ -813,6 +831,18 @@ enum sch_err sch_analysis_run(const char *path, const struct sch_run_options *op
 		if ((ret = take_noise(res, opt, &q, &sim.steps[0], &m, &notes, d)) != SCH_OK)
 			goto out;
 		if ((ret = integrate(res, opt, d)) != SCH_OK)
+			goto out;
+	}
+	if (res->set.n_noiseless) {
+		char list[400] = "";
+		size_t shown = 0;
+		for (size_t k = 0; k < res->set.n_noiseless && strlen(list) < sizeof(list) - 80; k++, shown++)
+			snprintf(list + strlen(list), sizeof(list) - strlen(list), "%s%s (%.3g A)", k ? ", " : "",
+				 res->set.noiseless[k].name, res->set.noiseless[k].dc_current_a);
+		ret = add_notes(res, &notes, sch_arena_printf(a, "noiseless DC current sources, given no shot noise: %s%s "
+								  "(name them with --carrier if they carry shot noise)",
+							      list, shown < res->set.n_noiseless ? ", ..." : ""));
+		if (ret != SCH_OK)
 			goto out;
 	}
 	if ((ret = add_notes(res, &notes, sch_arena_printf(a, "added generators sized 2q|I|G with the exact SI 2019 q = %.10g C "
