@@ -16,6 +16,7 @@
 #include "deck_int.h"
 
 #define DECK_MAX_FILE ((size_t)1 << 30) /* a netlist file larger than this is refused */
+#define DECK_MAX_OPENS 10000            /* include/library reads per deck: bounds fan-out, not depth */
 
 enum src_mode { SRC_TOP, SRC_INCLUDE, SRC_LIB };
 
@@ -41,6 +42,7 @@ struct reader {
 	struct sch_deck_load ld;
 	const struct src *stack[SCH_MAX_INCLUDE_DEPTH + 1];
 	int depth;
+	int n_opens;
 };
 
 static enum sch_err read_source(struct reader *r, struct src *src, const char *text, size_t len);
@@ -126,8 +128,11 @@ static enum sch_err check_utf8(struct reader *r, const struct src *src, long lin
 			      (unsigned char)s[bad]);
 }
 
-/* Reads a whole file. *err_no is set on failure (EISDIR for a directory, EFBIG when too large). */
-static enum sch_err slurp(const char *path, char **out, size_t *out_len, int *err_no)
+/*
+ * Reads a whole file. *err_no is set on failure (EISDIR for a directory, EFBIG when too large,
+ * ENODEV for a device or pipe when regular_only: an include must never block on /dev/stdin).
+ */
+static enum sch_err slurp(const char *path, bool regular_only, char **out, size_t *out_len, int *err_no)
 {
 	enum sch_err ret = SCH_ERR_INPUT;
 	struct stat st;
@@ -148,6 +153,10 @@ static enum sch_err slurp(const char *path, char **out, size_t *out_len, int *er
 	}
 	if (S_ISDIR(st.st_mode)) {
 		*err_no = EISDIR;
+		goto out;
+	}
+	if (regular_only && !S_ISREG(st.st_mode)) {
+		*err_no = ENODEV;
 		goto out;
 	}
 	for (;;) {
@@ -198,7 +207,8 @@ out:
 
 static const char *reason(int err_no, char *buf, size_t size)
 {
-	snprintf(buf, size, "%s", err_no == EFBIG ? "file too large" : strerror(err_no));
+	snprintf(buf, size, "%s", err_no == EFBIG ? "file too large" : err_no == ENODEV ? "not a regular file" :
+				  strerror(err_no));
 	if (buf[0] >= 'A' && buf[0] <= 'Z')
 		buf[0] = (char)(buf[0] - 'A' + 'a');
 	return buf;
@@ -259,6 +269,11 @@ static enum sch_err open_source(struct reader *r, const char *path, const char *
 				     "includes nested more than %d levels deep at '%s'", SCH_MAX_INCLUDE_DEPTH, path);
 		goto out;
 	}
+	if (++r->n_opens > DECK_MAX_OPENS) {
+		ret = sch_diag_error(ld->d, SCH_ERR_INPUT, inc_file, inc_line,
+				     "more than %d include and library reads at '%s'", DECK_MAX_OPENS, path);
+		goto out;
+	}
 	ret = SCH_ERR_NOMEM;
 	src.path = path;
 	src.id = identity(&ld->deck->arena, path);
@@ -279,7 +294,7 @@ static enum sch_err open_source(struct reader *r, const char *path, const char *
 			goto out;
 		}
 	}
-	ret = slurp(path, &text, &len, &err_no);
+	ret = slurp(path, true, &text, &len, &err_no);
 	if (ret == SCH_ERR_INPUT) {
 		ret = sch_diag_error(ld->d, SCH_ERR_INPUT, inc_file, inc_line, err_no == EISDIR ?
 				     "%s file '%s' is a directory%s" : "cannot open %s file '%s': %s",
@@ -669,7 +684,7 @@ enum sch_err sch_deck_load(struct sch_deck *deck, const char *path, struct sch_d
 		sch_deck_release(deck);
 		return sch_diag_error(d, SCH_ERR_INPUT, NULL, 0, "no netlist given");
 	}
-	ret = slurp(path, &text, &len, &err_no);
+	ret = slurp(path, false, &text, &len, &err_no);
 	if (ret == SCH_ERR_INPUT) {
 		sch_deck_release(deck);
 		if (err_no == EISDIR)

@@ -137,47 +137,59 @@ int sch_deck_resolve_subckt(const struct sch_subckt *subckts, const struct sch_n
 
 /* ---- tokens ------------------------------------------------------------------------------ */
 
-/* The scratch area is sized before a card is split, so a push can't overflow it. */
-static inline void push_char(struct sch_deck_load *ld, char c)
-{
-	ld->scratch[ld->scratch_len++] = c;
-}
-
-static enum sch_err push_token_start(struct sch_deck_load *ld)
+static enum sch_err push_token_start(struct sch_deck_load *ld, size_t at)
 {
 	if (GROW(ld->tok_off, ld->n_tok, ld->a_tok) != SCH_OK)
 		return SCH_ERR_NOMEM;
-	ld->tok_off[ld->n_tok++] = ld->scratch_len;
+	ld->tok_off[ld->n_tok++] = at;
 	return SCH_OK;
 }
+
+/* Character classes for the tokenizer's inner loop. */
+enum { CH_PLAIN = 0, CH_BLANK = 1, CH_COMMA = 2, CH_OPEN = 3, CH_CLOSE = 4, CH_QUOTE = 5, CH_EQUALS = 6 };
+
+static const unsigned char char_class[256] = {
+	[' '] = CH_BLANK, ['\t'] = CH_BLANK, ['\r'] = CH_BLANK, ['\f'] = CH_BLANK, ['\v'] = CH_BLANK,
+	[','] = CH_COMMA, ['('] = CH_OPEN, ['{'] = CH_OPEN, ['['] = CH_OPEN, [')'] = CH_CLOSE,
+	['}'] = CH_CLOSE, [']'] = CH_CLOSE, ['\''] = CH_QUOTE, ['"'] = CH_QUOTE, ['='] = CH_EQUALS,
+};
 
 /*
  * Splits text into lower-case tokens in ld->scratch (NUL-separated, starts in ld->tok_off).
  * Blanks and commas separate; "(...)", "{...}", "[...]" and quotes stay inside one token;
- * "a = 1" becomes "a=1". At most max_tok tokens are read.
+ * "a = 1" becomes "a=1". At most max_tok tokens are read. This is the reader's hot loop.
  */
 static enum sch_err tokenize(struct sch_deck_load *ld, const char *text, size_t len, size_t max_tok)
 {
 	size_t i = 0;
+	char *out;
+	size_t k = 0;
 
 	/* Every byte is copied at most once, plus one NUL per token (at most one per byte). */
 	if (len > (SIZE_MAX - 1) / 2 || sch_deck_grow((void **)&ld->scratch, &ld->a_scratch, 2 * len + 1, 1) != SCH_OK)
 		return SCH_ERR_NOMEM;
-	ld->scratch_len = 0;
+	out = ld->scratch;
 	ld->n_tok = 0;
 	while (ld->n_tok < max_tok) {
 		int depth = 0;
 
-		while (i < len && (is_blank(text[i]) || text[i] == ','))
+		while (i < len && (char_class[(unsigned char)text[i]] == CH_BLANK ||
+				   char_class[(unsigned char)text[i]] == CH_COMMA))
 			i++;
 		if (i >= len)
 			break;
-		if (push_token_start(ld) != SCH_OK)
+		if (push_token_start(ld, k) != SCH_OK)
 			return SCH_ERR_NOMEM;
 		while (i < len) {
 			char c = text[i];
+			unsigned cls = char_class[(unsigned char)c];
 
-			if (depth == 0 && (is_blank(c) || c == ',')) {
+			if (cls == CH_PLAIN) {
+				out[k++] = lower(c);
+				i++;
+				continue;
+			}
+			if (depth == 0 && (cls == CH_BLANK || cls == CH_COMMA)) {
 				size_t j = i;
 
 				while (j < len && is_blank(text[j]))
@@ -188,7 +200,7 @@ static enum sch_err tokenize(struct sch_deck_load *ld, const char *text, size_t 
 				}
 				break;
 			}
-			if (c == '\'' || c == '"') {
+			if (cls == CH_QUOTE) {
 				size_t end = i + 1;
 
 				while (end < len && text[end] != c)
@@ -196,21 +208,22 @@ static enum sch_err tokenize(struct sch_deck_load *ld, const char *text, size_t 
 				if (end < len)
 					end++;
 				for (; i < end; i++)
-					push_char(ld, lower(text[i]));
+					out[k++] = lower(text[i]);
 				continue;
 			}
-			if (c == '(' || c == '{' || c == '[')
+			if (cls == CH_OPEN)
 				depth++;
-			else if ((c == ')' || c == '}' || c == ']') && depth > 0)
+			else if (cls == CH_CLOSE && depth > 0)
 				depth--;
-			push_char(ld, lower(c));
+			out[k++] = c;
 			i++;
-			if (c == '=') /* "a= 1" */
+			if (cls == CH_EQUALS) /* "a= 1" */
 				while (i < len && is_blank(text[i]))
 					i++;
 		}
-		push_char(ld, '\0');
+		out[k++] = '\0';
 	}
+	ld->scratch_len = k;
 	return SCH_OK;
 }
 

@@ -1,5 +1,6 @@
 /* SPDX-License-Identifier: BSD-3-Clause */
 /* test_deck.c - unit tests of the deck reader: dialect, includes, libraries, safety, errors, hierarchy. */
+#include <stdbool.h>
 #include <stdio.h>
 #include <stdlib.h>
 #include <string.h>
@@ -571,6 +572,42 @@ static void test_deck__reports_include_depth(void)
 	rmdir(dir);
 }
 
+/* Each level includes the next one twice: 2^15 reads, stopped by the read cap, not by depth. */
+static void test_deck__limits_include_fan_out(void)
+{
+	char dir[] = "/tmp/schrot-deck-fanXXXXXX";
+	char path[256];
+	struct sch_deck deck;
+	FILE *f;
+
+	CHECK(mkdtemp(dir) != NULL);
+	for (int i = 0; i <= 16; i++) {
+		snprintf(path, sizeof(path), "%s/f%d.inc", dir, i);
+		f = fopen(path, "w");
+		CHECK(f != NULL);
+		if (!f)
+			return;
+		if (i == 0)
+			fprintf(f, "fan-out\n");
+		if (i < 16)
+			fprintf(f, ".include f%d.inc\n.include f%d.inc\n", i + 1, i + 1);
+		else
+			fprintf(f, "r1 a 0 1k\n");
+		fclose(f);
+	}
+	snprintf(path, sizeof(path), "%s/f0.inc", dir);
+	sch_deck_init(&deck);
+	sch_diag_init(&diag, NULL, 0);
+	CHECK(sch_deck_load(&deck, path, &diag) == SCH_ERR_INPUT);
+	CHECK(strstr(diag.first_error, "more than 10000 include and library reads") != NULL);
+	sch_deck_release(&deck);
+	for (int i = 0; i <= 16; i++) {
+		snprintf(path, sizeof(path), "%s/f%d.inc", dir, i);
+		unlink(path);
+	}
+	rmdir(dir);
+}
+
 static void test_deck__reports_missing_lib_section(void)
 {
 	expect_error("t\n\n.lib lib/parts.lib fast_corner\n",
@@ -744,6 +781,8 @@ static void test_deck__rejects_directories_and_missing_files(void)
 	CHECK_STR(diag.first_error, "schrot: cannot open netlist 'data/deck/absent.cir': no such file or directory");
 	sch_deck_release(&deck);
 	expect_error("t\n.include sub\n", INLINE_NAME ":2: include file 'data/deck/sub' is a directory");
+	expect_error("t\n.include /dev/null\n",
+		     INLINE_NAME ":2: cannot open include file '/dev/null': not a regular file");
 }
 
 /* ---- hierarchy ---------------------------------------------------------------------------- */
@@ -805,15 +844,17 @@ static void test_deck__expands_8000_instances_quickly(void)
 	struct sch_arena arena;
 	struct sch_instance *in = NULL;
 	size_t n = 0;
+	bool ok = true;
 	clock_t t0 = clock();
 
 	sch_buf_init(&text, (size_t)64 << 20);
 	CHECK(sch_buf_adds(&text, "8000 leakage sensors\n.subckt cell a\nileak a 0 1p\ndl a 0 dl\nrl a 0 1g\n.ends\n"
 				  ".model dl d\n") == SCH_OK);
 	for (int i = 0; i < 8000; i++)
-		CHECK(sch_buf_printf(&text, "x%d n%d cell\n", i, i) == SCH_OK);
+		ok &= sch_buf_printf(&text, "x%d n%d cell\n", i, i) == SCH_OK;
 	for (int i = 0; i < 100000; i++)
-		CHECK(sch_buf_printf(&text, "r%d n%d n%d 1k\n", i, i % 8000, (i + 1) % 8000) == SCH_OK);
+		ok &= sch_buf_printf(&text, "r%d n%d n%d 1k\n", i, i % 8000, (i + 1) % 8000) == SCH_OK;
+	CHECK(ok);
 	sch_deck_init(&deck);
 	sch_diag_init(&diag, NULL, 0);
 	CHECK(sch_deck_load_text(&deck, INLINE_NAME, text.data, text.len, &diag) == SCH_OK);
@@ -891,7 +932,8 @@ CHECK_MAIN(CASE(test_deck__joins_plus_continuation_lines), CASE(test_deck__drops
 	   CASE(test_deck__drops_control_blocks), CASE(test_deck__drops_script_lines),
 	   CASE(test_deck__drops_control_and_script_in_included_files), CASE(test_deck__warns_about_a_script_title),
 	   CASE(test_deck__reports_missing_include_file), CASE(test_deck__reports_include_cycle),
-	   CASE(test_deck__reports_include_depth), CASE(test_deck__reports_missing_lib_section),
+	   CASE(test_deck__reports_include_depth), CASE(test_deck__limits_include_fan_out),
+	   CASE(test_deck__reports_missing_lib_section),
 	   CASE(test_deck__rejects_binary_input), CASE(test_deck__rejects_invalid_utf8_outside_comments),
 	   CASE(test_deck__rejects_overlong_line), CASE(test_deck__rejects_element_not_starting_with_a_letter),
 	   CASE(test_deck__rejects_too_few_fields_per_letter), CASE(test_deck__accepts_behavioural_controlled_sources),
