@@ -235,6 +235,24 @@ static enum sch_err plan_noise(const struct sch_deck *deck, const struct sch_run
 	return plan->output && plan->input ? SCH_OK : SCH_ERR_NOMEM;
 }
 
+enum sch_err sch_analysis_noise_command(const struct sch_deck *deck, const struct sch_run_options *opt,
+					struct sch_arena *arena, const char **command, const char **ac_source,
+					struct sch_diag *d)
+{
+	struct noise_plan plan;
+	const char *text;
+	enum sch_err ret;
+
+	memset(&plan, 0, sizeof(plan));
+	if ((ret = plan_noise(deck, opt, arena, &plan, d)) != SCH_OK)
+		return ret;
+	if (!(text = sch_arena_strdup(arena, plan.command)))
+		return SCH_ERR_NOMEM;
+	*command = text;
+	*ac_source = plan.needs_ac ? plan.input : NULL;
+	return SCH_OK;
+}
+
 /* GMIN from ".options gmin=X" (the simulator's default 1e-12 otherwise). */
 static double deck_gmin(const struct sch_deck *deck)
 {
@@ -764,8 +782,53 @@ static enum sch_err integrate(struct sch_result *res, const struct sch_run_optio
 	return SCH_OK;
 }
 
-enum sch_err sch_analysis_run(const char *path, const struct sch_run_options *opt, struct sch_result *res,
-			      struct sch_diag *d)
+/* How a sweep changes one quantity per step; NULL name for a plain run. */
+struct vary_plan {
+	const char *name;
+	const double *values;
+	size_t n;
+	struct sch_sweep *sweep;
+};
+
+static enum sch_err vary_command(const struct sch_result *res, const char *name, double value, char *out, size_t size,
+				 struct sch_diag *d)
+{
+	if (strcmp(name, "temp") == 0) {
+		snprintf(out, size, "option temp=%.17g", value);
+		return SCH_OK;
+	}
+	for (size_t k = 0; k < res->set.n_instances; k++) {
+		const struct sch_instance *in = &res->set.instances[k];
+		char letter = res->deck.elements[in->element].letter;
+		if (strcmp(in->path, name) != 0)
+			continue;
+		if (letter != 'i' || !sch_sim_name_is_safe(in->sim_name))
+			break;
+		snprintf(out, size, "alter @%s[dc]=%.17g", in->sim_name, value);
+		return SCH_OK;
+	}
+	return sch_diag_error(d, SCH_ERR_USAGE, NULL, 0,
+			      "--vary '%s' is neither 'temp' nor a current source of the netlist (hierarchical name)", name);
+}
+
+static double crossover_of(const struct sch_sweep_point *p, size_t n)
+{
+	for (size_t i = 0; i + 1 < n; i++) {
+		double r0 = p[i].carrier_power_v2 / p[i].other_power_v2;
+		double r1 = p[i + 1].carrier_power_v2 / p[i + 1].other_power_v2;
+		if (!(r0 > 0) || !(r1 > 0) || !isfinite(r0) || !isfinite(r1) || (r0 - 1) * (r1 - 1) > 0 || r0 == r1)
+			continue;
+		if (p[i].value > 0 && p[i + 1].value > 0) {
+			double t = -log(r0) / (log(r1) - log(r0));
+			return exp(log(p[i].value) + t * (log(p[i + 1].value) - log(p[i].value)));
+		}
+		return p[i].value + (1 - r0) / (r1 - r0) * (p[i + 1].value - p[i].value);
+	}
+	return NAN;
+}
+
+static enum sch_err analysis_core(const char *path, const struct sch_run_options *opt, const struct vary_plan *vary,
+				  struct sch_result *res, struct sch_diag *d)
 {
 	struct sch_arena *a = &res->arena;
 	struct noise_plan plan;
@@ -775,9 +838,12 @@ enum sch_err sch_analysis_run(const char *path, const struct sch_run_options *op
 	struct mapping m;
 	struct strlist notes = { NULL, 0, 0 };
 	struct sch_sim_request req;
-	struct sch_sim_step step;
+	struct sch_sim_step one_step, *steps = &one_step;
 	struct sch_sim_result sim;
 	const char *commands[1];
+	size_t n_steps = 1;
+	struct sch_source *noiseless_all = NULL;
+	size_t n_noiseless_all = 0;
 	enum sch_err ret;
 
 	memset(&sim, 0, sizeof(sim));
@@ -808,30 +874,86 @@ enum sch_err sch_analysis_run(const char *path, const struct sch_run_options *op
 	if ((ret = plan_quantities(res, &aug, &q)) != SCH_OK)
 		goto out;
 	commands[0] = opt->mode == SCH_RUN_REPORT ? plan.command : "op";
-	step.commands = commands;
-	step.n_commands = 1;
+	one_step.commands = commands;
+	one_step.n_commands = 1;
+	if (vary) {
+		n_steps = vary->n;
+		ret = SCH_ERR_NOMEM;
+		steps = sch_arena_alloc(a, (n_steps + 1) * sizeof(*steps));
+		if (!steps)
+			goto out;
+		for (size_t k = 0; k < n_steps; k++) {
+			const char **cmds = sch_arena_alloc(a, 2 * sizeof(*cmds));
+			char buf[512];
+			if (!cmds)
+				goto out;
+			if ((ret = vary_command(res, vary->name, vary->values[k], buf, sizeof(buf), d)) != SCH_OK)
+				goto out;
+			cmds[0] = sch_arena_strdup(a, buf);
+			cmds[1] = commands[0];
+			steps[k].commands = cmds;
+			steps[k].n_commands = 2;
+		}
+	}
 	memset(&req, 0, sizeof(req));
 	req.lines = aug.lines;
 	req.n_lines = aug.n_lines;
-	req.steps = &step;
-	req.n_steps = 1;
+	req.steps = steps;
+	req.n_steps = n_steps;
 	req.quantities = q.names.v;
 	req.n_quantities = q.names.n;
 	req.collect_noise = opt->mode == SCH_RUN_REPORT;
 	req.squared_noise = true;
-	req.n_workers = 1;
+	req.n_workers = vary ? opt->n_workers : 1;
 	if ((ret = sch_sim_run(&req, &sim, d)) != SCH_OK)
 		goto out;
 	res->sim_version = sch_arena_strdup(a, sim.version ? sim.version : "ngspice");
-	if ((ret = take_operating_point(res, &q, &sim.steps[0], d)) != SCH_OK)
+	noiseless_all = res->set.noiseless;
+	n_noiseless_all = res->set.n_noiseless;
+	if (opt->mode == SCH_RUN_REPORT && (ret = build_mapping(res, &aug, &m)) != SCH_OK)
 		goto out;
-	if (opt->mode == SCH_RUN_REPORT) {
-		if ((ret = build_mapping(res, &aug, &m)) != SCH_OK)
+	for (size_t k = 0; k < n_steps; k++) {
+		/* each step starts from the full list of sources: taking the operating point compacts it */
+		if (k > 0) {
+			ret = SCH_ERR_NOMEM;
+			res->set.noiseless = sch_arena_alloc(a, (n_noiseless_all + 1) * sizeof(*noiseless_all));
+			if (!res->set.noiseless)
+				goto out;
+			memcpy(res->set.noiseless, noiseless_all, n_noiseless_all * sizeof(*noiseless_all));
+			res->set.n_noiseless = n_noiseless_all;
+			notes.n = 0;
+		} else if (vary) {
+			ret = SCH_ERR_NOMEM;
+			noiseless_all = sch_arena_alloc(a, (n_noiseless_all + 1) * sizeof(*noiseless_all));
+			if (!noiseless_all)
+				goto out;
+			memcpy(noiseless_all, res->set.noiseless, n_noiseless_all * sizeof(*noiseless_all));
+		}
+		if ((ret = take_operating_point(res, &q, &sim.steps[k], d)) != SCH_OK)
 			goto out;
-		if ((ret = take_noise(res, opt, &q, &sim.steps[0], &m, &notes, d)) != SCH_OK)
-			goto out;
-		if ((ret = integrate(res, opt, d)) != SCH_OK)
-			goto out;
+		if (opt->mode == SCH_RUN_REPORT) {
+			for (size_t i = 0; i < res->set.n_instances; i++) {
+				m.probe_vec[i] = -1;
+				m.id_vec[i] = -1;
+				m.id_row[i] = -1;
+			}
+			if ((ret = take_noise(res, opt, &q, &sim.steps[k], &m, &notes, d)) != SCH_OK)
+				goto out;
+			if ((ret = integrate(res, opt, d)) != SCH_OK)
+				goto out;
+		}
+		if (vary) {
+			struct sch_sweep_point *p = &vary->sweep->points[k];
+			p->value = vary->values[k];
+			p->output_rms_v = res->output_rms_v;
+			p->input_rms = res->input_rms;
+			p->carrier_power_v2 = res->carrier_power_v2;
+			p->other_power_v2 = res->total_power_v2 - res->carrier_power_v2;
+		}
+	}
+	if (vary) {
+		vary->sweep->n_points = n_steps;
+		vary->sweep->crossover = crossover_of(vary->sweep->points, n_steps);
 	}
 	if (res->set.n_noiseless) {
 		char list[400] = "";
@@ -857,4 +979,28 @@ out:
 	sch_strmap_release(&m.probes);
 	sch_sim_result_release(&sim);
 	return ret;
+}
+
+enum sch_err sch_analysis_run(const char *path, const struct sch_run_options *opt, struct sch_result *res,
+			      struct sch_diag *d)
+{
+	return analysis_core(path, opt, NULL, res, d);
+}
+
+enum sch_err sch_analysis_sweep(const char *path, const struct sch_run_options *opt, const char *name,
+				const double *values, size_t n_values, struct sch_result *res, struct sch_sweep *sweep,
+				struct sch_diag *d)
+{
+	struct vary_plan vary = { name, values, n_values, sweep };
+
+	memset(sweep, 0, sizeof(*sweep));
+	sweep->crossover = NAN;
+	sweep->name = sch_arena_strdup(&res->arena, name);
+	sweep->unit = strcmp(name, "temp") == 0 ? "C" : "A";
+	sweep->points = sch_arena_alloc(&res->arena, (n_values + 1) * sizeof(*sweep->points));
+	if (!sweep->points || !sweep->name)
+		return SCH_ERR_NOMEM;
+	if (opt->mode != SCH_RUN_REPORT || n_values < 2)
+		return sch_diag_error(d, SCH_ERR_USAGE, NULL, 0, "a sweep needs a noise run and at least two points");
+	return analysis_core(path, opt, &vary, res, d);
 }

@@ -1,8 +1,10 @@
 /* SPDX-License-Identifier: BSD-3-Clause */
 /* augment.c - builds the simulated deck: the netlist's cards plus generators of known density. */
+#include <math.h>
 #include <stdio.h>
 #include <string.h>
 #include "schrot/augment.h"
+#include "schrot/physics.h"
 
 /* Analysis and output cards the tool replaces with its own commands. */
 static bool dropped_keyword(const char *kw)
@@ -167,6 +169,60 @@ enum sch_err sch_augment_build(const struct sch_deck *deck, const struct sch_car
 	aug->lines = l.v;
 	aug->n_lines = l.n;
 	aug->temp_quantity = "@rschtemp[temp]";
+	ret = SCH_OK;
+out:
+	return ret;
+}
+
+/* The probe resistance whose simulated density 4 k_sim T / R is exactly 2q|I|G. */
+static double probe_ohms(const struct sch_carrier *c, double temp_k)
+{
+	double s = c ? sch_shot_density(c->dc_current_a, sch_carrier_gain(c)) : 0.0;
+	if (!(s > 0) || !isfinite(s))
+		return SCH_PROBE_OFF_OHMS;
+	return 4.0 * SCH_SIM_K * temp_k / s;
+}
+
+enum sch_err sch_augment_write(const struct sch_augmented *aug, const struct sch_carrier_set *set, double temp_k,
+			       const char *noise_command, struct sch_arena *arena, FILE *out, struct sch_diag *d)
+{
+	const struct sch_carrier **carrier_of_inst;
+	enum sch_err ret = SCH_ERR_NOMEM;
+
+	carrier_of_inst = sch_arena_alloc(arena, (set->n_instances + 1) * sizeof(*carrier_of_inst));
+	if (!carrier_of_inst)
+		goto out;
+	for (size_t k = 0; k < set->n_instances; k++)
+		carrier_of_inst[k] = NULL;
+	for (size_t k = 0; k < set->n_carriers; k++)
+		carrier_of_inst[set->carriers[k].instance] = &set->carriers[k];
+	for (size_t k = 0; k + 1 < aug->n_lines; k++)
+		fprintf(out, "%s\n", aug->lines[k]);
+	fprintf(out, "* schrot: sizes each instance's generator for 2q|I|G with its operating-point current\n"
+		     "* (q = %.10g C exact; R = 4kT/S with the simulator's k = %.9g J/K at T = %.6f K)\n"
+		     ".control\n",
+		SCH_Q, SCH_SIM_K, temp_k);
+	for (size_t k = 0; k < set->n_instances; k++) {
+		const struct sch_instance *in = &set->instances[k];
+		const struct sch_carrier *c = carrier_of_inst[k];
+		int p = aug->probe_of_element[in->element];
+		const char *name;
+		if (p < 0)
+			continue;
+		if (!(name = sch_augment_probe_sim_name(arena, &aug->probes[p], in->path)))
+			goto out;
+		if (c)
+			fprintf(out, "* schrot: %s carries %.9g A, gain %.9g\n", in->path, c->dc_current_a,
+				sch_carrier_gain(c));
+		else
+			fprintf(out, "* schrot: %s is no carrier here: no generator\n", in->path);
+		fprintf(out, "alter @%s[resistance]=%.17g\n", name, probe_ohms(c, temp_k));
+	}
+	fprintf(out, "%s\nprint onoise_total inoise_total\n.endc\n.end\n", noise_command);
+	if (ferror(out)) {
+		ret = sch_diag_error(d, SCH_ERR_IO, NULL, 0, "could not write the augmented deck");
+		goto out;
+	}
 	ret = SCH_OK;
 out:
 	return ret;

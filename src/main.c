@@ -13,6 +13,7 @@ struct cmd_entry {
 static const struct cmd_entry commands[] = {
 	{ "report", cmd_report },
 	{ "carriers", cmd_carriers },
+	{ "augment", cmd_augment },
 };
 
 int main(int argc, char **argv)

@@ -114,6 +114,45 @@ enum sch_err sch_analysis_run(const char *path, const struct sch_run_options *op
 /* Frees everything in res. No-op on NULL. */
 void sch_result_release(struct sch_result *res);
 
+/*
+ * The simulator's noise command for deck under opt ("noise v(out) iph dec 20 1 1e+06 1"), as
+ * sch_analysis_run would issue it, in *command; *ac_source is the input source that needs " ac 1"
+ * for the run, NULL when it has its own AC value. Strings come from arena. Returns SCH_ERR_USAGE or
+ * SCH_ERR_INPUT with a located message when the deck and options name no valid noise run,
+ * SCH_ERR_NOMEM; the outputs are untouched then.
+ */
+enum sch_err sch_analysis_noise_command(const struct sch_deck *deck, const struct sch_run_options *opt,
+					struct sch_arena *arena, const char **command, const char **ac_source,
+					struct sch_diag *d);
+
+/* One point of a sweep. */
+struct sch_sweep_point {
+	double value;             /* the varied quantity: amperes for a carrier, degrees C for temp */
+	double output_rms_v;
+	double input_rms;
+	double carrier_power_v2;  /* band power of the added carrier shot noise */
+	double other_power_v2;    /* band power of everything else */
+};
+
+struct sch_sweep {
+	const char *name;         /* what was varied: a carrier's hierarchical name or "temp" */
+	const char *unit;         /* "A" or "C" */
+	struct sch_sweep_point *points;
+	size_t n_points;
+	double crossover;         /* value where carrier power equals the rest; NaN where it does not cross */
+};
+
+/*
+ * Repeats the noise run of sch_analysis_run over values of one quantity (a current element's DC
+ * value, or "temp"), loading the circuit once per worker; opt->n_workers workers share the points.
+ * The result res describes the last point; sweep gets every point and the crossover (log-log
+ * interpolation of the carrier-to-rest power ratio). Errors as sch_analysis_run; SCH_ERR_USAGE for
+ * a name that cannot be varied.
+ */
+enum sch_err sch_analysis_sweep(const char *path, const struct sch_run_options *opt, const char *name,
+				const double *values, size_t n_values, struct sch_result *res, struct sch_sweep *sweep,
+				struct sch_diag *d);
+
 /* Options with every default set (junction correction on, NaN band, one worker). Can't fail. */
 void sch_run_options_init(struct sch_run_options *opt);
 
