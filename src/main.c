@@ -13,6 +13,7 @@ struct cmd_entry {
 static const struct cmd_entry commands[] = {
 	{ "report", cmd_report },
 	{ "carriers", cmd_carriers },
+	{ "sweep", cmd_sweep },
 	{ "augment", cmd_augment },
 };
 

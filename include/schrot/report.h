@@ -32,4 +32,11 @@ enum sch_err sch_report_html(const struct sch_result *r, const char *path, struc
 enum sch_err sch_report_depfile(const struct sch_result *r, const char *path, const char *const *targets,
 				size_t n_targets, struct sch_diag *d);
 
+/* Terminal table of a sweep: one row per point, then the crossover. */
+enum sch_err sch_report_sweep_table(const struct sch_result *r, const struct sch_sweep *s, FILE *out);
+
+/* Sweep JSON (schema 1: vary, points, crossover), written atomically to path ("-": stdout). */
+enum sch_err sch_report_sweep_json(const struct sch_result *r, const struct sch_sweep *s, const char *path,
+				   struct sch_diag *d);
+
 #endif

@@ -1,0 +1,101 @@
+/* SPDX-License-Identifier: BSD-3-Clause */
+/* cmd_sweep.c - schrot sweep: repeat the noise run over a level and find the shot-noise crossover. */
+#include <math.h>
+#include <stdio.h>
+#include <stdlib.h>
+#include <string.h>
+#include "schrot/cmd.h"
+#include "schrot/report.h"
+#include "schrot/si.h"
+
+#define SWEEP_MAX_POINTS 10000
+
+/* NAME=START:STOP:N[:lin] into name and values (log spacing over more than a decade unless :lin). */
+static enum sch_err parse_vary(const char *text, char *name, size_t name_size, double **values, size_t *n,
+			       struct sch_diag *d)
+{
+	char buf[512];
+	char *eq, *fields[4];
+	int n_fields = 0;
+	double start, stop, count;
+	bool lin = false;
+
+	snprintf(buf, sizeof(buf), "%s", text);
+	eq = strrchr(buf, '=');
+	if (!eq || eq == buf)
+		goto bad;
+	*eq = '\0';
+	snprintf(name, name_size, "%.200s", buf);
+	for (char *p = name; *p; p++)
+		*p = (char)(*p >= 'A' && *p <= 'Z' ? *p - 'A' + 'a' : *p);
+	for (char *p = strtok(eq + 1, ":"); p && n_fields < 4; p = strtok(NULL, ":"))
+		fields[n_fields++] = p;
+	if (n_fields == 4 && strcmp(fields[3], "lin") == 0)
+		lin = true;
+	else if (n_fields != 3)
+		goto bad;
+	if (sch_si_parse(fields[0], &start) != SCH_OK || sch_si_parse(fields[1], &stop) != SCH_OK ||
+	    sch_si_parse(fields[2], &count) != SCH_OK || count < 2 || count > SWEEP_MAX_POINTS || count != floor(count) ||
+	    start == stop)
+		goto bad;
+	*n = (size_t)count;
+	*values = malloc(*n * sizeof(double));
+	if (!*values)
+		return SCH_ERR_NOMEM;
+	if (!lin && start > 0 && stop > 0 && (stop / start > 10 || start / stop > 10))
+		for (size_t k = 0; k < *n; k++)
+			(*values)[k] = start * pow(stop / start, (double)k / (double)(*n - 1));
+	else
+		for (size_t k = 0; k < *n; k++)
+			(*values)[k] = start + (stop - start) * (double)k / (double)(*n - 1);
+	return SCH_OK;
+bad:
+	return sch_diag_error(d, SCH_ERR_USAGE, NULL, 0,
+			      "--vary needs NAME=START:STOP:N[:lin] with N from 2 to %d, not '%s' (try 'schrot --help')",
+			      SWEEP_MAX_POINTS, text);
+}
+
+int cmd_sweep(int argc, char **argv, struct sch_ctx *ctx)
+{
+	struct sch_cli cli;
+	struct sch_result res;
+	struct sch_sweep sweep;
+	double *values = NULL;
+	size_t n = 0;
+	char name[256];
+	bool jobs_given = false;
+	enum sch_err ret;
+
+	sch_result_init(&res);
+	for (int i = 1; i < argc; i++)
+		jobs_given |= strncmp(argv[i], "--jobs", 6) == 0;
+	ret = sch_cli_parse(&cli, argc, argv, &ctx->diag);
+	if (ret != SCH_OK)
+		goto out;
+	if (cli.help) {
+		sch_cmd_print_help(stdout);
+		goto out;
+	}
+	ctx->diag.verbosity = cli.verbosity;
+	if (!cli.vary) {
+		ret = sch_diag_error(&ctx->diag, SCH_ERR_USAGE, NULL, 0, "sweep needs --vary NAME=START:STOP:N (try 'schrot --help')");
+		goto out;
+	}
+	if ((ret = parse_vary(cli.vary, name, sizeof(name), &values, &n, &ctx->diag)) != SCH_OK)
+		goto out;
+	if (!jobs_given)
+		cli.run.n_workers = 2; /* both cores */
+	cli.run.mode = SCH_RUN_REPORT;
+	ret = sch_analysis_sweep(cli.netlist, &cli.run, name, values, n, &res, &sweep, &ctx->diag);
+	if (ret != SCH_OK)
+		goto out;
+	if (cli.json_path && (ret = sch_report_sweep_json(&res, &sweep, cli.json_path, &ctx->diag)) != SCH_OK)
+		goto out;
+	if (cli.verbosity >= 0 && !(cli.json_path && strcmp(cli.json_path, "-") == 0))
+		ret = sch_report_sweep_table(&res, &sweep, stdout);
+out:
+	free(values);
+	sch_result_release(&res);
+	sch_cli_release(&cli);
+	return sch_err_exit_code(ret);
+}
