@@ -218,7 +218,12 @@ enum sch_err sch_augment_write(const struct sch_augmented *aug, const struct sch
 			fprintf(out, "* schrot: %s is no carrier here: no generator\n", in->path);
 		fprintf(out, "alter @%s[resistance]=%.17g\n", name, probe_ohms(c, temp_k));
 	}
-	fprintf(out, "%s\nprint onoise_total inoise_total\n.endc\n.end\n", noise_command);
+	/* batch ngspice exits 1 on a deck without .print lines; exit 0 only when the totals exist */
+	fprintf(out,
+		"%s\nprint onoise_total inoise_total\n"
+		"* schrot: exit status 0 only when the noise run produced its totals\n"
+		"if length(onoise_total) = 1\n  quit 0\nend\nquit 1\n.endc\n.end\n",
+		noise_command);
 	if (ferror(out)) {
 		ret = sch_diag_error(d, SCH_ERR_IO, NULL, 0, "could not write the augmented deck");
 		goto out;

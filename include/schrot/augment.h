@@ -64,8 +64,8 @@ const char *sch_augment_probe_sim_name(struct sch_arena *arena, const struct sch
  * Writes aug to out as a deck plain ngspice runs in batch mode: its cards up to ".end", then a
  * .control block that sizes every instance's probe resistor to 4 k_sim T / (2q|I|G) with the
  * operating-point currents of set at temp_k (SCH_PROBE_OFF_OHMS for a zero current or an instance
- * that is no carrier), runs noise_command and prints the integrated noise. aug must come from set's
- * deck. Returns SCH_ERR_IO (message in d) when a write fails, SCH_ERR_NOMEM; out may then hold part
+ * that is no carrier), runs noise_command, prints the integrated noise and quits with status 0 only
+ * when the run produced it. aug must come from set's deck. Returns SCH_ERR_IO (message in d) when a write fails, SCH_ERR_NOMEM; out may then hold part
  * of the deck.
  */
 enum sch_err sch_augment_write(const struct sch_augmented *aug, const struct sch_carrier_set *set, double temp_k,
