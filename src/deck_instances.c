@@ -33,15 +33,13 @@ static enum sch_err group_bodies(struct walk *w)
 {
 	const struct sch_deck *deck = w->deck;
 	size_t n_groups = deck->n_subckts + 1;
-	size_t *fill;
+	size_t *fill = calloc(n_groups, sizeof(*fill));
+	enum sch_err ret = SCH_ERR_NOMEM;
 
 	w->body_start = calloc(n_groups + 1, sizeof(*w->body_start));
 	w->body = malloc((deck->n_elements + 1) * sizeof(*w->body));
-	fill = calloc(n_groups, sizeof(*fill));
-	if (!w->body_start || !w->body || !fill) {
-		free(fill);
-		return SCH_ERR_NOMEM;
-	}
+	if (!w->body_start || !w->body || !fill)
+		goto out;
 	for (size_t i = 0; i < deck->n_elements; i++)
 		w->body_start[(size_t)(deck->elements[i].subckt + 1) + 1]++;
 	for (size_t g = 1; g <= n_groups; g++)
@@ -50,8 +48,10 @@ static enum sch_err group_bodies(struct walk *w)
 		size_t g = (size_t)(deck->elements[i].subckt + 1);
 		w->body[w->body_start[g] + fill[g]++] = (int)i;
 	}
+	ret = SCH_OK;
+out:
 	free(fill);
-	return SCH_OK;
+	return ret;
 }
 
 static enum sch_err resolve_targets(struct walk *w)

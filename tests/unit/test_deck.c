@@ -518,6 +518,35 @@ static void test_deck__warns_about_a_script_title(void)
 	sch_deck_release(&deck);
 }
 
+static void test_deck__survives_odd_shapes(void)
+{
+	struct sch_deck deck;
+
+	/* unterminated quote and brackets stay one token to the end of the card */
+	CHECK(load_text(&deck, "odd\nb1 a 0 v='v(x)*2\nr1 a 0 {((1k\n") == SCH_OK);
+	CHECK(element(&deck, "b1")->n_tok == 3);
+	CHECK(element(&deck, "r1")->n_tok == 3);
+	sch_deck_release(&deck);
+	/* a continuation with nothing to continue is ignored with a warning */
+	CHECK(load_text(&deck, "odd\n+ r1 a 0 1k\nr2 a 0 1k\n") == SCH_OK);
+	CHECK(deck.n_elements == 1 && diag.n_warnings == 1);
+	sch_deck_release(&deck);
+	/* a .control block without .endc swallows the rest of the file */
+	CHECK(load_text(&deck, "odd\nr1 a 0 1k\n.control\nr2 a 0 1k\n") == SCH_OK);
+	CHECK(deck.n_elements == 1 && deck.n_dropped_control == 1);
+	sch_deck_release(&deck);
+	/* '.con' + 'trol' over a continuation is not a control block (ngspice does not run it) */
+	CHECK(load_text(&deck, "odd\n.con\n+trol\n") == SCH_OK);
+	CHECK(deck.n_cards == 1 && deck.n_dropped_control == 0);
+	sch_deck_release(&deck);
+	expect_error("odd\n.include\n", INLINE_NAME ":2: '.include' needs a file name");
+	expect_error("odd\n.lib\n", INLINE_NAME ":2: '.lib' needs a file name and a section");
+	expect_error("odd\n.model\n", INLINE_NAME ":2: '.model' needs a name and a type");
+	expect_error("odd\n.noise v(out)\n", INLINE_NAME
+		     ":2: '.noise' needs an output, an input source, a sweep type, a point count and two frequencies");
+	expect_error("odd\n.noise v(o) i1 log 10 1 1k\n", INLINE_NAME ":2: unknown sweep type 'log' in '.noise'");
+}
+
 /* ---- errors ------------------------------------------------------------------------------- */
 
 static void test_deck__reports_missing_include_file(void)
@@ -931,6 +960,7 @@ CHECK_MAIN(CASE(test_deck__joins_plus_continuation_lines), CASE(test_deck__drops
 	   CASE(test_deck__skips_lib_definitions_in_a_normally_read_file), CASE(test_deck__lists_each_file_once),
 	   CASE(test_deck__drops_control_blocks), CASE(test_deck__drops_script_lines),
 	   CASE(test_deck__drops_control_and_script_in_included_files), CASE(test_deck__warns_about_a_script_title),
+	   CASE(test_deck__survives_odd_shapes),
 	   CASE(test_deck__reports_missing_include_file), CASE(test_deck__reports_include_cycle),
 	   CASE(test_deck__reports_include_depth), CASE(test_deck__limits_include_fan_out),
 	   CASE(test_deck__reports_missing_lib_section),
