@@ -234,25 +234,22 @@ static enum sch_err tokenize(struct sch_deck_load *ld, const char *text, size_t 
 static enum sch_err pack(struct sch_deck_load *ld, const char *text, size_t len, const char **text_out,
 			 const char ***toks)
 {
-	struct sch_arena *a = &ld->deck->arena;
-	char *block = sch_arena_alloc(a, len + 1 + ld->scratch_len);
-	const char **t = NULL;
+	/* One arena block per card: the token pointers first (aligned), then the text and tokens. */
+	size_t ptrs = ld->n_tok * sizeof(const char *);
+	char *block = sch_arena_alloc(&ld->deck->arena, ptrs + len + 1 + ld->scratch_len);
+	const char **t = (const char **)(void *)block;
+	char *chars = block + ptrs;
 
 	if (!block)
 		return SCH_ERR_NOMEM;
-	memcpy(block, text, len);
-	block[len] = '\0';
+	memcpy(chars, text, len);
+	chars[len] = '\0';
 	if (ld->scratch_len)
-		memcpy(block + len + 1, ld->scratch, ld->scratch_len);
-	if (ld->n_tok) {
-		t = sch_arena_alloc(a, ld->n_tok * sizeof(*t));
-		if (!t)
-			return SCH_ERR_NOMEM;
-		for (size_t i = 0; i < ld->n_tok; i++)
-			t[i] = block + len + 1 + ld->tok_off[i];
-	}
-	*text_out = block;
-	*toks = t;
+		memcpy(chars + len + 1, ld->scratch, ld->scratch_len);
+	for (size_t i = 0; i < ld->n_tok; i++)
+		t[i] = chars + len + 1 + ld->tok_off[i];
+	*text_out = chars;
+	*toks = ld->n_tok ? t : NULL;
 	return SCH_OK;
 }
 
