@@ -967,7 +967,8 @@ static enum sch_err analysis_core(const char *path, const struct sch_run_options
 		if (ret != SCH_OK)
 			goto out;
 	}
-	if ((ret = add_notes(res, &notes, sch_arena_printf(a, "added generators sized 2q|I|G with the exact SI 2019 q = %.10g C "
+	if (res->set.n_carriers &&
+	    (ret = add_notes(res, &notes, sch_arena_printf(a, "added generators sized 2q|I|G with the exact SI 2019 q = %.10g C "
 							      "at the circuit temperature %.2f K",
 							      SCH_Q, res->temp_k))) != SCH_OK)
 		goto out;

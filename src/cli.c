@@ -28,7 +28,10 @@ enum sch_err sch_cli_parse_range(const char *text, double *lo, double *hi)
 	return SCH_OK;
 }
 
-/* "REGEX=a:b" or "REGEX=a": splits at the last '='; fills up to n numbers, returns how many. */
+/*
+ * "REGEX=a:b" or "REGEX=a": splits at the last '=' (the argument itself is cut there, so callers
+ * quote a copy in messages); fills up to n numbers, returns how many.
+ */
 static int parse_rule(char *text, const char **regex, double *nums, int n)
 {
 	char *eq = strrchr(text, '=');
@@ -48,6 +51,19 @@ static int parse_rule(char *text, const char **regex, double *nums, int n)
 		p = colon + 1;
 	}
 	return got;
+}
+
+static bool takes_value(const char *name)
+{
+	static const char *const names[] = { "--json", "--csv", "--spectrum", "--plot", "--html", "--depfile", "-o",
+					     "--out", "--band", "--freq", "--spot", "--carrier", "--ignore", "--avalanche",
+					     "--fano", "--responsivity", "--signal", "--budget", "--output", "--input",
+					     "--top", "--vary", "--jobs" };
+	for (size_t k = 0; k < sizeof(names) / sizeof(names[0]); k++) {
+		if (strcmp(name, names[k]) == 0)
+			return true;
+	}
+	return false;
 }
 
 enum sch_err sch_cli_parse(struct sch_cli *cli, int argc, char **argv, struct sch_diag *d)
@@ -92,6 +108,12 @@ enum sch_err sch_cli_parse(struct sch_cli *cli, int argc, char **argv, struct sc
 		}
 		snprintf(name, sizeof(name), "%s", arg);
 		eq = strchr(name, '=');
+		if (eq)
+			*eq = '\0';
+		if (!takes_value(name))
+			return usage(d, "unknown option '%s'", arg);
+		if (eq)
+			*eq = '=';
 		if (eq && strncmp(name, "--", 2) == 0) {
 			*eq = '\0';
 			val = strchr(arg, '=') + 1;
@@ -144,28 +166,32 @@ enum sch_err sch_cli_parse(struct sch_cli *cli, int argc, char **argv, struct sc
 			cli->run.carriers.ignore_regex = val;
 		} else if (strcmp(name, "--avalanche") == 0) {
 			double nums[2];
+			char shown[256];
+			snprintf(shown, sizeof(shown), "%s", val);
 			struct sch_gain_rule *r = &cli->avalanche[cli->run.carriers.n_avalanche];
 			if (cli->run.carriers.n_avalanche >= SCH_MAX_RULES)
 				return usage(d, "too many --avalanche rules: '%s'", val);
 			if (parse_rule(val, &r->regex, nums, 2) != 2)
-				return usage(d, "--avalanche needs REGEX=M:K, not '%s'", val);
+				return usage(d, "--avalanche needs REGEX=M:K, not '%s'", shown);
 			if (!(nums[0] >= 1))
-				return usage(d, "--avalanche gain M must be at least 1 in '%s'", val);
+				return usage(d, "--avalanche gain M must be at least 1 in '%s'", shown);
 			if (!(nums[1] >= 0 && nums[1] <= 1))
-				return usage(d, "--avalanche ionisation ratio K must lie in [0, 1] in '%s'", val);
+				return usage(d, "--avalanche ionisation ratio K must lie in [0, 1] in '%s'", shown);
 			r->gain_m = nums[0];
 			r->k_ratio = nums[1];
 			r->fano = 1;
 			cli->run.carriers.n_avalanche++;
 		} else if (strcmp(name, "--fano") == 0) {
 			double num;
+			char shown[256];
+			snprintf(shown, sizeof(shown), "%s", val);
 			struct sch_gain_rule *r = &cli->fano[cli->run.carriers.n_fano];
 			if (cli->run.carriers.n_fano >= SCH_MAX_RULES)
 				return usage(d, "too many --fano rules: '%s'", val);
 			if (parse_rule(val, &r->regex, &num, 1) != 1)
-				return usage(d, "--fano needs REGEX=F, not '%s'", val);
+				return usage(d, "--fano needs REGEX=F, not '%s'", shown);
 			if (!(num >= 0))
-				return usage(d, "--fano factor F must not be negative in '%s'", val);
+				return usage(d, "--fano factor F must not be negative in '%s'", shown);
 			r->fano = num;
 			r->gain_m = 1;
 			cli->run.carriers.n_fano++;
