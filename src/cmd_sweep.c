@@ -4,6 +4,7 @@
 #include <stdio.h>
 #include <stdlib.h>
 #include <string.h>
+#include <unistd.h>
 #include "schrot/cmd.h"
 #include "schrot/report.h"
 #include "schrot/si.h"
@@ -55,6 +56,17 @@ bad:
 			      SWEEP_MAX_POINTS, text);
 }
 
+/* "schrot: sweep 3/9 points done" on one rewritten stderr line, erased after the last point. */
+static void show_progress(void *progress_ctx, size_t done, size_t total)
+{
+	(void)progress_ctx;
+	if (done < total)
+		fprintf(stderr, "\r\033[Kschrot: sweep %zu/%zu points done", done, total);
+	else
+		fputs("\r\033[K", stderr);
+	fflush(stderr);
+}
+
 int cmd_sweep(int argc, char **argv, struct sch_ctx *ctx)
 {
 	struct sch_cli cli;
@@ -86,7 +98,11 @@ int cmd_sweep(int argc, char **argv, struct sch_ctx *ctx)
 	if (!jobs_given)
 		cli.run.n_workers = 2; /* both cores */
 	cli.run.mode = SCH_RUN_REPORT;
+	if (cli.verbosity >= 0 && isatty(STDERR_FILENO))
+		cli.run.progress = show_progress; /* a pipe or a log file gets no progress lines */
 	ret = sch_analysis_sweep(cli.netlist, &cli.run, name, values, n, &res, &sweep, &ctx->diag);
+	if (cli.run.progress)
+		show_progress(NULL, n, n); /* erases the line when the sweep stopped early */
 	if (ret != SCH_OK)
 		goto out;
 	if (cli.json_path && (ret = sch_report_sweep_json(&res, &sweep, cli.json_path, &ctx->diag)) != SCH_OK)

@@ -68,6 +68,12 @@ struct sch_run_options {
 	double responsivity_a_per_w;    /* NaN: none */
 	double signal;                  /* NaN: none; in input units */
 	int n_workers;
+	/*
+	 * Sweeps only: called in the calling process with the number of points done (0 before the
+	 * first) out of total; NULL for none. It must not write to stdout.
+	 */
+	void (*progress)(void *progress_ctx, size_t done, size_t total);
+	void *progress_ctx;
 };
 
 struct sch_result {
