@@ -320,6 +320,7 @@ struct mapping {
 	int *probe_vec;             /* instance -> vector index of its probe, -1 */
 	int *id_vec;                /* instance -> vector index of the simulator's "id" generator, -1 */
 	int *id_row;                /* instance -> contribution index of that generator, -1 */
+	int *ic_row, *ib_row;       /* instance -> contribution index of a bipolar's "ic" / "ib" row, -1 */
 };
 
 struct contrib_list {
@@ -378,7 +379,7 @@ struct quantity_plan {
 	size_t diodes;     /* first diode quantity; three (id, vd, gd) per diode instance */
 	int *diode_inst;   /* the diode instances, n_diodes of them */
 	size_t n_diodes;
-	size_t bjts;       /* first bipolar quantity; two (ic, ib) per bipolar instance */
+	size_t bjts;       /* first bipolar quantity; four (ic, ib, vbe, vbc) per bipolar instance */
 	int *bjt_of_inst;  /* instance -> its index among the bipolar instances, -1 */
 };
 
@@ -432,7 +433,9 @@ static enum sch_err plan_quantities(struct sch_result *res, const struct sch_aug
 			continue;
 		q->bjt_of_inst[k] = (int)nb++;
 		if ((ret = strlist_push(a, &q->names, sch_arena_printf(a, "@%s[ic]", in->sim_name))) != SCH_OK ||
-		    (ret = strlist_push(a, &q->names, sch_arena_printf(a, "@%s[ib]", in->sim_name))) != SCH_OK)
+		    (ret = strlist_push(a, &q->names, sch_arena_printf(a, "@%s[ib]", in->sim_name))) != SCH_OK ||
+		    (ret = strlist_push(a, &q->names, sch_arena_printf(a, "@%s[vbe]", in->sim_name))) != SCH_OK ||
+		    (ret = strlist_push(a, &q->names, sch_arena_printf(a, "@%s[vbc]", in->sim_name))) != SCH_OK)
 			return ret;
 	}
 	return SCH_OK;
@@ -455,11 +458,11 @@ static enum sch_err take_operating_point(struct sch_result *res, const struct qu
 			return sch_diag_error(d, SCH_ERR_SIM, NULL, 0, "simulator: no operating-point current for '%s'",
 					      set->carriers[k].name);
 	}
-	/* current sources are listed whatever their value; controlled sources only when they carry DC */
+	/* only sources that carry DC current are listed: a zero-current test source is no concern */
 	for (size_t k = 0; k < set->n_noiseless; k++) {
 		struct sch_source s = set->noiseless[k];
 		s.dc_current_a = o->quantities[q->noiseless + k];
-		if (res->deck.elements[s.element].letter == 'i' || (isfinite(s.dc_current_a) && s.dc_current_a != 0))
+		if (isfinite(s.dc_current_a) && s.dc_current_a != 0)
 			set->noiseless[keep++] = s;
 	}
 	set->n_noiseless = keep;
@@ -476,7 +479,9 @@ static enum sch_err build_mapping(struct sch_result *res, const struct sch_augme
 	m->probe_vec = sch_arena_alloc(a, (set->n_instances + 1) * sizeof(int));
 	m->id_vec = sch_arena_alloc(a, (set->n_instances + 1) * sizeof(int));
 	m->id_row = sch_arena_alloc(a, (set->n_instances + 1) * sizeof(int));
-	if (!m->probe_vec || !m->id_vec || !m->id_row)
+	m->ic_row = sch_arena_alloc(a, (set->n_instances + 1) * sizeof(int));
+	m->ib_row = sch_arena_alloc(a, (set->n_instances + 1) * sizeof(int));
+	if (!m->probe_vec || !m->id_vec || !m->id_row || !m->ic_row || !m->ib_row)
 		return SCH_ERR_NOMEM;
 	for (size_t k = 0; k < set->n_instances; k++) {
 		const struct sch_instance *in = &set->instances[k];
@@ -484,6 +489,8 @@ static enum sch_err build_mapping(struct sch_result *res, const struct sch_augme
 		m->probe_vec[k] = -1;
 		m->id_vec[k] = -1;
 		m->id_row[k] = -1;
+		m->ic_row[k] = -1;
+		m->ib_row[k] = -1;
 		if (sch_strmap_put(&m->devices, in->sim_name, strlen(in->sim_name), (int)k) != SCH_OK)
 			return SCH_ERR_NOMEM;
 		if (p >= 0) {
@@ -541,6 +548,53 @@ static int classify_vector(const struct mapping *m, const char *name, const char
 static enum sch_err add_notes(struct sch_result *res, struct strlist *notes, const char *s)
 {
 	return strlist_push(&res->arena, notes, s);
+}
+
+/*
+ * The simulator's bipolar "ib" and "ic" rows are 2q|I| of terminal currents that include GMIN's
+ * conductances across both junctions (measured: I_B carries GMIN*(V_BE+V_BC), I_C carries
+ * -GMIN*V_BC). A correction row per generator rescales each to the junction current alone; the
+ * transfer comes from the row itself (density / 2q|I|). Returns the number of instances corrected,
+ * -1 when out of memory.
+ */
+static int correct_bipolar(struct sch_result *res, const struct quantity_plan *q, const struct sch_sim_outcome *o,
+			   const struct mapping *m, struct contrib_list *list, double gmin, size_t nf)
+{
+	int n = 0;
+
+	for (size_t k = 0; k < res->set.n_instances; k++) {
+		int b = q->bjt_of_inst[k];
+		bool any = false;
+		if (b < 0)
+			continue;
+		for (int which = 0; which < 2; which++) {
+			int row = which ? m->ib_row[k] : m->ic_row[k];
+			const double *qv = &o->quantities[q->bjts + 4 * (size_t)b];
+			double ic = qv[0], ib = qv[1], vbe = qv[2], vbc = qv[3];
+			double term = which ? ib : ic;
+			double junction = which ? ib - gmin * (vbe + vbc) : ic + gmin * vbc;
+			double ratio;
+			struct sch_contribution *ct;
+			if (row < 0 || !isfinite(term) || !isfinite(junction) || !isfinite(vbe) || !isfinite(vbc) || term == 0)
+				continue;
+			ratio = fabs(junction) / fabs(term) - 1.0;
+			if (fabs(ratio) < 1e-9)
+				continue;
+			ct = contrib_add(&res->arena, list, nf);
+			if (!ct)
+				return -1;
+			ct->device = list->v[row].device;
+			ct->generator = which ? "base" : "collector";
+			ct->mechanism = SCH_MECH_SHOT;
+			ct->origin = SCH_ORIGIN_CORRECTION;
+			ct->dc_current_a = junction;
+			for (size_t i = 0; i < nf; i++)
+				ct->psd[i] = list->v[row].psd[i] * ratio;
+			any = true;
+		}
+		n += any;
+	}
+	return n;
 }
 
 /* Contributions of one noise outcome: scaled generators, the simulator's own, and corrections. */
@@ -618,8 +672,13 @@ static enum sch_err take_noise(struct sch_result *res, const struct sch_run_opti
 				ct->device = in->path;
 				ct->generator = sch_arena_strdup(a, gen);
 				ct->mechanism = mechanism_of(letter, gen);
-				if (letter == 'q' && q->bjt_of_inst[k] >= 0 && (strcmp(gen, "ic") == 0 || strcmp(gen, "ib") == 0))
-					ct->dc_current_a = o->quantities[q->bjts + 2 * (size_t)q->bjt_of_inst[k] + (gen[1] == 'b')];
+				if (letter == 'q' && q->bjt_of_inst[k] >= 0 && (strcmp(gen, "ic") == 0 || strcmp(gen, "ib") == 0)) {
+					ct->dc_current_a = o->quantities[q->bjts + 4 * (size_t)q->bjt_of_inst[k] + (gen[1] == 'b')];
+					if (gen[1] == 'b')
+						m->ib_row[k] = (int)(list.n - 1);
+					else
+						m->ic_row[k] = (int)(list.n - 1);
+				}
 				if (letter == 'd' && strcmp(gen, "id") == 0) {
 					m->id_vec[k] = (int)v;
 					m->id_row[k] = (int)(list.n - 1);
@@ -684,6 +743,16 @@ static enum sch_err take_noise(struct sch_result *res, const struct sch_run_opti
 			ct->psd[i] = h2 * sj - sim_psd;
 		}
 		n_corrected++;
+	}
+	if (opt->junction_correction) {
+		int n_bjt = correct_bipolar(res, q, o, m, &list, gmin, nf);
+		if (n_bjt < 0)
+			return SCH_ERR_NOMEM;
+		if (n_bjt && (ret = add_notes(res, notes, sch_arena_printf(a, "bipolar shot noise corrected for %d instance%s: "
+								  "2q|I| of the junction currents without GMIN's legs "
+								  "(I_B - GMIN*(V_BE+V_BC), I_C + GMIN*V_BC)",
+								  n_bjt, n_bjt == 1 ? "" : "s"))) != SCH_OK)
+			return ret;
 	}
 	if (n_corrected) {
 		ret = add_notes(res, notes,
@@ -936,6 +1005,8 @@ static enum sch_err analysis_core(const char *path, const struct sch_run_options
 				m.probe_vec[i] = -1;
 				m.id_vec[i] = -1;
 				m.id_row[i] = -1;
+				m.ic_row[i] = -1;
+				m.ib_row[i] = -1;
 			}
 			if ((ret = take_noise(res, opt, &q, &sim.steps[k], &m, &notes, d)) != SCH_OK)
 				goto out;

@@ -138,4 +138,31 @@ itest 0 k dc 0 ac 1
 if data1 and data2:
     close("[P8] far forward bias: corrected equals the simulator alone within 0.1 %",
           data1["total"]["output_rms_v"], data2["total"]["output_rms_v"], 1e-3)
+# Bipolar collector shot noise at picoamp bias, V_BE forced to 0.3 V: the physical collector current
+# is the transport current I_S*exp(V_BE/V_T) (+ I_S/B_R for V_BC << 0), Ebers-Moll form (J. J. Ebers &
+# J. L. Moll, Proc. IRE 42, 1761 (1954) - from memory; Gummel-Poon reduces to it at low injection),
+# its density 2q*I_C (Rogers & Plett, Radio Frequency Integrated Circuit Design, 2nd ed., eq. (4.23)).
+# The simulator alone adds GMIN*|V_BC| = 5 pA to the 10.9 pA it counts as shot noise.
+bjt = """collector shot noise at a few picoamps, V_BE forced
+vb b 0 dc 0.3
+q1 c b 0 qm
+rl c vcc 1k noisy=0
+vcc vcc 0 dc 5
+itest 0 c dc 0 ac 1
+.model qm npn is=1e-16 bf=100 br=1
+.noise v(c) itest dec 10 1 1k 1
+.end
+"""
+vt = K * 300.15 / Q
+rc, data, out, err = run(bjt, "report", "--spot", "10")
+if data:
+    # I_C = I_S(e^(V_BE/V_T) - 1) - I_BC(1 + 1/B_R) with I_BC = -I_S deep in reverse: I_S*e^(V_BE/V_T) + I_S
+    close("[B2] collector shot noise of the junction current at picoamp bias", data["spot"][0]["input_per_rthz"],
+          math.sqrt(2 * Q * (1e-16 * math.exp(0.3 / vt) + 1e-16)), 1e-4)
+    c = contribution(data, "q1", "correction", "collector")
+    true("[B2] the collector correction row lowers the simulator's GMIN-inflated 2q|I_C|", c is not None and c["share"] < 0)
+rc, data, out, err = run(bjt, "report", "--spot", "10", "--no-junction-correction")
+if data:
+    true("[B2] without the correction the simulator's density is about 20 % high (GMIN current)",
+         data["spot"][0]["input_per_rthz"] > 1.15 * math.sqrt(2 * Q * 1e-16 * math.exp(0.3 / vt)))
 finish()
