@@ -65,6 +65,8 @@ void sch_result_init(struct sch_result *res)
 	res->responsivity_a_per_w = NAN;
 	res->signal = NAN;
 	res->snr = NAN;
+	res->shot_to_rest = NAN;
+	res->nep_band_w_per_rthz = NAN;
 	res->output_rms_v = NAN;
 	res->input_rms = NAN;
 }
@@ -811,6 +813,14 @@ static enum sch_err integrate(struct sch_result *res, const struct sch_run_optio
 			res->carrier_power_v2 += ct->band_power;
 	}
 	qsort(res->contributions, res->n_contributions, sizeof(*res->contributions), by_band_power);
+	res->dominant_other = NULL;
+	for (size_t c = 0; c < res->n_contributions && !res->dominant_other; c++) {
+		if (res->contributions[c].origin != SCH_ORIGIN_ADDED && res->contributions[c].band_power > 0)
+			res->dominant_other = &res->contributions[c];
+	}
+	res->shot_to_rest = NAN;
+	if (res->set.n_carriers && total - res->carrier_power_v2 > 0)
+		res->shot_to_rest = res->carrier_power_v2 / (total - res->carrier_power_v2);
 
 	input_psd = sch_arena_alloc(a, nf * sizeof(double));
 	if (!input_psd)
@@ -820,6 +830,9 @@ static enum sch_err integrate(struct sch_result *res, const struct sch_run_optio
 	res->input_rms = sqrt(fabs(sch_spectra_band_power(res->freq_hz, input_psd, nf, res->band_lo_hz, res->band_hi_hz)));
 	res->responsivity_a_per_w = opt->responsivity_a_per_w;
 	res->signal = opt->signal;
+	res->nep_band_w_per_rthz = NAN;
+	if (!isnan(opt->responsivity_a_per_w) && strcmp(res->input_unit, "A") == 0)
+		res->nep_band_w_per_rthz = res->input_rms / sqrt(res->band_hi_hz - res->band_lo_hz) / opt->responsivity_a_per_w;
 	if (!isnan(opt->signal) && res->input_rms > 0)
 		res->snr = opt->signal * opt->signal / (res->input_rms * res->input_rms);
 

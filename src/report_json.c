@@ -198,6 +198,20 @@ static json_t *total_json(const struct sch_result *r, int *bad)
 	put(o, "carrier_shot_power_v2", num(r->carrier_power_v2), bad);
 	put(o, "carrier_shot_share",
 	    num(r->total_power_v2 > 0 ? r->carrier_power_v2 / r->total_power_v2 : NAN), bad);
+	put(o, "nep_band_w_per_rthz", num(r->nep_band_w_per_rthz), bad);
+	return o;
+}
+
+static json_t *verdict_json(const struct sch_result *r, int *bad)
+{
+	json_t *o = json_object();
+	char line[512];
+
+	put(o, "shot_noise_limited", json_boolean(r->set.n_carriers && (isnan(r->shot_to_rest) || r->shot_to_rest >= 1)), bad);
+	put(o, "shot_to_rest_power", num(r->shot_to_rest), bad);
+	put(o, "dominant_other", r->dominant_other ? text(r->dominant_other->device) : json_null(), bad);
+	put(o, "dominant_other_generator", r->dominant_other ? text(r->dominant_other->generator) : json_null(), bad);
+	put(o, "text", text(sch_report_verdict(r, line, sizeof(line))), bad);
 	return o;
 }
 
@@ -228,6 +242,7 @@ static json_t *result_json(const struct sch_result *r)
 		put(doc, "input_unit", text(r->input_unit), &bad);
 		put(doc, "band_hz", band_json(r, &bad), &bad);
 		put(doc, "total", total_json(r, &bad), &bad);
+		put(doc, "verdict", verdict_json(r, &bad), &bad);
 		put(doc, "spot", spots_json(r, &bad), &bad);
 		put(doc, "contributions", contributions_json(r, &bad), &bad);
 		put(doc, "responsivity_a_per_w", num(r->responsivity_a_per_w), &bad);

@@ -150,6 +150,26 @@ static const char *or_dash(const char *s)
 	return s && *s ? s : "-";
 }
 
+const char *sch_report_verdict(const struct sch_result *r, char *out, size_t size)
+{
+	char other[160] = "nothing else";
+	const struct sch_contribution *d = r->dominant_other;
+
+	if (d)
+		snprintf(other, sizeof(other), "%s %s (%.1f %% of the output noise power)", d->device, d->generator,
+			 100.0 * d->share);
+	if (r->set.n_carriers == 0)
+		snprintf(out, size, "no shot-noise carriers found; the noise is led by %s", other);
+	else if (isnan(r->shot_to_rest))
+		snprintf(out, size, "shot-noise limited: the carriers' shot noise is all the noise");
+	else if (r->shot_to_rest >= 1)
+		snprintf(out, size, "shot-noise limited by %.3g x in power; of the rest, %s leads", r->shot_to_rest, other);
+	else
+		snprintf(out, size, "not shot-noise limited: the rest is %.3g x the carriers' shot-noise power, led by %s",
+			 1.0 / r->shot_to_rest, other);
+	return out;
+}
+
 static void print_item(FILE *out, const char *key, const char *value)
 {
 	fprintf(out, "  %-17s %s\n", key, value);
@@ -182,11 +202,17 @@ static void print_headline(const struct sch_result *r, FILE *out)
 			 sch_si_format(a, sizeof(a), r->signal, 3, unit));
 		print_item(out, "SNR", line);
 	}
+	if (!isnan(r->nep_band_w_per_rthz)) {
+		snprintf(line, sizeof(line), "%s (band average, at %g A/W)",
+			 sch_si_format(a, sizeof(a), r->nep_band_w_per_rthz, 3, "W/√Hz"), r->responsivity_a_per_w);
+		print_item(out, "NEP", line);
+	}
 	if (r->total_power_v2 > 0 && isfinite(r->carrier_power_v2)) {
 		snprintf(line, sizeof(line), "%.1f %% of the output noise power",
 			 100.0 * r->carrier_power_v2 / r->total_power_v2);
 		print_item(out, "added shot noise", line);
 	}
+	print_item(out, "verdict", sch_report_verdict(r, line, sizeof(line)));
 }
 
 static enum sch_err print_spots(const struct sch_result *r, FILE *out)

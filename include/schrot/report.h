@@ -10,6 +10,12 @@
 /* Terminal table of the noise report: totals on top, contributions ranked by share. */
 enum sch_err sch_report_table(const struct sch_result *r, FILE *out);
 
+/*
+ * One sentence on whether the design is shot-noise limited, by what factor, and which device leads
+ * the rest; written into out (always NUL-terminated), which is returned.
+ */
+const char *sch_report_verdict(const struct sch_result *r, char *out, size_t size);
+
 /* Terminal table of carriers (name, DC current, reason) and noiseless sources. */
 enum sch_err sch_report_carriers_table(const struct sch_result *r, FILE *out);
 

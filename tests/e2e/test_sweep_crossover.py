@@ -46,4 +46,18 @@ with open(path, "w") as f:
 proc = subprocess.run([SCHROT, "sweep", path, "--vary", "iph=1p:1n:4", "--json", "-"], capture_output=True, text=True)
 true("[X2] no crossover below 1 nA into 1 MOhm: null", proc.returncode == 0 and json.loads(proc.stdout)["crossover"]["value"] is None,
      proc.stdout + proc.stderr)
+# Verdict: shot/thermal power ratio of a photocurrent into R is 2qI/(4kT/R) = qIR/(2kT) (derived from
+# the Schottky and Johnson-Nyquist densities; X1). At I = 4 x 2kT/(qR) it is 4, and the rest is r1.
+from schrot_check import run
+rc, data, out, err = run(NETLIST.format(r="1meg").replace("dc 10n", "dc %r" % (4 * 51.704e-9)), "report")
+if data:
+    close("[X1] verdict shot-to-rest power qIR/(2kT)", data["verdict"]["shot_to_rest_power"], 4.0, 1e-6)
+    true("[X1] verdict names r1 as the rest and says shot-noise limited",
+         data["verdict"]["dominant_other"] == "r1" and data["verdict"]["shot_noise_limited"] is True)
+    true("[X1] the table's verdict line", "shot-noise limited by 4 x" in out, out)
+rc, data, out, err = run(NETLIST.format(r="1meg").replace("dc 10n", "dc %r" % (51.704e-9 / 4)), "report")
+if data:
+    close("[X1] verdict below the crossover", data["verdict"]["shot_to_rest_power"], 0.25, 1e-6)
+    true("[X1] not shot-noise limited below the crossover", data["verdict"]["shot_noise_limited"] is False
+         and "not shot-noise limited: the rest is 4 x" in out, out)
 finish()
