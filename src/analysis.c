@@ -872,11 +872,40 @@ struct vary_plan {
 	struct sch_sweep *sweep;
 };
 
-static enum sch_err vary_command(const struct sch_result *res, const char *name, double value, char *out, size_t size,
-				 struct sch_diag *d)
+/* True when a top-level .param card defines name (lower case). */
+static bool deck_defines_param(const struct sch_deck *deck, const char *name)
 {
+	size_t n = strlen(name);
+	for (size_t c = 0; c < deck->n_cards; c++) {
+		const struct sch_card *card = &deck->cards[c];
+		const char *p;
+		if (!card->keyword || strcmp(card->keyword, ".param") != 0 || card->subckt >= 0)
+			continue;
+		for (p = card->text + 6; *p; p++) {
+			if ((p == card->text + 6 || isspace((unsigned char)p[-1])) && strncasecmp(p, name, n) == 0) {
+				const char *q = p + n;
+				while (isspace((unsigned char)*q))
+					q++;
+				if (*q == '=')
+					return true;
+			}
+		}
+	}
+	return false;
+}
+
+/* The commands of one sweep step that set name to value: one or two (a .param needs a reset). */
+static enum sch_err vary_command(const struct sch_result *res, const char *name, double value, char *out, size_t size,
+				 bool *needs_reset, struct sch_diag *d)
+{
+	*needs_reset = false;
 	if (strcmp(name, "temp") == 0) {
 		snprintf(out, size, "option temp=%.17g", value);
+		return SCH_OK;
+	}
+	if (sch_sim_name_is_safe(name) && !strchr(name, '.') && deck_defines_param(&res->deck, name)) {
+		snprintf(out, size, "alterparam %s=%.17g", name, value);
+		*needs_reset = true;
 		return SCH_OK;
 	}
 	for (size_t k = 0; k < res->set.n_instances; k++) {
@@ -890,7 +919,9 @@ static enum sch_err vary_command(const struct sch_result *res, const char *name,
 		return SCH_OK;
 	}
 	return sch_diag_error(d, SCH_ERR_USAGE, NULL, 0,
-			      "--vary '%s' is neither 'temp' nor a current source of the netlist (hierarchical name)", name);
+			      "--vary '%s' is neither 'temp', a top-level .param nor a current source of the netlist "
+			      "(hierarchical name)",
+			      name);
 }
 
 static double crossover_of(const struct sch_sweep_point *p, size_t n)
@@ -965,16 +996,22 @@ static enum sch_err analysis_core(const char *path, const struct sch_run_options
 		if (!steps)
 			goto out;
 		for (size_t k = 0; k < n_steps; k++) {
-			const char **cmds = sch_arena_alloc(a, 2 * sizeof(*cmds));
+			const char **cmds = sch_arena_alloc(a, 3 * sizeof(*cmds));
 			char buf[512];
+			bool reset;
+			size_t nc = 0;
 			if (!cmds)
 				goto out;
-			if ((ret = vary_command(res, vary->name, vary->values[k], buf, sizeof(buf), d)) != SCH_OK)
+			if ((ret = vary_command(res, vary->name, vary->values[k], buf, sizeof(buf), &reset, d)) != SCH_OK)
 				goto out;
-			cmds[0] = sch_arena_strdup(a, buf);
-			cmds[1] = commands[0];
+			cmds[nc++] = sch_arena_strdup(a, buf);
+			if (reset) {
+				cmds[nc++] = "reset";
+				vary->sweep->unit = ""; /* a .param: the netlist gives its meaning */
+			}
+			cmds[nc++] = commands[0];
 			steps[k].commands = cmds;
-			steps[k].n_commands = 2;
+			steps[k].n_commands = nc;
 		}
 	}
 	memset(&req, 0, sizeof(req));

@@ -20,14 +20,15 @@ enum sch_err sch_report_sweep_table(const struct sch_result *r, const struct sch
 
 	fprintf(out, "schrot sweep: %s, varying %s, band %g Hz to %g Hz\n\n", r->netlist, s->name, r->band_lo_hz,
 		r->band_hi_hz);
-	fprintf(out, "  %12s  %14s  %14s  %16s\n", strcmp(s->unit, "C") == 0 ? "temp" : "DC current", "output rms",
+	fprintf(out, "  %12s  %14s  %14s  %16s\n",
+		strcmp(s->unit, "C") == 0 ? "temp" : strcmp(s->unit, "A") == 0 ? "DC current" : s->name, "output rms",
 		"input-referred", "carrier shot / rest");
 	for (size_t k = 0; k < s->n_points; k++) {
 		const struct sch_sweep_point *p = &s->points[k];
 		if (strcmp(s->unit, "C") == 0)
 			snprintf(v, sizeof(v), "%.2f °C", p->value);
 		else
-			sch_si_format(v, sizeof(v), p->value, 3, "A");
+			sch_si_format(v, sizeof(v), p->value, 3, s->unit);
 		sch_si_format(o, sizeof(o), p->output_rms_v, 3, "V");
 		sch_si_format(in, sizeof(in), p->input_rms, 3, in_unit);
 		fprintf(out, "  %12s  %14s  %14s  %16.3g\n", v, o, in,
@@ -40,7 +41,7 @@ enum sch_err sch_report_sweep_table(const struct sch_result *r, const struct sch
 		if (strcmp(s->unit, "C") == 0)
 			snprintf(v, sizeof(v), "%.3f °C", s->crossover);
 		else
-			sch_si_format(v, sizeof(v), s->crossover, 4, "A");
+			sch_si_format(v, sizeof(v), s->crossover, 4, s->unit);
 		fprintf(out, "\n  shot-noise-limited from %s %s (carrier shot noise power equals all other noise)\n",
 			strcmp(s->unit, "C") == 0 ? "temp" : s->name, v);
 	}

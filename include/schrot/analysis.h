@@ -145,15 +145,15 @@ struct sch_sweep_point {
 
 struct sch_sweep {
 	const char *name;         /* what was varied: a carrier's hierarchical name or "temp" */
-	const char *unit;         /* "A" or "C" */
+	const char *unit;         /* "A" (a current source), "C" (temp) or "" (a .param) */
 	struct sch_sweep_point *points;
 	size_t n_points;
 	double crossover;         /* value where carrier power equals the rest; NaN where it does not cross */
 };
 
 /*
- * Repeats the noise run of sch_analysis_run over values of one quantity (a current element's DC
- * value, or "temp"), loading the circuit once per worker; opt->n_workers workers share the points.
+ * Repeats the noise run of sch_analysis_run over values of one quantity (a current source's DC
+ * value, a top-level .param through alterparam and reset, or "temp"), loading the circuit once per worker; opt->n_workers workers share the points.
  * The result res describes the last point; sweep gets every point and the crossover (log-log
  * interpolation of the carrier-to-rest power ratio). Errors as sch_analysis_run; SCH_ERR_USAGE for
  * a name that cannot be varied.

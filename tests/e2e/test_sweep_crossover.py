@@ -60,4 +60,25 @@ if data:
     close("[X1] verdict below the crossover", data["verdict"]["shot_to_rest_power"], 0.25, 1e-6)
     true("[X1] not shot-noise limited below the crossover", data["verdict"]["shot_noise_limited"] is False
          and "not shot-noise limited: the rest is 4 x" in out, out)
+# A .param sweep (alterparam + reset on the loaded circuit): the load at which 50 nA becomes
+# shot-noise limited is R = 2kT/(qI) = 1.03408 MOhm at 300 K (X1, derived).
+d = tempfile.mkdtemp(prefix="schrot-sweep-")
+path = os.path.join(d, "param.cir")
+with open(path, "w") as f:
+    f.write(""".param sweep of the load
+.param rload=1meg
+iph 0 a dc 50n
+r1 a 0 {rload}
+.temp 26.85
+.noise v(a) iph dec 10 1 1k 1
+.end
+""")
+proc = subprocess.run([SCHROT, "sweep", path, "--vary", "rload=100k:10meg:9", "--json", "-"], capture_output=True,
+                      text=True, timeout=300)
+true("[X1] .param sweep exits 0", proc.returncode == 0, proc.stderr)
+if proc.returncode == 0:
+    close("[X1] crossover load 2kT/(qI)", json.loads(proc.stdout)["crossover"]["value"], 2 * 1.380649e-23 * 300 /
+          (1.602176634e-19 * 50e-9), 1e-2)
+proc = subprocess.run([SCHROT, "sweep", path, "--vary", "nosuch=1:2:3"], capture_output=True, text=True)
+true("[X1] an unknown sweep name is exit 2", proc.returncode == 2 and "--vary 'nosuch'" in proc.stderr, proc.stderr)
 finish()
