@@ -940,6 +940,22 @@ static double crossover_of(const struct sch_sweep_point *p, size_t n)
 	return NAN;
 }
 
+/* True when a carrier or listed source is a G or F element, whose current is read from the solution. */
+static bool needs_dc_solution(const struct sch_result *res)
+{
+	for (size_t k = 0; k < res->set.n_carriers; k++) {
+		char l = res->deck.elements[res->set.carriers[k].element].letter;
+		if (l == 'g' || l == 'f')
+			return true;
+	}
+	for (size_t k = 0; k < res->set.n_noiseless; k++) {
+		char l = res->deck.elements[res->set.noiseless[k].element].letter;
+		if (l == 'g' || l == 'f')
+			return true;
+	}
+	return false;
+}
+
 static enum sch_err analysis_core(const char *path, const struct sch_run_options *opt, const struct vary_plan *vary,
 				  struct sch_result *res, struct sch_diag *d)
 {
@@ -953,7 +969,8 @@ static enum sch_err analysis_core(const char *path, const struct sch_run_options
 	struct sch_sim_request req;
 	struct sch_sim_step one_step, *steps = &one_step;
 	struct sch_sim_result sim;
-	const char *commands[1];
+	const char *commands[2];
+	size_t n_commands = 1;
 	size_t n_steps = 1;
 	struct sch_source *noiseless_all = NULL;
 	size_t n_noiseless_all = 0;
@@ -987,8 +1004,14 @@ static enum sch_err analysis_core(const char *path, const struct sch_run_options
 	if ((ret = plan_quantities(res, &aug, &q)) != SCH_OK)
 		goto out;
 	commands[0] = opt->mode == SCH_RUN_REPORT ? plan.command : "op";
+	/*
+	 * G and F elements compute their current from the last solution, which after a noise run is
+	 * the small-signal one: an operating point after the noise run puts the DC solution back.
+	 */
+	if (opt->mode == SCH_RUN_REPORT && needs_dc_solution(res))
+		commands[n_commands++] = "op";
 	one_step.commands = commands;
-	one_step.n_commands = 1;
+	one_step.n_commands = n_commands;
 	if (vary) {
 		n_steps = vary->n;
 		ret = SCH_ERR_NOMEM;
@@ -996,7 +1019,7 @@ static enum sch_err analysis_core(const char *path, const struct sch_run_options
 		if (!steps)
 			goto out;
 		for (size_t k = 0; k < n_steps; k++) {
-			const char **cmds = sch_arena_alloc(a, 3 * sizeof(*cmds));
+			const char **cmds = sch_arena_alloc(a, 4 * sizeof(*cmds));
 			char buf[512];
 			bool reset;
 			size_t nc = 0;
@@ -1009,7 +1032,8 @@ static enum sch_err analysis_core(const char *path, const struct sch_run_options
 				cmds[nc++] = "reset";
 				vary->sweep->unit = ""; /* a .param: the netlist gives its meaning */
 			}
-			cmds[nc++] = commands[0];
+			for (size_t c = 0; c < n_commands; c++)
+				cmds[nc++] = commands[c];
 			steps[k].commands = cmds;
 			steps[k].n_commands = nc;
 		}

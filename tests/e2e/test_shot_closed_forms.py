@@ -159,4 +159,26 @@ if data:
     # tolerance 1e-5: the simulator's operating point meets KCL only to its Newton tolerance
     close("[D] input-referred density is 2qI_D (Schottky; I_D = 1 mA)", data["spot"][0]["input_per_rthz"],
           math.sqrt(2 * Q * 1e-3), 1e-5)
+# Controlled sources as carriers: a behavioural G leakage inside a subcircuit and an F mirror named as
+# a photocurrent. Their currents are read from the operating point, not from the small-signal
+# solution: the density is 2q*sum|I| (Schottky) with I = 20 pA and 2 x 3 nA.
+rc, data, out, err = run("""controlled-source carriers
+.subckt cell a params: il=1p
+gleak a 0 value={il}
+.ends
+x1 n cell il=20p
+vs s 0 dc 0
+iref 0 s dc 3n
+fphoto 0 n vs 2
+r1 n 0 1meg noisy=0
+itest 0 n dc 0 ac 1
+.noise v(n) itest dec 10 1 1k 1
+.end
+""", "report", "--spot", "10")
+if data:
+    cur = {c["name"]: c["dc_current_a"] for c in data["carriers"]}
+    close("[S] G carrier current from the operating point", abs(cur.get("x1.gleak", 0)), 20e-12, 1e-6)
+    close("[S] F carrier current from the operating point", abs(cur.get("fphoto", 0)), 6e-9, 1e-6)
+    close("[S] input density 2q(I_G + I_F)", data["spot"][0]["input_per_rthz"], math.sqrt(2 * Q * (20e-12 + 6e-9)), 1e-6)
+    true("[S] the reference source is listed as noiseless", [s["name"] for s in data["noiseless_sources"]] == ["iref"])
 finish()
