@@ -659,6 +659,16 @@ enum sch_err sch_deck_load_text(struct sch_deck *deck, const char *name, const c
 		ret = sch_diag_error(d, SCH_ERR_INPUT, name, 0, "empty netlist");
 		goto out;
 	}
+	{
+		/* Reserve one card per line of the top file so that the card arrays never move. */
+		size_t lines = 1;
+		for (const char *p = text, *end = text + len; (p = memchr(p, '\n', (size_t)(end - p))); p++)
+			lines++;
+		if (sch_deck_arena_grow(&deck->arena, (void **)&r.ld.cards, &r.ld.a_cards, lines, sizeof(*r.ld.cards)) != SCH_OK ||
+		    sch_deck_arena_grow(&deck->arena, (void **)&r.ld.elements, &r.ld.a_elements, lines,
+					sizeof(*r.ld.elements)) != SCH_OK)
+			goto out;
+	}
 	top.mode = SRC_TOP;
 	top.state = ST_CARDS;
 	if (note_file(&r, top.path, top.id) != SCH_OK)

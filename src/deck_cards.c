@@ -32,7 +32,31 @@ enum sch_err sch_deck_grow(void **data, size_t *alloc, size_t n, size_t size)
 	return SCH_OK;
 }
 
+enum sch_err sch_deck_arena_grow(struct sch_arena *a, void **data, size_t *alloc, size_t n, size_t size)
+{
+	size_t want;
+	void *p;
+
+	if (n < *alloc)
+		return SCH_OK;
+	want = *alloc ? *alloc * 2 : 16;
+	if (want <= n)
+		want = n + 1;
+	if (want > SIZE_MAX / size || want > (size_t)INT_MAX)
+		return SCH_ERR_NOMEM;
+	p = sch_arena_alloc(a, want * size);
+	if (!p)
+		return SCH_ERR_NOMEM;
+	if (*alloc)
+		memcpy(p, *data, *alloc * size);
+	*data = p;
+	*alloc = want;
+	return SCH_OK;
+}
+
 #define GROW(arr, n, a) sch_deck_grow((void **)&(arr), &(a), (n), sizeof(*(arr)))
+#define ARENA_GROW(ld, arr, n, a) \
+	sch_deck_arena_grow(&(ld)->deck->arena, (void **)&(arr), &(a), (n), sizeof(*(arr)))
 
 static inline bool is_blank(char c)
 {
@@ -356,7 +380,7 @@ static enum sch_err add_card(struct sch_deck_load *ld, const char *file, long li
 {
 	int scope = ld->n_open ? ld->open[ld->n_open - 1] : -1;
 
-	if (GROW(ld->cards, ld->n_cards, ld->a_cards) != SCH_OK)
+	if (ARENA_GROW(ld, ld->cards, ld->n_cards, ld->a_cards) != SCH_OK)
 		return SCH_ERR_NOMEM;
 	ld->cards[ld->n_cards++] = (struct sch_card){ text, file, line, scope, element, keyword };
 	return SCH_OK;
@@ -374,7 +398,7 @@ static enum sch_err element_card(struct sch_deck_load *ld, const char *file, lon
 				      "element name '%.*s' does not start with a letter",
 				      (int)strcspn(text, " \t"), text);
 	if (tokenize(ld, text, len, SIZE_MAX) != SCH_OK || pack(ld, text, len, &stored, &toks) != SCH_OK ||
-	    GROW(ld->elements, ld->n_elements, ld->a_elements) != SCH_OK)
+	    ARENA_GROW(ld, ld->elements, ld->n_elements, ld->a_elements) != SCH_OK)
 		return SCH_ERR_NOMEM;
 	e = &ld->elements[ld->n_elements];
 	e->name = toks[0];
@@ -705,9 +729,9 @@ enum sch_err sch_deck_load_finish(struct sch_deck_load *ld)
 	ret = check_names(ld);
 	if (ret != SCH_OK)
 		return ret;
-	if (move_to_arena(a, (void **)&deck->cards, ld->cards, ld->n_cards, sizeof(*ld->cards)) != SCH_OK ||
-	    move_to_arena(a, (void **)&deck->elements, ld->elements, ld->n_elements, sizeof(*ld->elements)) != SCH_OK ||
-	    move_to_arena(a, (void **)&deck->subckts, ld->subckts, ld->n_subckts, sizeof(*ld->subckts)) != SCH_OK ||
+	deck->cards = ld->n_cards ? ld->cards : NULL;
+	deck->elements = ld->n_elements ? ld->elements : NULL;
+	if (move_to_arena(a, (void **)&deck->subckts, ld->subckts, ld->n_subckts, sizeof(*ld->subckts)) != SCH_OK ||
 	    move_to_arena(a, (void **)&deck->models, ld->models, ld->n_models, sizeof(*ld->models)) != SCH_OK ||
 	    move_to_arena(a, (void **)&deck->files, ld->files, ld->n_files, sizeof(*ld->files)) != SCH_OK)
 		return SCH_ERR_NOMEM;
@@ -721,8 +745,6 @@ enum sch_err sch_deck_load_finish(struct sch_deck_load *ld)
 
 void sch_deck_load_release(struct sch_deck_load *ld)
 {
-	free(ld->cards);
-	free(ld->elements);
 	free(ld->subckts);
 	free(ld->models);
 	free(ld->files);
