@@ -940,17 +940,17 @@ static double crossover_of(const struct sch_sweep_point *p, size_t n)
 	return NAN;
 }
 
-/* True when a carrier or listed source is a G or F element, whose current is read from the solution. */
+/* True when a carrier or listed source is a G, F or B element, whose current is read from the solution. */
 static bool needs_dc_solution(const struct sch_result *res)
 {
 	for (size_t k = 0; k < res->set.n_carriers; k++) {
 		char l = res->deck.elements[res->set.carriers[k].element].letter;
-		if (l == 'g' || l == 'f')
+		if (l == 'g' || l == 'f' || l == 'b')
 			return true;
 	}
 	for (size_t k = 0; k < res->set.n_noiseless; k++) {
 		char l = res->deck.elements[res->set.noiseless[k].element].letter;
-		if (l == 'g' || l == 'f')
+		if (l == 'g' || l == 'f' || l == 'b')
 			return true;
 	}
 	return false;
@@ -1005,7 +1005,7 @@ static enum sch_err analysis_core(const char *path, const struct sch_run_options
 		goto out;
 	commands[0] = opt->mode == SCH_RUN_REPORT ? plan.command : "op";
 	/*
-	 * G and F elements compute their current from the last solution, which after a noise run is
+	 * G, F and B elements compute their current from the last solution, which after a noise run is
 	 * the small-signal one: an operating point after the noise run puts the DC solution back.
 	 */
 	if (opt->mode == SCH_RUN_REPORT && needs_dc_solution(res))
