@@ -21,21 +21,25 @@
 
 static const char page_style[] =
 	"body{font:15px/1.45 system-ui,'DejaVu Sans',sans-serif;color:#1b1b1b;margin:2em auto;"
-	"max-width:1100px;padding:0 1.2em}"
+	"max-width:1200px;padding:0 1.2em}"
 	"h1{font-size:1.5em;margin:0 0 .2em}h2{font-size:1.15em;margin:1.8em 0 .5em;"
 	"border-bottom:1px solid #ddd;padding-bottom:.2em}"
 	".sub{color:#555;margin:0 0 1.2em}"
-	".figures{display:flex;flex-wrap:wrap;gap:.8em}"
-	".fig{border:1px solid #d8d8d8;border-radius:6px;padding:.6em .9em;min-width:11em}"
+	".figures{display:grid;grid-template-columns:repeat(auto-fill,minmax(13em,1fr));gap:.8em}"
+	".fig{border:1px solid #d8d8d8;border-radius:6px;padding:.6em .9em}"
 	".fig b{display:block;font-size:1.35em;font-variant-numeric:tabular-nums}"
 	".fig span{color:#555;font-size:.85em}"
-	"table{border-collapse:collapse;font-variant-numeric:tabular-nums}"
-	"th,td{padding:.25em .7em;border-bottom:1px solid #eee;text-align:left;vertical-align:top}"
+	"table{border-collapse:collapse;font-variant-numeric:tabular-nums;font-size:14px}"
+	"th,td{padding:.25em .55em;border-bottom:1px solid #eee;text-align:left;vertical-align:top}"
 	"th{background:#f4f4f4;font-weight:600}td.n,th.n{text-align:right;white-space:nowrap}"
-	"td.neg{color:#a33}.bar{display:inline-block;height:.7em;background:#0072b2;margin-right:.4em}"
+	"td.neg{color:#a33}.wide{overflow-x:auto}td.share{white-space:nowrap}"
+	".pct{display:inline-block;min-width:4.6em;text-align:right}"
+	".track{display:inline-block;width:80px;height:.7em;background:#eef2f5;margin-right:.5em;"
+	"vertical-align:baseline}.bar{display:block;height:100%;background:#0072b2}td.neg .bar{background:#c66}"
 	"figure{margin:0}figure svg{width:100%;height:auto;max-width:960px}"
 	"ul{padding-left:1.3em}code{font-family:'DejaVu Sans Mono',monospace;font-size:.92em}"
-	"footer{margin-top:2.5em;color:#666;font-size:.85em}";
+	"footer{margin-top:2.5em;color:#666;font-size:.85em}"
+	"@media print{body{margin:0;max-width:none}h2{break-after:avoid}figure,tr{break-inside:avoid}}";
 
 /* The page being built; bad records any append that failed (memory or the size cap). */
 struct page {
@@ -144,9 +148,9 @@ static void headline(struct page *b, const struct sch_result *r)
 			figure(b, si(v, sizeof(v), s->nep_w_per_rthz, "W/√Hz"), what);
 		}
 	}
-	if (r->total_power_v2 > 0) {
+	if (r->total_power_v2 > 0 && r->set.n_carriers > 0) {
 		snprintf(v, sizeof(v), "%.1f %%", 100.0 * r->carrier_power_v2 / r->total_power_v2);
-		figure(b, v, "of the output noise power is added shot noise");
+		figure(b, v, "share of added shot noise");
 	}
 	adds(b, "</div>\n");
 }
@@ -154,18 +158,24 @@ static void headline(struct page *b, const struct sch_result *r)
 static void spot_table(struct page *b, const struct sch_result *r)
 {
 	char x[64], u[32];
+	bool nep = false;
 
 	if (r->n_spots == 0)
 		return;
+	for (size_t i = 0; i < r->n_spots; i++)
+		nep |= !isnan(r->spots[i].nep_w_per_rthz);
 	snprintf(u, sizeof(u), "%s/√Hz", r->input_unit ? r->input_unit : "");
 	adds(b, "<h2>Spot densities</h2>\n<table><tr><th class=\"n\">frequency</th>"
-			"<th class=\"n\">output</th><th class=\"n\">input-referred</th><th class=\"n\">NEP</th></tr>\n");
+			"<th class=\"n\">output</th><th class=\"n\">input-referred</th>");
+	adds(b, nep ? "<th class=\"n\">NEP</th></tr>\n" : "</tr>\n");
 	for (size_t i = 0; i < r->n_spots; i++) {
 		const struct sch_spot *s = &r->spots[i];
 		elem(b, "<tr><td class=\"n\">", si(x, sizeof(x), s->freq_hz, "Hz"), "</td>");
 		elem(b, "<td class=\"n\">", si(x, sizeof(x), s->output_v_per_rthz, "V/√Hz"), "</td>");
 		elem(b, "<td class=\"n\">", si(x, sizeof(x), s->input_per_rthz, u), "</td>");
-		elem(b, "<td class=\"n\">", si(x, sizeof(x), s->nep_w_per_rthz, "W/√Hz"), "</td></tr>\n");
+		if (nep)
+			elem(b, "<td class=\"n\">", si(x, sizeof(x), s->nep_w_per_rthz, "W/√Hz"), "</td>");
+		adds(b, "</tr>\n");
 	}
 	adds(b, "</table>\n");
 }
@@ -175,7 +185,7 @@ static void contribution_table(struct page *b, const struct sch_result *r)
 	char x[64], share[32];
 	double cumulative = 0;
 
-	adds(b, "<h2>Contributions, largest share first</h2>\n<table><tr><th class=\"n\">#</th>"
+	adds(b, "<h2>Contributions, largest share first</h2>\n<div class=\"wide\"><table><tr><th class=\"n\">#</th>"
 			"<th>device</th><th>generator</th><th>mechanism</th><th>origin</th>"
 			"<th class=\"n\">DC current</th>");
 	for (size_t j = 0; j < r->n_spots; j++)
@@ -196,12 +206,13 @@ static void contribution_table(struct page *b, const struct sch_result *r)
 			     "</td>");
 		elem(b, "<td class=\"n\">", si(x, sizeof(x), c->output_rms_v, "V"), "</td>");
 		sch_report_format_share(share, sizeof(share), c->share);
-		addf(b, "<td class=\"n%s\"><span class=\"bar\" style=\"width:%.1fpx\"></span>%s</td>",
-		     pct < 0 ? " neg" : "", isfinite(pct) ? fmin(fabs(pct), 100.0) * 0.8 : 0.0, share);
+		addf(b, "<td class=\"share%s\"><span class=\"track\"><span class=\"bar\" style=\"width:%.1f%%\">"
+			"</span></span><span class=\"pct\">%s</span></td>",
+		     pct < 0 ? " neg" : "", isfinite(pct) ? fmin(fabs(pct), 100.0) : 0.0, share);
 		sch_report_format_share(share, sizeof(share), cumulative);
 		addf(b, "<td class=\"n\">%s</td></tr>\n", share);
 	}
-	adds(b, "</table>\n");
+	adds(b, "</table></div>\n");
 }
 
 static void plot(struct page *b, const struct sch_result *r)
@@ -284,6 +295,20 @@ static void assumptions(struct page *b, const struct sch_result *r)
 		elem(b, "<li>", line, "</li>\n");
 	}
 	adds(b, "<li>densities are single-sided; added shot noise is 2q·|I|·G per carrier</li>\n");
+	if (r->set.n_carriers == 0)
+		adds(b, "<li>no shot-noise carriers found (name rule, diode nodes, <code>--carrier</code>): "
+			"no shot noise was added</li>\n");
+	for (size_t i = 0; i < r->set.n_carriers; i++) {
+		const struct sch_carrier *c = &r->set.carriers[i];
+		elem(b, "<li>carrier <code>", c->name, "</code>");
+		snprintf(line, sizeof(line), " (%s", si(x, sizeof(x), c->dc_current_a, "A"));
+		esc(b, line);
+		if (c->gain_m != 1 || c->excess_f != 1) {
+			snprintf(line, sizeof(line), ", gain M %.4g, excess F %.4g", c->gain_m, c->excess_f);
+			esc(b, line);
+		}
+		elem(b, "): ", c->reason, "</li>\n");
+	}
 	for (size_t i = 0; i < r->n_notes; i++)
 		elem(b, "<li>", r->notes[i], "</li>\n");
 	elem(b, "<li>simulator: ", r->sim_version, "</li>\n");
@@ -302,8 +327,9 @@ static enum sch_err build_page(struct page *b, const struct sch_result *r)
 	adds(b, "</style>\n</head>\n<body>\n");
 	elem(b, "<h1>Noise report: <code>", r->netlist, "</code></h1>\n");
 	if (r->n_freq) {
-		snprintf(line, sizeof(line), "%s over %s to %s at %.2f K", r->output ? r->output : "output",
-			 si(x, sizeof(x), r->band_lo_hz, "Hz"), si(y, sizeof(y), r->band_hi_hz, "Hz"), r->temp_k);
+		snprintf(line, sizeof(line), "output %s, input %s, band %s to %s, %.2f K (%.2f °C)",
+			 r->output ? r->output : "-", r->input ? r->input : "-", si(x, sizeof(x), r->band_lo_hz, "Hz"),
+			 si(y, sizeof(y), r->band_hi_hz, "Hz"), r->temp_k, r->temp_k - SCH_ZERO_C_K);
 		elem(b, "<p class=\"sub\">", line, "</p>\n");
 		headline(b, r);
 		spot_table(b, r);

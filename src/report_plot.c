@@ -147,26 +147,40 @@ static void fit_text(cairo_t *cr, const char *s, double max_w, char *out, size_t
 	}
 }
 
+/* Greys out the frequencies outside the band (they are not integrated) and marks its edges. */
 static void draw_band(cairo_t *cr, const struct sch_result *r, const struct axes *ax)
 {
+	static const double dash[] = { 4.0, 3.0 };
 	double lo = r->band_lo_hz, hi = r->band_hi_hz;
 	double x0, x1;
-	char a[48], b[48], s[128];
 
 	if (!(lo > 0) || !(hi > lo))
 		return;
-	x0 = fmax(map_x(ax, lo), AREA_L);
-	x1 = fmin(map_x(ax, hi), AREA_R);
-	if (x1 <= x0)
-		return;
-	cairo_rectangle(cr, x0, AREA_T, x1 - x0, AREA_B - AREA_T);
-	cairo_set_source_rgb(cr, 1.0, 0.965, 0.86);
+	x0 = fmin(fmax(map_x(ax, lo), AREA_L), AREA_R);
+	x1 = fmax(fmin(map_x(ax, hi), AREA_R), AREA_L);
+	set_colour(cr, 0.93, 0.93, 0.93);
+	if (x0 > AREA_L + 0.5)
+		cairo_rectangle(cr, AREA_L, AREA_T, x0 - AREA_L, AREA_B - AREA_T);
+	if (x1 < AREA_R - 0.5)
+		cairo_rectangle(cr, x1, AREA_T, AREA_R - x1, AREA_B - AREA_T);
 	cairo_fill(cr);
-	cairo_set_font_size(cr, 11);
-	set_colour(cr, 0.55, 0.42, 0.10);
-	snprintf(s, sizeof(s), "band %s – %s", sch_si_format(a, sizeof(a), lo, 3, "Hz"),
-		 sch_si_format(b, sizeof(b), hi, 3, "Hz"));
-	text_at(cr, (x0 + x1) / 2, AREA_T - 6, s, 0.5, 0);
+	cairo_set_line_width(cr, 1.0);
+	cairo_set_dash(cr, dash, 2, 0);
+	set_colour(cr, 0.45, 0.45, 0.45);
+	for (int k = 0; k < 2; k++) {
+		double x = k ? x1 : x0;
+		if (x > AREA_L + 0.5 && x < AREA_R - 0.5) {
+			cairo_move_to(cr, x, AREA_T);
+			cairo_line_to(cr, x, AREA_B);
+		}
+	}
+	cairo_stroke(cr);
+	cairo_set_dash(cr, NULL, 0, 0);
+	if (x0 > AREA_L + 0.5 || x1 < AREA_R - 0.5) {
+		cairo_set_font_size(cr, 11);
+		set_colour(cr, 0.35, 0.35, 0.35);
+		text_at(cr, (x0 + x1) / 2, AREA_T - 6, "integration band", 0.5, 0);
+	}
 }
 
 static void draw_grid(cairo_t *cr, const struct axes *ax)
@@ -252,8 +266,10 @@ static void draw_frame_and_titles(cairo_t *cr, const struct sch_result *r)
 	set_colour(cr, 0.30, 0.30, 0.30);
 	{
 		char line[700];
-		snprintf(line, sizeof(line), "noise at %s: %s rms in the band", r->output ? r->output : "the output",
-			 sch_si_format(a, sizeof(a), r->output_rms_v, 3, "V"));
+		char lo[48], hi[48];
+		snprintf(line, sizeof(line), "noise at %s: %s rms over the band %s – %s", r->output ? r->output : "the output",
+			 sch_si_format(a, sizeof(a), r->output_rms_v, 3, "V"),
+			 sch_si_format(lo, sizeof(lo), r->band_lo_hz, 3, "Hz"), sch_si_format(hi, sizeof(hi), r->band_hi_hz, 3, "Hz"));
 		fit_text(cr, line, PLOT_W - AREA_L - 20, s, sizeof(s));
 	}
 	cairo_move_to(cr, AREA_L, 42);
@@ -284,8 +300,9 @@ static void line_style(cairo_t *cr, size_t i, bool total, bool dashed)
 	static const double dash[] = { 6.0, 3.5 };
 
 	if (total) {
-		set_colour(cr, 0.05, 0.05, 0.05);
-		cairo_set_line_width(cr, 3.0);
+		/* a wide light stroke under the contributions, so the one that dominates stays visible on it */
+		set_colour(cr, 0.74, 0.74, 0.74);
+		cairo_set_line_width(cr, 7.0);
 	} else {
 		set_colour(cr, palette[i].r, palette[i].g, palette[i].b);
 		cairo_set_line_width(cr, 1.7);
@@ -300,12 +317,17 @@ static void draw_curves(cairo_t *cr, const struct sch_result *r, const struct ax
 	cairo_clip(cr);
 	cairo_set_line_join(cr, CAIRO_LINE_JOIN_ROUND);
 	cairo_set_line_cap(cr, CAIRO_LINE_CAP_ROUND);
-	for (size_t i = top; i-- > 0;) {
-		line_style(cr, i, false, r->contributions[i].origin == SCH_ORIGIN_CORRECTION);
-		curve(cr, r, ax, r->contributions[i].psd);
-	}
 	line_style(cr, 0, true, false);
 	curve(cr, r, ax, r->total_psd);
+	/* largest on top; corrections last, dashed, since they often trace the row they correct */
+	for (int pass = 0; pass < 2; pass++)
+		for (size_t i = top; i-- > 0;) {
+			bool correction = r->contributions[i].origin == SCH_ORIGIN_CORRECTION;
+			if (correction != (pass == 1))
+				continue;
+			line_style(cr, i, false, correction);
+			curve(cr, r, ax, r->contributions[i].psd);
+		}
 	cairo_restore(cr);
 }
 
