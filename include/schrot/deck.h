@@ -101,7 +101,7 @@ struct sch_instance {
 	const char *path;     /* lower-case hierarchical name joined by '.': "x1.iph", "xrx.xpd.d1", "rf" */
 	const char *sim_name; /* the simulator's name: "i.x1.iph" inside subcircuits, "rf" at top level */
 	int element;          /* index into deck->elements */
-	int parent;           /* index into the instance list of the enclosing X instance, -1 at top level */
+	int parent;           /* a number naming the enclosing X instance (shared by its leaves; not an index), -1 at top level */
 };
 
 /* Initialises an empty deck. This function can't fail. */
