@@ -96,6 +96,10 @@ c1 out 0 {c}
 """, "report")
     if data:
         close(f"[K6-K8] qIR/(2C) rms for I={i:g}", data["total"]["output_rms_v"], want, 2e-4)
+        # K9: the same run read as a noise bandwidth: power / (2qI R^2) = (pi/2) f_3dB (Sobering,
+        # "Equivalent Noise Bandwidth", SDE Consulting Technote 1, eqs. (1)-(3), Table 1)
+        enbw = data["total"]["output_rms_v"] ** 2 / (2 * Q * i * rv * rv)
+        close(f"[K9] single-pole noise bandwidth (pi/2) f_3dB for R={r}, C={c}", enbw, math.pi / 2 * fc, 2e-4)
 
 # Ideal transimpedance stage: output density Rf*sqrt(2q*sum(I)) with a noiseless feedback resistor
 # (closed form from Schottky 2qI; powers of independent sources add).
