@@ -7,6 +7,7 @@
 #include <stdarg.h>
 #include <stdbool.h>
 #include <stdio.h>
+#include <stdlib.h>
 #include <string.h>
 #include "schrot/buf.h"
 #include "schrot/outfile.h"
@@ -116,6 +117,29 @@ static const char *si(char *out, size_t n, double v, const char *unit)
 	return sch_si_format(out, n, v, 3, unit);
 }
 
+/* A power ratio to 3 significant digits, large and small ones as "4.92 × 10⁴" rather than "4.92e+04". */
+static const char *ratio(char *out, size_t n, double x)
+{
+	static const char *const sup[] = { "⁰", "¹", "²", "³", "⁴", "⁵", "⁶", "⁷", "⁸", "⁹" };
+	char digits[16], exp_text[64] = "";
+	int e;
+
+	if (!isfinite(x) || x == 0 || (fabs(x) >= 0.01 && fabs(x) < 1e4)) {
+		snprintf(out, n, "%.3g", x);
+		return out;
+	}
+	e = (int)floor(log10(fabs(x)));
+	if (fabs(x / pow(10, e)) >= 9.995) /* rounds up to the next decade */
+		e++;
+	snprintf(digits, sizeof(digits), "%d", abs(e));
+	if (e < 0)
+		snprintf(exp_text, sizeof(exp_text), "⁻");
+	for (const char *p = digits; *p; p++)
+		snprintf(exp_text + strlen(exp_text), sizeof(exp_text) - strlen(exp_text), "%s", sup[*p - '0']);
+	snprintf(out, n, "%.3g × 10%s", x / pow(10, e), exp_text);
+	return out;
+}
+
 static void figure(struct page *b, const char *value, const char *what)
 {
 	elem(b, "<div class=\"fig\"><b>", value, "</b>");
@@ -124,7 +148,7 @@ static void figure(struct page *b, const char *value, const char *what)
 
 static void headline(struct page *b, const struct sch_result *r)
 {
-	char v[96], u[32], x[48], y[48];
+	char v[96], u[32], x[48], y[160];
 	const char *unit = r->input_unit ? r->input_unit : "";
 
 	snprintf(u, sizeof(u), "%s/√Hz", unit);
@@ -135,7 +159,8 @@ static void headline(struct page *b, const struct sch_result *r)
 	figure(b, v, "input-referred noise");
 	if (!isnan(r->signal)) {
 		snprintf(v, sizeof(v), "%.1f dB", sch_report_db(r->snr));
-		snprintf(y, sizeof(y), "SNR %.4g for %s", r->snr, si(x, sizeof(x), r->signal, unit));
+		char q[64];
+		snprintf(y, sizeof(y), "SNR %s for %s", ratio(q, sizeof(q), r->snr), si(x, sizeof(x), r->signal, unit));
 		figure(b, v, y);
 	}
 	for (size_t i = 0; i < r->n_spots && i < 3; i++) {
