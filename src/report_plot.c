@@ -65,6 +65,17 @@ static void widen(double v, double *lo, double *hi)
 		*hi = v;
 }
 
+/* log10 of v raised (lowered) to the next half decade, leaving 5 % of a decade of margin. */
+static double half_decade_above(double v)
+{
+	return ceil(2 * (log10(v) + 0.05)) / 2;
+}
+
+static double half_decade_below(double v)
+{
+	return floor(2 * (log10(v) - 0.05)) / 2;
+}
+
 static bool pick_axes(const struct sch_result *r, size_t top, struct axes *ax)
 {
 	double f_lo = INFINITY, f_hi = 0, v_lo = INFINITY, v_hi = 0, t_lo = INFINITY, t_hi = 0;
@@ -83,13 +94,14 @@ static bool pick_axes(const struct sch_result *r, size_t top, struct axes *ax)
 	ax->x_hi = ceil(log10(f_hi) - 1e-9);
 	if (ax->x_hi <= ax->x_lo)
 		ax->x_hi = ax->x_lo + 1;
-	ax->y_hi = ceil(log10(v_hi) + 0.05);
-	ax->y_lo = floor(log10(v_lo) - 0.05);
+	/* half-decade ends: a curve just above a decade does not cost the plot a whole empty decade */
+	ax->y_hi = half_decade_above(v_hi);
+	ax->y_lo = half_decade_below(v_lo);
 	/* A contribution far below the total carries no information worth the vertical space. */
 	if (ax->y_lo < ax->y_hi - MAX_DECADES_Y)
 		ax->y_lo = ax->y_hi - MAX_DECADES_Y;
-	if (t_lo < INFINITY && ax->y_lo > floor(log10(t_lo)))
-		ax->y_lo = floor(log10(t_lo));
+	if (t_lo < INFINITY && ax->y_lo > half_decade_below(t_lo))
+		ax->y_lo = half_decade_below(t_lo);
 	if (ax->y_hi - ax->y_lo < 2)
 		ax->y_lo = ax->y_hi - 2;
 	return true;
@@ -186,7 +198,9 @@ static void draw_band(cairo_t *cr, const struct sch_result *r, const struct axes
 static void draw_grid(cairo_t *cr, const struct axes *ax)
 {
 	char s[32];
-	int nx = (int)(ax->x_hi - ax->x_lo), ny = (int)(ax->y_hi - ax->y_lo);
+	/* x ends are whole decades, y ends may be half decades: y decades labelled are those inside */
+	int ey_lo = (int)ceil(ax->y_lo - 1e-9), ey_hi = (int)floor(ax->y_hi + 1e-9);
+	int nx = (int)(ax->x_hi - ax->x_lo), ny = ey_hi - ey_lo;
 	int x_step = nx > 9 ? 2 : 1, y_step = ny > 9 ? 2 : 1;
 
 	cairo_set_line_width(cr, 0.6);
@@ -197,11 +211,13 @@ static void draw_grid(cairo_t *cr, const struct axes *ax)
 			cairo_move_to(cr, x, AREA_T);
 			cairo_line_to(cr, x, AREA_B);
 		}
-	for (int e = (int)ax->y_lo; e < (int)ax->y_hi; e++)
+	for (int e = ey_lo - 1; e <= ey_hi; e++)
 		for (int m = 2; m <= 9; m++) {
-			double y = map_y(ax, m * pow(10, e));
-			cairo_move_to(cr, AREA_L, y);
-			cairo_line_to(cr, AREA_R, y);
+			double lg = e + log10(m);
+			if (lg <= ax->y_lo || lg >= ax->y_hi)
+				continue;
+			cairo_move_to(cr, AREA_L, map_y(ax, pow(10, lg)));
+			cairo_line_to(cr, AREA_R, map_y(ax, pow(10, lg)));
 		}
 	cairo_stroke(cr);
 	cairo_set_line_width(cr, 1.0);
@@ -211,8 +227,10 @@ static void draw_grid(cairo_t *cr, const struct axes *ax)
 		cairo_move_to(cr, x, AREA_T);
 		cairo_line_to(cr, x, AREA_B);
 	}
-	for (int e = (int)ax->y_lo + 1; e < (int)ax->y_hi; e++) {
+	for (int e = ey_lo; e <= ey_hi; e++) {
 		double y = map_y(ax, pow(10, e));
+		if (e <= ax->y_lo + 1e-9 || e >= ax->y_hi - 1e-9)
+			continue; /* the frame is there */
 		cairo_move_to(cr, AREA_L, y);
 		cairo_line_to(cr, AREA_R, y);
 	}
@@ -223,7 +241,7 @@ static void draw_grid(cairo_t *cr, const struct axes *ax)
 		decade_label(s, sizeof(s), e);
 		text_at(cr, map_x(ax, pow(10, e)), AREA_B + 8, s, 0.5, 1.0);
 	}
-	for (int e = (int)ax->y_lo; e <= (int)ax->y_hi; e += y_step) {
+	for (int e = ey_lo; e <= ey_hi; e += y_step) {
 		cairo_text_extents_t te;
 		decade_label(s, sizeof(s), e);
 		cairo_text_extents(cr, s, &te);
