@@ -59,13 +59,20 @@ static bool ci_prefix(const char *s, size_t n, const char *prefix)
 	return n >= k && strncasecmp(s, prefix, k) == 0;
 }
 
+/* A byte no netlist text may hold: C0 controls other than the blanks, and DEL. */
+static inline bool is_control(unsigned char c)
+{
+	return (c < 0x20 && c != '\t' && c != '\f' && c != '\v') || c == 0x7f;
+}
+
 /*
  * Length of s[0..n) without its inline comment (';' anywhere, '$' at the start or after a
- * blank) and trailing blanks. *high tells whether a kept byte is not ASCII.
+ * blank) and trailing blanks. *odd tells whether a kept byte is not ASCII or is a control byte,
+ * so that check_text looks at the line.
  */
-static size_t strip_inline(const char *s, size_t n, bool *high)
+static size_t strip_inline(const char *s, size_t n, bool *odd)
 {
-	unsigned char any = 0;
+	bool any = false;
 	size_t i;
 
 	for (i = 0; i < n; i++) {
@@ -73,11 +80,11 @@ static size_t strip_inline(const char *s, size_t n, bool *high)
 
 		if (c == ';' || (c == '$' && (i == 0 || is_blank(s[i - 1]))))
 			break;
-		any |= c;
+		any |= c >= 0x7f || is_control(c);
 	}
 	while (i > 0 && is_blank(s[i - 1]))
 		i--;
-	*high = (any & 0x80) != 0;
+	*odd = any;
 	return i;
 }
 
@@ -118,10 +125,18 @@ static size_t utf8_bad(const char *str, size_t n)
 	return n;
 }
 
-static enum sch_err check_utf8(struct reader *r, const struct src *src, long line, const char *s, size_t n)
+/*
+ * Netlist text is UTF-8 without control bytes: a carriage return inside a line or a terminal
+ * escape must never reach the simulator or a message.
+ */
+static enum sch_err check_text(struct reader *r, const struct src *src, long line, const char *s, size_t n)
 {
 	size_t bad = utf8_bad(s, n);
 
+	for (size_t i = 0; i < bad; i++)
+		if (is_control((unsigned char)s[i]))
+			return sch_diag_error(r->ld.d, SCH_ERR_INPUT, src->path, line,
+					      "control character 0x%02x in the text", (unsigned char)s[i]);
 	if (bad == n)
 		return SCH_OK;
 	return sch_diag_error(r->ld.d, SCH_ERR_INPUT, src->path, line, "invalid utf-8 (byte 0x%02x)",
@@ -138,7 +153,8 @@ static enum sch_err slurp(const char *path, bool regular_only, char **out, size_
 	struct stat st;
 	char *data = NULL;
 	size_t len = 0, alloc = 0;
-	int fd = open(path, O_RDONLY | O_CLOEXEC);
+	/* O_NONBLOCK: opening a FIFO that nobody writes must not hang the reader. */
+	int fd = open(path, O_RDONLY | O_CLOEXEC | (regular_only ? O_NONBLOCK : 0));
 
 	*out = NULL;
 	*out_len = 0;
@@ -443,7 +459,7 @@ static enum sch_err take_title(struct reader *r, struct src *src, const char *s,
 	if (n > SCH_MAX_LINE)
 		return sch_diag_error(r->ld.d, SCH_ERR_INPUT, src->path, 1, "title line longer than %zu bytes",
 				      SCH_MAX_LINE);
-	if (check_utf8(r, src, 1, s, n) != SCH_OK)
+	if (check_text(r, src, 1, s, n) != SCH_OK)
 		return SCH_ERR_INPUT;
 	r->ld.deck->title = sch_arena_strndup(&r->ld.deck->arena, s, n);
 	if (!r->ld.deck->title)
@@ -481,7 +497,7 @@ static enum sch_err read_source(struct reader *r, struct src *src, const char *t
 		const char *nl = memchr(s, '\n', len - pos);
 		size_t n = nl ? (size_t)(nl - s) : len - pos;
 		size_t b = 0, kept;
-		bool high;
+		bool odd;
 
 		pos += n + 1;
 		lineno++;
@@ -521,10 +537,10 @@ static enum sch_err read_source(struct reader *r, struct src *src, const char *t
 			n--;
 			while (n && is_blank(*s))
 				s++, n--;
-			kept = strip_inline(s, n, &high);
+			kept = strip_inline(s, n, &odd);
 			if (!kept)
 				continue;
-			if (high && check_utf8(r, src, lineno, s, kept) != SCH_OK) {
+			if (odd && check_text(r, src, lineno, s, kept) != SCH_OK) {
 				ret = SCH_ERR_INPUT;
 				goto out;
 			}
@@ -542,7 +558,7 @@ static enum sch_err read_source(struct reader *r, struct src *src, const char *t
 				goto out;
 			continue;
 		}
-		kept = strip_inline(s, n, &high);
+		kept = strip_inline(s, n, &odd);
 		if (!kept)
 			continue; /* a line holding only an inline comment does not end the card above */
 		if (pending) {
@@ -576,7 +592,7 @@ static enum sch_err read_source(struct reader *r, struct src *src, const char *t
 			warn_dropped(r, src, lineno, true);
 			continue;
 		}
-		if (high && check_utf8(r, src, lineno, s, kept) != SCH_OK) {
+		if (odd && check_text(r, src, lineno, s, kept) != SCH_OK) {
 			ret = SCH_ERR_INPUT;
 			goto out;
 		}

@@ -5,6 +5,7 @@
  */
 #include <limits.h>
 #include <stdint.h>
+#include <stdio.h>
 #include <stdlib.h>
 #include <string.h>
 #include "deck_int.h"
@@ -76,6 +77,25 @@ static inline bool is_alpha(char c)
 static bool has_prefix(const char *s, const char *prefix)
 {
 	return strncmp(s, prefix, strlen(prefix)) == 0;
+}
+
+const char *sch_deck_quote(const struct sch_deck *deck, const char *file, const char *tok, const char *fallback,
+			   char *buf, size_t size)
+{
+	size_t n, cut;
+
+	if (!size)
+		return buf;
+	if (!tok || !deck || file != deck->path) {
+		snprintf(buf, size, "%s", fallback);
+		return buf;
+	}
+	n = strlen(tok);
+	cut = n > SCH_DECK_QUOTE_MAX ? SCH_DECK_QUOTE_MAX : n;
+	while (cut < n && cut > 0 && ((unsigned char)tok[cut] & 0xc0) == 0x80)
+		cut--; /* never split a UTF-8 sequence */
+	snprintf(buf, size, " '%.*s%s'", (int)cut, tok, cut < n ? "..." : "");
+	return buf;
 }
 
 /* ---- name index ------------------------------------------------------------------------- */
@@ -280,9 +300,11 @@ static enum sch_err pack(struct sch_deck_load *ld, const char *text, size_t len,
 static enum sch_err check_number(struct sch_deck_load *ld, const char *file, long line, const char *tok)
 {
 	double v;
+	char q[SCH_DECK_QUOTE_MAX + 8];
 
 	if (tok && sch_si_looks_numeric(tok) && sch_si_parse(tok, &v) != SCH_OK)
-		return sch_diag_error(ld->d, SCH_ERR_INPUT, file, line, "malformed number '%s'", tok);
+		return sch_diag_error(ld->d, SCH_ERR_INPUT, file, line, "malformed number%s",
+				      sch_deck_quote(ld->deck, file, tok, "", q, sizeof(q)));
 	return SCH_OK;
 }
 
@@ -316,8 +338,10 @@ int sch_deck_x_name_index(const struct sch_element *e)
 static enum sch_err too_few(struct sch_deck_load *ld, const char *file, long line, const char *name,
 			    const char *needs)
 {
-	return sch_diag_error(ld->d, SCH_ERR_INPUT, file, line, "too few fields for '%s': needs %s", name,
-			      needs);
+	char q[SCH_DECK_QUOTE_MAX + 8];
+
+	return sch_diag_error(ld->d, SCH_ERR_INPUT, file, line, "too few fields for%s: needs %s",
+			      sch_deck_quote(ld->deck, file, name, " an element", q, sizeof(q)), needs);
 }
 
 static enum sch_err check_element(struct sch_deck_load *ld, const char *file, long line,
@@ -393,10 +417,13 @@ static enum sch_err element_card(struct sch_deck_load *ld, const char *file, lon
 	const char *stored;
 	const char **toks;
 
-	if (!is_alpha(text[0]))
-		return sch_diag_error(ld->d, SCH_ERR_INPUT, file, line,
-				      "element name '%.*s' does not start with a letter",
-				      (int)strcspn(text, " \t"), text);
+	if (!is_alpha(text[0])) {
+		char name[SCH_DECK_QUOTE_MAX + 4], q[SCH_DECK_QUOTE_MAX + 8];
+
+		snprintf(name, sizeof(name), "%.*s", (int)strcspn(text, " \t"), text);
+		return sch_diag_error(ld->d, SCH_ERR_INPUT, file, line, "element name%s does not start with a letter",
+				      sch_deck_quote(ld->deck, file, name, "", q, sizeof(q)));
+	}
 	if (tokenize(ld, text, len, SIZE_MAX) != SCH_OK || pack(ld, text, len, &stored, &toks) != SCH_OK ||
 	    ARENA_GROW(ld, ld->elements, ld->n_elements, ld->a_elements) != SCH_OK)
 		return SCH_ERR_NOMEM;
@@ -516,12 +543,14 @@ static enum sch_err noise_card(struct sch_deck_load *ld, const char *file, long 
 			       const char **t, size_t n)
 {
 	struct sch_noise_spec *ns = &ld->deck->noise;
+	char q[SCH_DECK_QUOTE_MAX + 8];
 
 	if (n < 7)
 		return sch_diag_error(ld->d, SCH_ERR_INPUT, file, line,
 				      "'.noise' needs an output, an input source, a sweep type, a point count and two frequencies");
 	if (strcmp(t[3], "dec") != 0 && strcmp(t[3], "oct") != 0 && strcmp(t[3], "lin") != 0)
-		return sch_diag_error(ld->d, SCH_ERR_INPUT, file, line, "unknown sweep type '%s' in '.noise'", t[3]);
+		return sch_diag_error(ld->d, SCH_ERR_INPUT, file, line, "unknown sweep type%s in '.noise'",
+				      sch_deck_quote(ld->deck, file, t[3], "", q, sizeof(q)));
 	for (size_t i = 4; i < n && i < 8; i++)
 		if (check_number(ld, file, line, t[i]) != SCH_OK)
 			return SCH_ERR_INPUT;
@@ -631,6 +660,7 @@ static enum sch_err check_model_use(struct sch_deck_load *ld, const struct sch_n
 				    const struct sch_element *e)
 {
 	const struct sch_card *c = &ld->cards[e->card];
+	char q[SCH_DECK_QUOTE_MAX + 8];
 	int first, last;
 
 	switch (e->letter) {
@@ -654,7 +684,8 @@ static enum sch_err check_model_use(struct sch_deck_load *ld, const struct sch_n
 	for (int i = first; i <= last && i < e->n_tok; i++)
 		if (model_known_ix(mx, e->tok[i]))
 			return SCH_OK;
-	return sch_diag_error(ld->d, SCH_ERR_INPUT, c->file, c->line, "model '%s' is not defined", e->tok[first]);
+	return sch_diag_error(ld->d, SCH_ERR_INPUT, c->file, c->line, "model%s is not defined",
+			      sch_deck_quote(ld->deck, c->file, e->tok[first], "", q, sizeof(q)));
 }
 
 static enum sch_err check_names(struct sch_deck_load *ld)
@@ -685,8 +716,10 @@ static enum sch_err check_names(struct sch_deck_load *ld)
 			const char *sub = e->tok[sch_deck_x_name_index(e)];
 
 			if (sch_deck_resolve_subckt(ld->subckts, &sx, sub, e->subckt) < 0) {
-				ret = sch_diag_error(ld->d, SCH_ERR_INPUT, c->file, c->line,
-						     "unknown subcircuit '%s'", sub);
+				char q[SCH_DECK_QUOTE_MAX + 8];
+
+				ret = sch_diag_error(ld->d, SCH_ERR_INPUT, c->file, c->line, "unknown subcircuit%s",
+						     sch_deck_quote(ld->deck, c->file, sub, "", q, sizeof(q)));
 				goto out;
 			}
 		} else if (check_model_use(ld, &mx, e) != SCH_OK) {
@@ -722,9 +755,15 @@ enum sch_err sch_deck_load_finish(struct sch_deck_load *ld)
 	if (ld->n_open) {
 		const struct sch_subckt *s = &ld->subckts[ld->open[ld->n_open - 1]];
 		const struct sch_card *c = &ld->cards[s->card_begin];
+		char q[SCH_DECK_QUOTE_MAX + 8];
 
-		return sch_diag_error(ld->d, SCH_ERR_INPUT, c->file, c->line,
-				      "'.subckt %s' has no matching '.ends'", s->name);
+		/* " 'cell'" becomes " cell": "'.subckt cell' has no matching '.ends'" */
+		sch_deck_quote(ld->deck, c->file, s->name, "", q, sizeof(q));
+		if (q[0]) {
+			memmove(q + 1, q + 2, strlen(q + 2) - 1);
+			q[strlen(q) - 2] = '\0';
+		}
+		return sch_diag_error(ld->d, SCH_ERR_INPUT, c->file, c->line, "'.subckt%s' has no matching '.ends'", q);
 	}
 	ret = check_names(ld);
 	if (ret != SCH_OK)

@@ -1,5 +1,6 @@
 /* SPDX-License-Identifier: BSD-3-Clause */
 /* deck_instances.c - expansion of the subcircuit hierarchy into leaf instances with their names. */
+#include <stdio.h>
 #include <stdlib.h>
 #include <string.h>
 #include "deck_int.h"
@@ -77,8 +78,10 @@ static enum sch_err resolve_targets(struct walk *w)
 		k = sch_deck_x_name_index(e);
 		w->target[i] = k < 0 ? -1 : sch_deck_resolve_subckt(deck->subckts, &ix, e->tok[k], e->subckt);
 		if (w->target[i] < 0) {
-			ret = sch_diag_error(w->d, SCH_ERR_INPUT, c->file, c->line, "unknown subcircuit '%s'",
-					     k < 0 ? "" : e->tok[k]);
+			char q[SCH_DECK_QUOTE_MAX + 8];
+
+			ret = sch_diag_error(w->d, SCH_ERR_INPUT, c->file, c->line, "unknown subcircuit%s",
+					     sch_deck_quote(deck, c->file, k < 0 ? "" : e->tok[k], "", q, sizeof(q)));
 			goto out;
 		}
 	}
@@ -111,9 +114,12 @@ static enum sch_err visit(struct walk *w, int el, const struct frame *f)
 	if (e->letter == 'x') {
 		int t = w->target[el];
 
-		if (w->active[t])
-			return sch_diag_error(w->d, SCH_ERR_INPUT, c->file, c->line,
-					      "recursive instantiation of subcircuit '%s'", w->deck->subckts[t].name);
+		if (w->active[t]) {
+			char q[SCH_DECK_QUOTE_MAX + 8];
+
+			return sch_diag_error(w->d, SCH_ERR_INPUT, c->file, c->line, "recursive instantiation of subcircuit%s",
+					      sch_deck_quote(w->deck, c->file, w->deck->subckts[t].name, "", q, sizeof(q)));
+		}
 		path = f->path ? sch_arena_printf(w->arena, "%s.%s", f->path, e->name) : e->name;
 		if (!path)
 			return SCH_ERR_NOMEM;

@@ -91,6 +91,18 @@ struct sch_deck_load {
 	struct sch_pattern *re_control, *re_include, *re_lib;
 };
 
+/* Longest piece of a netlist token quoted in a message, bytes (a 1 MB token gives a short message). */
+#define SCH_DECK_QUOTE_MAX 64
+
+/*
+ * The words a message puts in place of a token: " 'tok'" (at most SCH_DECK_QUOTE_MAX bytes, cut at
+ * a UTF-8 boundary and marked "...") when the card came from the top netlist (file == deck->path),
+ * else fallback: text of included and library files is never quoted, so that an .include of a
+ * file that is no netlist (/etc/passwd) shows none of it. Returns buf, always NUL-terminated.
+ */
+const char *sch_deck_quote(const struct sch_deck *deck, const char *file, const char *tok, const char *fallback,
+			   char *buf, size_t size);
+
 /* Adds one ordinary card (an element or a dot card other than include/lib/control/end). */
 enum sch_err sch_deck_load_card(struct sch_deck_load *ld, const char *file, long line,
 				const char *text, size_t len);

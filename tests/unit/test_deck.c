@@ -945,6 +945,76 @@ static void test_deck__release_is_safe_on_null_and_twice(void)
 	CHECK(deck.n_cards == 0 && deck.cards == NULL);
 }
 
+/* ---- hostile input --------------------------------------------------------------------------- */
+
+static void test_deck__rejects_control_characters_in_card_text(void)
+{
+	expect_error("t\nr1 a 0 1k\r*#shell touch x\n", INLINE_NAME ":2: control character 0x0d in the text");
+	expect_error("t\nr\033[31mred a 0 1k\n", INLINE_NAME ":2: control character 0x1b in the text");
+	expect_error("t\nr1 a 0 1k\n+ 2\x7f\n", INLINE_NAME ":3: control character 0x7f in the text");
+	expect_error("t\x07\nr1 a 0 1k\n", INLINE_NAME ":1: control character 0x07 in the text");
+}
+
+static void test_deck__keeps_crlf_tabs_and_control_bytes_in_comments(void)
+{
+	struct sch_deck deck;
+
+	CHECK(load_text(&deck, "t\r\nr1\ta 0 1k\r\n* bell \a here\r\nr2 a 0 2k ; esc \033\r\n") == SCH_OK);
+	CHECK(deck.n_elements == 2);
+	CHECK_STR(deck.cards[1].text, "r2 a 0 2k");
+	sch_deck_release(&deck);
+}
+
+static void test_deck__include_of_a_fifo_fails_at_once(void)
+{
+	char dir[] = "/tmp/schrot-test-deck-XXXXXX";
+	char fifo[64], top[64];
+	struct sch_deck deck;
+	FILE *f;
+
+	CHECK(mkdtemp(dir) != NULL);
+	snprintf(fifo, sizeof(fifo), "%s/pipe.inc", dir);
+	snprintf(top, sizeof(top), "%s/top.cir", dir);
+	CHECK(mkfifo(fifo, 0600) == 0);
+	f = fopen(top, "w");
+	CHECK(f != NULL);
+	if (f) {
+		fputs("t\nr1 a 0 1k\n.include pipe.inc\n", f);
+		fclose(f);
+	}
+	sch_deck_init(&deck);
+	sch_diag_init(&diag, NULL, 0);
+	/* Without O_NONBLOCK the open itself would wait for a writer forever. */
+	CHECK(sch_deck_load(&deck, top, &diag) == SCH_ERR_INPUT);
+	CHECK(strstr(diag.first_error, ":3: cannot open include file '") != NULL);
+	CHECK(strstr(diag.first_error, "pipe.inc': not a regular file") != NULL);
+	sch_deck_release(&deck);
+	expect_error("t\n.include /dev/stdin\n",
+		     INLINE_NAME ":2: cannot open include file '/dev/stdin': not a regular file");
+	remove(fifo);
+	remove(top);
+	rmdir(dir);
+}
+
+static void test_deck__quotes_are_short_and_never_from_included_files(void)
+{
+	static char text[4096];
+	struct sch_deck deck;
+
+	snprintf(text, sizeof(text), "t\nr%0200d a\n", 7);
+	expect_error(text, INLINE_NAME ":2: too few fields for 'r0000000000000000000000000000000000000000000000000000000000000"
+			   "00...': needs 2 nodes and a value");
+	/* a multi-byte character at the cut is kept whole or left out, never split */
+	snprintf(text, sizeof(text), "t\nr%062d\xc3\xa9\xc3\xa9 a\n", 0);
+	expect_error(text, INLINE_NAME ":2: too few fields for 'r00000000000000000000000000000000000000000000000000000000000000"
+			   "...': needs 2 nodes and a value");
+	CHECK(load_text(&deck, "t\n.include /etc/passwd\n") == SCH_ERR_INPUT);
+	CHECK(strncmp(diag.first_error, "/etc/passwd:1: ", 15) == 0);
+	CHECK(strstr(diag.first_error, "root") == NULL);
+	CHECK(strchr(diag.first_error, '\'') == NULL);
+	sch_deck_release(&deck);
+}
+
 CHECK_MAIN(CASE(test_deck__joins_plus_continuation_lines), CASE(test_deck__drops_star_comment_lines),
 	   CASE(test_deck__strips_semicolon_and_dollar_comments),
 	   CASE(test_deck__comment_only_line_does_not_end_a_card), CASE(test_deck__title_is_never_a_card),
@@ -972,4 +1042,8 @@ CHECK_MAIN(CASE(test_deck__joins_plus_continuation_lines), CASE(test_deck__drops
 	   CASE(test_deck__loads_a_title_only_file), CASE(test_deck__rejects_directories_and_missing_files),
 	   CASE(test_deck__expands_two_level_subcircuit_instances), CASE(test_deck__rejects_recursive_instantiation),
 	   CASE(test_deck__expands_8000_instances_quickly), CASE(test_deck__reports_element_nodes),
-	   CASE(test_deck__release_is_safe_on_null_and_twice))
+	   CASE(test_deck__release_is_safe_on_null_and_twice),
+	   CASE(test_deck__rejects_control_characters_in_card_text),
+	   CASE(test_deck__keeps_crlf_tabs_and_control_bytes_in_comments),
+	   CASE(test_deck__include_of_a_fifo_fails_at_once),
+	   CASE(test_deck__quotes_are_short_and_never_from_included_files))
