@@ -85,6 +85,19 @@ struct sch_worker_ctx {
 	size_t n_names;
 	double *rows;
 	size_t n_rows, rows_cap;
+	/*
+	 * The transient vectors the request asks for, as SendData delivers them: rows of
+	 * 1 + n_tran_vectors values (time first), every point or only the interpolated samples.
+	 */
+	const struct sch_sim_request *req;
+	bool tran_live;
+	int tran_time_ix;
+	int *tran_ix;         /* per wanted vector: its index in the plot, -1 when absent */
+	double *tran_rows;
+	size_t tran_n_rows, tran_cap;
+	double *tran_prev;    /* the previous point, for interpolation */
+	bool tran_have_prev;
+	size_t tran_next;     /* next sample to produce */
 };
 
 static void worker_write_raw(struct sch_worker_ctx *w, const void *p, size_t n)
@@ -223,6 +236,52 @@ static void noise_clear(struct sch_worker_ctx *w)
 	w->noise_live = w->noise_seen = w->noise_order_bad = false;
 }
 
+static void tran_clear(struct sch_worker_ctx *w)
+{
+	free(w->tran_ix);
+	free(w->tran_rows);
+	free(w->tran_prev);
+	w->tran_ix = NULL;
+	w->tran_rows = w->tran_prev = NULL;
+	w->tran_n_rows = w->tran_cap = w->tran_next = 0;
+	w->tran_live = w->tran_have_prev = false;
+	w->tran_time_ix = -1;
+}
+
+/* "v(out)" and "out" both name the node vector "out". */
+static bool tran_name_matches(const char *vecname, const char *wanted)
+{
+	size_t n = strlen(wanted);
+
+	if (n > 3 && strncasecmp(wanted, "v(", 2) == 0 && wanted[n - 1] == ')')
+		return strlen(vecname) == n - 3 && strncasecmp(vecname, wanted + 2, n - 3) == 0;
+	return strcasecmp(vecname, wanted) == 0;
+}
+
+/* A transient plot starts: find the wanted vectors and "time" in its list. */
+static void tran_start(struct sch_worker_ctx *w, pvecinfoall info)
+{
+	const struct sch_sim_request *req = w->req;
+	size_t width = 1 + req->n_tran_vectors;
+
+	tran_clear(w);
+	w->tran_ix = malloc(req->n_tran_vectors * sizeof(*w->tran_ix));
+	w->tran_prev = malloc(width * sizeof(*w->tran_prev));
+	if (!w->tran_ix || !w->tran_prev)
+		_exit(4);
+	for (size_t j = 0; j < req->n_tran_vectors; j++) {
+		w->tran_ix[j] = -1;
+		for (int i = 0; i < info->veccount; i++)
+			if (info->vecs[i] && info->vecs[i]->vecname && req->tran_vectors[j] &&
+			    tran_name_matches(info->vecs[i]->vecname, req->tran_vectors[j]))
+				w->tran_ix[j] = i;
+	}
+	for (int i = 0; i < info->veccount; i++)
+		if (info->vecs[i] && info->vecs[i]->vecname && strcmp(info->vecs[i]->vecname, "time") == 0)
+			w->tran_time_ix = i;
+	w->tran_live = w->tran_time_ix >= 0;
+}
+
 /* SendInitData: a new plot starts. A noise plot holding "frequency" is a density plot. */
 static int worker_on_init_data(pvecinfoall info, int id, void *user)
 {
@@ -230,6 +289,12 @@ static int worker_on_init_data(pvecinfoall info, int id, void *user)
 	bool density = false;
 
 	w->noise_live = false;
+	w->tran_live = false;
+	if (info && info->type && strncmp(info->type, "tran", 4) == 0 && info->veccount > 0 && w->req &&
+	    w->req->n_tran_vectors > 0) {
+		tran_start(w, info);
+		return 0;
+	}
 	if (!info || !info->type || strncmp(info->type, "noise", 5) != 0 || info->veccount <= 0)
 		return 0;
 	for (int i = 0; i < info->veccount; i++)
@@ -251,12 +316,86 @@ static int worker_on_init_data(pvecinfoall info, int id, void *user)
 	return 0;
 }
 
+static void tran_append(struct sch_worker_ctx *w, const double *row)
+{
+	size_t width = 1 + w->req->n_tran_vectors;
+
+	if ((w->tran_n_rows + 1) * width > w->tran_cap) {
+		size_t cap = w->tran_cap ? 2 * w->tran_cap : 1024 * width;
+		double *grown = realloc(w->tran_rows, cap * sizeof(*grown));
+
+		if (!grown)
+			_exit(4);
+		w->tran_rows = grown;
+		w->tran_cap = cap;
+	}
+	memcpy(w->tran_rows + w->tran_n_rows * width, row, width * sizeof(*row));
+	w->tran_n_rows++;
+}
+
+/* One accepted transient point: kept, or turned into the samples it passes. */
+static void tran_on_data(struct sch_worker_ctx *w, pvecvaluesall vals)
+{
+	const struct sch_sim_request *req = w->req;
+	size_t width = 1 + req->n_tran_vectors;
+	double cur[1 + 64], *row = width <= 65 ? cur : malloc(width * sizeof(*row));
+
+	if (!row)
+		_exit(4);
+	if (w->tran_time_ix >= vals->veccount) {
+		w->tran_live = false;
+		goto out;
+	}
+	row[0] = vals->vecsa[w->tran_time_ix]->creal;
+	for (size_t j = 0; j < req->n_tran_vectors; j++)
+		row[1 + j] = w->tran_ix[j] >= 0 && w->tran_ix[j] < vals->veccount ? vals->vecsa[w->tran_ix[j]]->creal : NAN;
+	if (!(req->tran_sample_step_s > 0)) {
+		tran_append(w, row);
+		goto out;
+	}
+	while (w->tran_next < req->tran_n_samples) {
+		double ts = req->tran_sample_start_s + (double)(w->tran_next + 1) * req->tran_sample_step_s;
+		double sample[1 + 64], *out = width <= 65 ? sample : malloc(width * sizeof(*out));
+		double a = 1.0;
+
+		if (row[0] < ts - 1e-9 * req->tran_sample_step_s) {
+			if (out != sample)
+				free(out);
+			break;
+		}
+		if (!out)
+			_exit(4);
+		if (w->tran_have_prev && row[0] > w->tran_prev[0])
+			a = (ts - w->tran_prev[0]) / (row[0] - w->tran_prev[0]);
+		if (a > 1)
+			a = 1;
+		if (a < 0)
+			a = 0;
+		out[0] = ts;
+		for (size_t j = 1; j < width; j++)
+			out[j] = w->tran_have_prev ? w->tran_prev[j] + a * (row[j] - w->tran_prev[j]) : row[j];
+		tran_append(w, out);
+		if (out != sample)
+			free(out);
+		w->tran_next++;
+	}
+	memcpy(w->tran_prev, row, width * sizeof(*row));
+	w->tran_have_prev = true;
+out:
+	if (row != cur)
+		free(row);
+}
+
 /* SendData: one frequency point of every vector; appended, so copying stays linear. */
 static int worker_on_data(pvecvaluesall vals, int count, int id, void *user)
 {
 	struct sch_worker_ctx *w = user;
 	double *row;
 
+	if (w->tran_live && vals) {
+		tran_on_data(w, vals);
+		return 0;
+	}
 	if (!w->noise_live || !vals)
 		return 0;
 	if ((size_t)vals->veccount != w->n_names) {
@@ -284,6 +423,43 @@ static int worker_on_data(pvecvaluesall vals, int count, int id, void *user)
 	return 0;
 }
 
+/* Sends one column of rows (stride values apart) as a vector record. */
+static void worker_send_column(struct sch_worker_ctx *w, const char *name, const double *rows, size_t n,
+			       size_t stride, size_t col)
+{
+	size_t name_len = strlen(name);
+	double *column;
+
+	if (name_len > 65536 || 12 + name_len + 8 * n >= SCH_SIM_MAX_RECORD)
+		return;
+	column = malloc((n ? n : 1) * sizeof(*column));
+	if (!column)
+		_exit(4);
+	for (size_t k = 0; k < n; k++)
+		column[k] = rows[k * stride + col];
+	worker_header(w, SCH_REC_VEC, 12 + name_len + 8 * n);
+	worker_put_u32(w, w->step);
+	worker_put_u32(w, (uint32_t)name_len);
+	worker_put(w, name, name_len);
+	worker_put_u32(w, (uint32_t)n);
+	worker_put(w, column, n * sizeof(*column));
+	free(column);
+}
+
+/* Sends the collected transient vectors: "time", then each wanted vector the plot had. */
+static void worker_send_tran(struct sch_worker_ctx *w)
+{
+	const struct sch_sim_request *req = w->req;
+	size_t width = 1 + req->n_tran_vectors;
+
+	if (w->tran_time_ix < 0 || !w->tran_ix)
+		return;
+	worker_send_column(w, "time", w->tran_rows, w->tran_n_rows, width, 0);
+	for (size_t j = 0; j < req->n_tran_vectors; j++)
+		if (w->tran_ix[j] >= 0)
+			worker_send_column(w, req->tran_vectors[j], w->tran_rows, w->tran_n_rows, width, 1 + j);
+}
+
 /* Sends the collected density plot to the parent, one record per vector. */
 static void worker_send_vectors(struct sch_worker_ctx *w)
 {
@@ -309,13 +485,32 @@ static void worker_send_vectors(struct sch_worker_ctx *w)
 	free(column);
 }
 
-/* The code model POLY sources need, next to the library we were linked with. */
-static void worker_load_codemodel(void)
+/* A code-model file name we accept: [a-z0-9_] letters ending in ".cm", no directory part. */
+static bool codemodel_name_is_safe(const char *name)
+{
+	size_t n = strlen(name);
+
+	if (n < 4 || n > 64 || strcmp(name + n - 3, ".cm") != 0)
+		return false;
+	for (size_t i = 0; i + 3 < n; i++)
+		if (!((name[i] >= 'a' && name[i] <= 'z') || (name[i] >= '0' && name[i] <= '9') || name[i] == '_'))
+			return false;
+	return true;
+}
+
+/* The code model POLY sources need (or another one by name), next to the library we were linked with. */
+static void worker_load_codemodel_named(const char *file)
 {
 	char path[PATH_MAX + 32];
+	char fallback[PATH_MAX];
 	char cmd[PATH_MAX + 64];
 	const char *chosen = NULL;
+	const char *slash_fb = strrchr(SCH_SIM_FALLBACK_CM, '/');
 	Dl_info info;
+
+	if (!codemodel_name_is_safe(file))
+		return;
+	snprintf(fallback, sizeof(fallback), "%.*s/%s", (int)(slash_fb - SCH_SIM_FALLBACK_CM), SCH_SIM_FALLBACK_CM, file);
 
 	if (dladdr((void *)ngSpice_Init, &info) && info.dli_fname && strlen(info.dli_fname) < PATH_MAX) {
 		char *slash;
@@ -323,17 +518,22 @@ static void worker_load_codemodel(void)
 		snprintf(path, sizeof(path), "%s", info.dli_fname);
 		slash = strrchr(path, '/');
 		if (slash) {
-			snprintf(slash + 1, sizeof(path) - (size_t)(slash + 1 - path), "ngspice/spice2poly.cm");
+			snprintf(slash + 1, sizeof(path) - (size_t)(slash + 1 - path), "ngspice/%s", file);
 			if (access(path, R_OK) == 0 && path_is_command_safe(path))
 				chosen = path;
 		}
 	}
-	if (!chosen && access(SCH_SIM_FALLBACK_CM, R_OK) == 0)
-		chosen = SCH_SIM_FALLBACK_CM;
+	if (!chosen && access(fallback, R_OK) == 0 && path_is_command_safe(fallback))
+		chosen = fallback;
 	if (!chosen)
 		return;
 	snprintf(cmd, sizeof(cmd), "codemodel %s", chosen);
 	ngSpice_Command(cmd);
+}
+
+static void worker_load_codemodel(void)
+{
+	worker_load_codemodel_named("spice2poly.cm");
 }
 
 /* Starts the library with no start-up script able to run (NGSPICE-NOTES.md section 5). */
@@ -450,6 +650,7 @@ static bool worker_run_step(struct sch_worker_ctx *w, const struct sch_sim_reque
 	w->step = (uint32_t)s;
 	w->phase = SCH_PHASE_STEP;
 	noise_clear(w);
+	tran_clear(w);
 	for (size_t c = 0; c < st->n_commands; c++)
 		if (!worker_command(w, st->commands[c]))
 			return false;
@@ -466,6 +667,9 @@ static bool worker_run_step(struct sch_worker_ctx *w, const struct sch_sim_reque
 			flags |= SCH_STEP_NO_NOISE_PLOT;
 	}
 	noise_clear(w);
+	if (req->n_tran_vectors > 0)
+		worker_send_tran(w);
+	tran_clear(w);
 	if (w->gave_up)
 		return false;
 	worker_header(w, SCH_REC_STEP_DONE, 5);
@@ -479,7 +683,7 @@ static bool worker_run_step(struct sch_worker_ctx *w, const struct sch_sim_reque
 static void worker_main(const struct sch_sim_request *req, char **deck, size_t first, size_t end, int fd)
 {
 	struct sch_worker_ctx w = { .fd = fd, .cap = 1 << 16, .phase = SCH_PHASE_INIT,
-				    .step = SCH_STEP_NONE };
+				    .step = SCH_STEP_NONE, .req = req, .tran_time_ix = -1 };
 	int devnull = open("/dev/null", O_RDWR);
 	int rc;
 
@@ -496,6 +700,9 @@ static void worker_main(const struct sch_sim_request *req, char **deck, size_t f
 	if (!worker_init_library(&w))
 		goto done;
 	worker_load_codemodel();
+	for (size_t k = 0; k < req->n_code_models; k++)
+		if (req->code_models[k])
+			worker_load_codemodel_named(req->code_models[k]);
 	if (req->squared_noise)
 		worker_command(&w, "set sqrnoise");
 	if (w.gave_up)

@@ -27,6 +27,22 @@ struct sch_sim_request {
 	bool collect_noise;            /* after each step, copy every vector of the newest noise density plot */
 	bool squared_noise;            /* "set sqrnoise": densities in V^2/Hz (or A^2/Hz) */
 	int n_workers;                 /* worker processes sharing the steps (<= 1: one) */
+	/*
+	 * Transient vectors collected from the simulator's data stream during each step (the library
+	 * itself keeps none under "save none"): names as the simulator's transient plot calls them
+	 * ("out", "x1.k"; "v(out)" is read as "out"). Each step's outcome then holds "time" and one
+	 * vector per name found, under the name as given. With tran_sample_step_s > 0 only
+	 * tran_n_samples values are kept, linearly interpolated at tran_sample_start_s + (k+1) *
+	 * tran_sample_step_s, so memory does not grow with the number of time points.
+	 */
+	const char *const *tran_vectors;
+	size_t n_tran_vectors;
+	double tran_sample_start_s;
+	double tran_sample_step_s;
+	size_t tran_n_samples;
+	/* Extra code-model libraries by file name ("analog.cm"), loaded from the simulator's own directory. */
+	const char *const *code_models;
+	size_t n_code_models;
 };
 
 struct sch_sim_vector {
