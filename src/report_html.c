@@ -26,10 +26,11 @@ static const char page_style[] =
 	"h1{font-size:1.5em;margin:0 0 .2em}h2{font-size:1.15em;margin:1.8em 0 .5em;"
 	"border-bottom:1px solid #ddd;padding-bottom:.2em}"
 	".sub{color:#555;margin:0 0 1.2em}"
-	".figures{display:grid;grid-template-columns:repeat(auto-fill,minmax(13em,1fr));gap:.8em}"
+	".figures{display:grid;grid-template-columns:repeat(auto-fit,minmax(11.5em,1fr));gap:.8em}"
 	".fig{border:1px solid #d8d8d8;border-radius:6px;padding:.6em .9em}"
-	".fig b{display:block;font-size:1.35em;font-variant-numeric:tabular-nums}"
+	".fig b{display:block;font-size:1.35em;font-variant-numeric:tabular-nums;white-space:nowrap}"
 	".fig span{color:#555;font-size:.85em}"
+	".verdict{margin:1em 0 0;padding:.55em .9em;background:#f3f7fa;border-left:4px solid #0072b2}"
 	"table{border-collapse:collapse;font-variant-numeric:tabular-nums;font-size:14px}"
 	"th,td{padding:.25em .55em;border-bottom:1px solid #eee;text-align:left;vertical-align:top}"
 	"th{background:#f4f4f4;font-weight:600}td.n,th.n{text-align:right;white-space:nowrap}"
@@ -146,9 +147,10 @@ static void figure(struct page *b, const char *value, const char *what)
 	elem(b, "<span>", what, "</span></div>\n");
 }
 
+/* At most six figures: the totals, NEP and SNR, the first spot (the spot table has the rest), the shot share. */
 static void headline(struct page *b, const struct sch_result *r)
 {
-	char v[96], u[32], x[48], y[160];
+	char v[96], u[32], x[48], q[64], y[160];
 	const char *unit = r->input_unit ? r->input_unit : "";
 
 	snprintf(u, sizeof(u), "%s/√Hz", unit);
@@ -157,21 +159,21 @@ static void headline(struct page *b, const struct sch_result *r)
 	figure(b, v, "output noise in the band");
 	snprintf(v, sizeof(v), "%s rms", si(x, sizeof(x), r->input_rms, unit));
 	figure(b, v, "input-referred noise");
+	if (!isnan(r->nep_band_w_per_rthz)) {
+		snprintf(y, sizeof(y), "band-average NEP at %.4g A/W", r->responsivity_a_per_w);
+		figure(b, si(v, sizeof(v), r->nep_band_w_per_rthz, "W/√Hz"), y);
+	}
 	if (!isnan(r->signal)) {
 		snprintf(v, sizeof(v), "%.1f dB", sch_report_db(r->snr));
-		char q[64];
 		snprintf(y, sizeof(y), "SNR %s for %s", ratio(q, sizeof(q), r->snr), si(x, sizeof(x), r->signal, unit));
 		figure(b, v, y);
 	}
-	for (size_t i = 0; i < r->n_spots && i < 3; i++) {
-		const struct sch_spot *s = &r->spots[i];
-		char what[96];
-		snprintf(what, sizeof(what), "input-referred at %s", si(x, sizeof(x), s->freq_hz, "Hz"));
-		figure(b, si(v, sizeof(v), s->input_per_rthz, u), what);
-		if (!isnan(s->nep_w_per_rthz)) {
-			snprintf(what, sizeof(what), "NEP at %s", si(x, sizeof(x), s->freq_hz, "Hz"));
-			figure(b, si(v, sizeof(v), s->nep_w_per_rthz, "W/√Hz"), what);
-		}
+	if (r->n_spots > 0) {
+		const struct sch_spot *s = &r->spots[0];
+		int n = snprintf(y, sizeof(y), "input-referred at %s", si(x, sizeof(x), s->freq_hz, "Hz"));
+		if (!isnan(s->nep_w_per_rthz) && n > 0 && (size_t)n < sizeof(y))
+			snprintf(y + n, sizeof(y) - (size_t)n, "; NEP %s", si(q, sizeof(q), s->nep_w_per_rthz, "W/√Hz"));
+		figure(b, si(v, sizeof(v), s->input_per_rthz, u), y);
 	}
 	if (r->total_power_v2 > 0 && r->set.n_carriers > 0) {
 		snprintf(v, sizeof(v), "%.1f %%", 100.0 * r->carrier_power_v2 / r->total_power_v2);
@@ -343,7 +345,7 @@ static void assumptions(struct page *b, const struct sch_result *r)
 
 static enum sch_err build_page(struct page *b, const struct sch_result *r)
 {
-	char x[48], y[48], line[256];
+	char x[48], y[48], line[512];
 
 	adds(b, "<!DOCTYPE html>\n<html lang=\"en\">\n<head>\n<meta charset=\"utf-8\">\n");
 	elem(b, "<title>schrot noise report: ", r->netlist, "</title>\n");
@@ -357,6 +359,7 @@ static enum sch_err build_page(struct page *b, const struct sch_result *r)
 			 si(y, sizeof(y), r->band_hi_hz, "Hz"), r->temp_k, r->temp_k - SCH_ZERO_C_K);
 		elem(b, "<p class=\"sub\">", line, "</p>\n");
 		headline(b, r);
+		elem(b, "<p class=\"verdict\"><b>Verdict:</b> ", sch_report_verdict(r, line, sizeof(line)), "</p>\n");
 		spot_table(b, r);
 		contribution_table(b, r);
 		plot(b, r);

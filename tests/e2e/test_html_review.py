@@ -65,7 +65,7 @@ class Page(HTMLParser):
 
     def __init__(self):
         super().__init__()
-        self.stack, self.figures, self.rows, self.items = [], [], [], []
+        self.stack, self.figures, self.rows, self.items, self.paragraphs = [], [], [], [], []
         self.svg_in_figure, self.svg_paths, self.h2 = False, 0, []
         self._text = None
 
@@ -75,7 +75,7 @@ class Page(HTMLParser):
             self.svg_in_figure = True
         if tag in ("path", "use") and any(t == "svg" for t, _ in self.stack):
             self.svg_paths += 1
-        if tag in ("tr", "li", "h2") or (tag == "div" and cls == "fig"):
+        if tag in ("tr", "li", "h2", "p") or (tag == "div" and cls == "fig"):
             self._text = [tag if tag != "div" else "fig", []]
         self.stack.append((tag, cls))
 
@@ -90,7 +90,7 @@ class Page(HTMLParser):
             if kind == "tr":
                 self.rows.append((self.h2[-1] if self.h2 else "", text))
             else:
-                {"li": self.items, "h2": self.h2, "fig": self.figures}[kind].append(text)
+                {"li": self.items, "h2": self.h2, "fig": self.figures, "p": self.paragraphs}[kind].append(text)
             self._text = None
 
     def handle_data(self, data):
@@ -131,16 +131,25 @@ page.feed(dom)
 true("[H] five headline figures", len(page.figures) == 5, repr(page.figures))
 out = [f for f in page.figures if f.endswith("output noise in the band")]
 inp = [f for f in page.figures if f.endswith("input-referred noise")]
-nep = [f for f in page.figures if "NEP at 100 Hz" in f]
+spot = [f for f in page.figures if "input-referred at 100 Hz; NEP " in f]
+band_nep = [f for f in page.figures if "band-average NEP at 0.45 A/W" in f]
 shr = [f for f in page.figures if f.endswith("share of added shot noise")]
-true("[H] headline: output noise, input-referred noise, NEP at 100 Hz, added shot share",
-     len(out) == len(inp) == len(nep) == len(shr) == 1, repr(page.figures))
-if out and inp and nep and shr:
+true("[H] headline: output noise, input-referred noise, NEP over the band, the 100 Hz spot, added shot share",
+     len(out) == len(inp) == len(spot) == len(band_nep) == len(shr) == 1, repr(page.figures))
+if out and inp and spot and band_nep and shr:
     close("[H] headline output noise equals the JSON total", si_value(out[0]), data["total"]["output_rms_v"], 5e-3)
     close("[H] headline input-referred noise equals the JSON total", si_value(inp[0]), data["total"]["input_rms"], 5e-3)
-    close("[H] headline NEP equals the JSON spot NEP", si_value(nep[0]), data["spot"][0]["nep_w_per_rthz"], 5e-3)
+    close("[H] headline spot density equals the JSON spot", si_value(spot[0]), data["spot"][0]["input_per_rthz"], 5e-3)
+    close("[H] headline spot NEP equals the JSON spot NEP", si_value(spot[0].split("; NEP ")[1]),
+          data["spot"][0]["nep_w_per_rthz"], 5e-3)
+    close("[H] headline band NEP equals the JSON band NEP", si_value(band_nep[0]), data["total"]["nep_band_w_per_rthz"],
+          5e-3)
     close("[H] headline shot share equals the JSON share", float(shr[0].split()[0]) / 100,
           data["total"]["carrier_shot_share"], 1e-3)
+
+verdict = [p for p in page.paragraphs if p.startswith("Verdict:")]
+true("[H] the verdict sentence is the JSON's", len(verdict) == 1 and verdict[0] == "Verdict: " + data["verdict"]["text"],
+     repr(verdict))
 
 # the ranked contribution rows, in the JSON's order
 ranked = [r for h, r in page.rows if h.startswith("Contributions") and r.split(" ", 1)[0].isdigit()]
