@@ -32,6 +32,8 @@ struct line_list {
 	const char **v;
 	size_t n, cap;
 	struct sch_arena *arena;
+	int *card;      /* deck card of each line, -1 for generated ones */
+	int cur_card;   /* what push records */
 };
 
 static enum sch_err push(struct line_list *l, const char *s)
@@ -41,13 +43,18 @@ static enum sch_err push(struct line_list *l, const char *s)
 	if (l->n == l->cap) {
 		size_t cap = l->cap ? l->cap * 2 : 256;
 		const char **v = sch_arena_alloc(l->arena, cap * sizeof(*v));
-		if (!v)
+		int *card = sch_arena_alloc(l->arena, cap * sizeof(*card));
+		if (!v || !card)
 			return SCH_ERR_NOMEM;
-		if (l->n)
+		if (l->n) {
 			memcpy(v, l->v, l->n * sizeof(*v));
+			memcpy(card, l->card, l->n * sizeof(*card));
+		}
 		l->v = v;
+		l->card = card;
 		l->cap = cap;
 	}
+	l->card[l->n] = l->cur_card;
 	l->v[l->n++] = s;
 	return SCH_OK;
 }
@@ -95,7 +102,7 @@ enum sch_err sch_augment_build(const struct sch_deck *deck, const struct sch_car
 			       const struct sch_augment_options *opt, struct sch_arena *arena,
 			       struct sch_augmented *aug, struct sch_diag *d)
 {
-	struct line_list l = { NULL, 0, 0, arena };
+	struct line_list l = { NULL, 0, 0, arena, NULL, -1 };
 	enum sch_err ret = SCH_ERR_NOMEM;
 
 	memset(aug, 0, sizeof(*aug));
@@ -151,7 +158,10 @@ enum sch_err sch_augment_build(const struct sch_deck *deck, const struct sch_car
 		    strcmp(deck->elements[card->element].name, opt->ac_source) == 0 &&
 		    !has_ac_value(&deck->elements[card->element]))
 			text = sch_arena_printf(arena, "%s ac 1", text);
-		if ((ret = push(&l, text)) != SCH_OK)
+		l.cur_card = (int)c;
+		ret = push(&l, text);
+		l.cur_card = -1;
+		if (ret != SCH_OK)
 			goto out;
 		if (card->keyword && strcmp(card->keyword, ".subckt") == 0) {
 			for (size_t s = 0; s < deck->n_subckts; s++) {
@@ -167,6 +177,7 @@ enum sch_err sch_augment_build(const struct sch_deck *deck, const struct sch_car
 	    (ret = push(&l, "rschtemp nschtemp 0 1 noisy=0")) != SCH_OK || (ret = push(&l, ".end")) != SCH_OK)
 		goto out;
 	aug->lines = l.v;
+	aug->line_card = l.card;
 	aug->n_lines = l.n;
 	aug->temp_quantity = "@rschtemp[temp]";
 	ret = SCH_OK;

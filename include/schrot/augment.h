@@ -35,6 +35,7 @@ struct sch_augment_options {
 
 struct sch_augmented {
 	const char **lines;            /* lines[0] is a title, the last is ".end" */
+	const int *line_card;          /* n_lines entries: the deck card each line is, -1 for generated lines */
 	size_t n_lines;
 	struct sch_probe *probes;
 	size_t n_probes;
