@@ -65,11 +65,13 @@ static void widen(double v, double *lo, double *hi)
 		*hi = v;
 }
 
-/* log10 of v raised (lowered) to the next half decade, leaving 5 % of a decade of margin. */
+/* log10 of v raised to the next half decade, leaving a tenth of a decade for the total's wide stroke. */
 static double half_decade_above(double v)
 {
-	return ceil(2 * (log10(v) + 0.05)) / 2;
+	return ceil(2 * (log10(v) + 0.1)) / 2;
 }
+
+/* log10 of v lowered to the next half decade, leaving 5 % of a decade. */
 
 static double half_decade_below(double v)
 {
