@@ -734,6 +734,65 @@ out:
 	return ret;
 }
 
+/* Whether node is a node of some top-level element; true as well when that cannot be told. */
+static bool top_node_exists(const struct sch_deck_load *ld, const char *node, size_t len)
+{
+	struct sch_deck view = *ld->deck;
+
+	if ((len == 1 && node[0] == '0') || (len == 3 && strncmp(node, "gnd", 3) == 0) || memchr(node, '.', len))
+		return true; /* ground, or a subcircuit's internal node "x1.n" */
+	view.models = ld->models;
+	view.n_models = ld->n_models;
+	for (size_t i = 0; i < ld->n_elements; i++) {
+		const struct sch_element *e = &ld->elements[i];
+		const char *const *nodes;
+		int n;
+
+		if (e->subckt >= 0)
+			continue;
+		n = sch_deck_element_nodes(&view, e, &nodes);
+		if (n == 0 && e->letter != 'k')
+			return true; /* an element whose nodes the reader does not know */
+		for (int k = 0; k < n; k++)
+			if (strlen(nodes[k]) == len && strncmp(nodes[k], node, len) == 0)
+				return true;
+	}
+	return false;
+}
+
+/*
+ * The simulator answers a .noise output at a node no element touches with zero noise, a
+ * report that looks fine; the reader says so instead.
+ */
+static enum sch_err check_noise_nodes(struct sch_deck_load *ld)
+{
+	const struct sch_noise_spec *ns = &ld->deck->noise;
+	const struct sch_card *c;
+	const char *p, *end;
+
+	if (!ns->present || strncmp(ns->output, "v(", 2) != 0)
+		return SCH_OK;
+	c = &ld->cards[ns->card];
+	p = ns->output + 2;
+	end = strchr(p, ')');
+	if (!end || end[1])
+		return SCH_OK; /* not v(node) or v(node,ref): the analysis says what is wrong */
+	while (p < end) {
+		size_t len = strcspn(p, ",)");
+
+		if (len && !top_node_exists(ld, p, len)) {
+			char name[SCH_DECK_QUOTE_MAX + 4], q[SCH_DECK_QUOTE_MAX + 8];
+
+			snprintf(name, sizeof(name), "%.*s", (int)len, p);
+			return sch_diag_error(ld->d, SCH_ERR_INPUT, c->file, c->line,
+					      "'.noise' output node%s is not a node of any element at the top level",
+					      sch_deck_quote(ld->deck, c->file, name, "", q, sizeof(q)));
+		}
+		p += len + (p[len] == ',');
+	}
+	return SCH_OK;
+}
+
 static enum sch_err move_to_arena(struct sch_arena *a, void **dst, const void *src, size_t n, size_t size)
 {
 	*dst = NULL;
@@ -766,6 +825,8 @@ enum sch_err sch_deck_load_finish(struct sch_deck_load *ld)
 		return sch_diag_error(ld->d, SCH_ERR_INPUT, c->file, c->line, "'.subckt%s' has no matching '.ends'", q);
 	}
 	ret = check_names(ld);
+	if (ret == SCH_OK)
+		ret = check_noise_nodes(ld);
 	if (ret != SCH_OK)
 		return ret;
 	deck->cards = ld->n_cards ? ld->cards : NULL;

@@ -254,7 +254,7 @@ static void test_deck__fills_noise_temp_and_options(void)
 	struct sch_deck deck;
 
 	CHECK(load_text(&deck, "noise\n"
-				"iph 0 in dc 1n ac 1\nrf in 0 1meg\n"
+				"iph 0 in dc 1n ac 1\nrf in out 1meg\n"
 				".temp 27\n.options reltol=1e-4\n"
 				".NOISE V( out , 0 ) IPH dec 20 1 1MEG 5\n") == SCH_OK);
 	CHECK(deck.noise.present);
@@ -996,6 +996,26 @@ static void test_deck__include_of_a_fifo_fails_at_once(void)
 	rmdir(dir);
 }
 
+static void test_deck__rejects_noise_output_at_a_node_nothing_touches(void)
+{
+	struct sch_deck deck;
+
+	expect_error("t\niph 0 a dc 1n\nr1 a 0 1k\n.noise v(nonode) iph dec 10 1 1k\n",
+		     INLINE_NAME ":4: '.noise' output node 'nonode' is not a node of any element at the top level");
+	expect_error("t\niph 0 a dc 1n\nr1 a 0 1k\n.noise v(a,ref) iph dec 10 1 1k\n",
+		     INLINE_NAME ":4: '.noise' output node 'ref' is not a node of any element at the top level");
+	/* ground, subcircuit nodes, subcircuit ports and nodes of devices the reader cannot read pass */
+	CHECK(load_text(&deck, "t\n.subckt s p\nr1 p q 1k\n.ends\niph 0 a dc 1n\nx1 a s\n"
+			       ".noise v(x1.q,0) iph dec 10 1 1k\n") == SCH_OK);
+	sch_deck_release(&deck);
+	CHECK(load_text(&deck, "t\niph 0 a dc 1n\nx1 a b s\n.subckt s p r\nr1 p r 1k\n.ends\n"
+			       ".noise v(b,gnd) iph dec 10 1 1k\n") == SCH_OK);
+	sch_deck_release(&deck);
+	CHECK(load_text(&deck, "t\niph 0 a dc 1n\nr1 a 0 1k\na1 [a] [o] amod\n.model amod gain\n"
+			       ".noise v(o) iph dec 10 1 1k\n") == SCH_OK);
+	sch_deck_release(&deck);
+}
+
 static void test_deck__quotes_are_short_and_never_from_included_files(void)
 {
 	static char text[4096];
@@ -1046,4 +1066,5 @@ CHECK_MAIN(CASE(test_deck__joins_plus_continuation_lines), CASE(test_deck__drops
 	   CASE(test_deck__rejects_control_characters_in_card_text),
 	   CASE(test_deck__keeps_crlf_tabs_and_control_bytes_in_comments),
 	   CASE(test_deck__include_of_a_fifo_fails_at_once),
+	   CASE(test_deck__rejects_noise_output_at_a_node_nothing_touches),
 	   CASE(test_deck__quotes_are_short_and_never_from_included_files))
