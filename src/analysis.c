@@ -1048,6 +1048,8 @@ static enum sch_err analysis_core(const char *path, const struct sch_run_options
 	req.collect_noise = opt->mode == SCH_RUN_REPORT;
 	req.squared_noise = true;
 	req.n_workers = vary ? opt->n_workers : 1;
+	if (vary && opt->progress)
+		opt->progress(opt->progress_ctx, 0, n_steps);
 	if ((ret = sch_sim_run(&req, &sim, d)) != SCH_OK)
 		goto out;
 	res->sim_version = sch_arena_strdup(a, sim.version ? sim.version : "ngspice");
@@ -1094,6 +1096,8 @@ static enum sch_err analysis_core(const char *path, const struct sch_run_options
 			p->input_rms = res->input_rms;
 			p->carrier_power_v2 = res->carrier_power_v2;
 			p->other_power_v2 = res->total_power_v2 - res->carrier_power_v2;
+			if (opt->progress)
+				opt->progress(opt->progress_ctx, k + 1, n_steps);
 		}
 	}
 	if (vary) {
