@@ -1,5 +1,6 @@
 /* SPDX-License-Identifier: BSD-3-Clause */
 /* cli.c - parsing of the options shared by every command (DESIGN.md section 4). */
+#include <errno.h>
 #include <math.h>
 #include <stdio.h>
 #include <stdlib.h>
@@ -58,7 +59,8 @@ static bool takes_value(const char *name)
 	static const char *const names[] = { "--json", "--csv", "--spectrum", "--plot", "--html", "--depfile", "-o",
 					     "--out", "--band", "--freq", "--spot", "--carrier", "--ignore", "--avalanche",
 					     "--fano", "--responsivity", "--signal", "--budget", "--output", "--input",
-					     "--top", "--vary", "--jobs" };
+					     "--top", "--vary", "--jobs", "--window", "--duration", "--windows", "--seed",
+					     "--step", "--settle" };
 	for (size_t k = 0; k < sizeof(names) / sizeof(names[0]); k++) {
 		if (strcmp(name, names[k]) == 0)
 			return true;
@@ -74,6 +76,9 @@ enum sch_err sch_cli_parse(struct sch_cli *cli, int argc, char **argv, struct sc
 	sch_run_options_init(&cli->run);
 	cli->budget_v = NAN;
 	cli->top_n = 8;
+	cli->window_s = NAN;
+	cli->duration_s = NAN;
+	cli->step_s = NAN;
 	cli->command = argv[0];
 	cli->run.spots_hz = cli->spots;
 	cli->run.carriers.avalanche = cli->avalanche;
@@ -220,6 +225,29 @@ enum sch_err sch_cli_parse(struct sch_cli *cli, int argc, char **argv, struct sc
 			if (parse_number(val, &v) != SCH_OK || v < 1 || v > 64 || v != floor(v))
 				return usage(d, "--jobs needs a whole number 1..64, not '%s'", val);
 			cli->run.n_workers = (int)v;
+		} else if (strcmp(name, "--window") == 0) {
+			if (parse_number(val, &cli->window_s) != SCH_OK || !(cli->window_s > 0) || !isfinite(cli->window_s))
+				return usage(d, "--window needs a positive time in seconds, not '%s'", val);
+		} else if (strcmp(name, "--duration") == 0) {
+			if (parse_number(val, &cli->duration_s) != SCH_OK || !(cli->duration_s > 0) || !isfinite(cli->duration_s))
+				return usage(d, "--duration needs a positive time in seconds, not '%s'", val);
+		} else if (strcmp(name, "--windows") == 0) {
+			if (parse_number(val, &cli->n_windows) != SCH_OK || cli->n_windows < 2 || cli->n_windows > 1e7 ||
+			    cli->n_windows != floor(cli->n_windows))
+				return usage(d, "--windows needs a whole number 2..10000000, not '%s'", val);
+		} else if (strcmp(name, "--step") == 0) {
+			if (parse_number(val, &cli->step_s) != SCH_OK || !(cli->step_s > 0) || !isfinite(cli->step_s))
+				return usage(d, "--step needs a positive time in seconds, not '%s'", val);
+		} else if (strcmp(name, "--settle") == 0) {
+			if (parse_number(val, &cli->settle_s) != SCH_OK || !(cli->settle_s >= 0) || !isfinite(cli->settle_s))
+				return usage(d, "--settle needs a time in seconds that is not negative, not '%s'", val);
+		} else if (strcmp(name, "--seed") == 0) {
+			char *end = NULL;
+			errno = 0;
+			cli->seed = strtoull(val, &end, 10);
+			if (!val[0] || val[0] == '-' || !end || *end || errno)
+				return usage(d, "--seed needs a whole number 0..18446744073709551615, not '%s'", val);
+			cli->seed_given = true;
 		} else {
 			return usage(d, "unknown option '%s'", arg);
 		}

@@ -15,6 +15,7 @@ static const struct cmd_entry commands[] = {
 	{ "carriers", cmd_carriers },
 	{ "sweep", cmd_sweep },
 	{ "augment", cmd_augment },
+	{ "arrivals", cmd_arrivals },
 };
 
 int main(int argc, char **argv)

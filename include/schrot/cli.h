@@ -22,6 +22,14 @@ struct sch_cli {
 	struct sch_gain_rule avalanche[SCH_MAX_RULES];
 	struct sch_gain_rule fano[SCH_MAX_RULES];
 	const char *vary;              /* sweep: NAME=START:STOP:N[:lin] */
+	/* arrivals */
+	double window_s;               /* --window; NaN: not given */
+	double duration_s;             /* --duration; NaN: not given */
+	double n_windows;              /* --windows; 0: not given */
+	double step_s;                 /* --step; NaN: not given */
+	double settle_s;               /* --settle; 0 unless given */
+	unsigned long long seed;       /* --seed */
+	bool seed_given;
 	bool help;
 };
 
