@@ -778,6 +778,11 @@ static enum sch_err integrate(struct sch_result *res, const struct sch_run_optio
 	double total = 0, *input_psd;
 	size_t keep = 0;
 
+	/* the simulator's own frequency points carry rounding (99999.99999999904): report the range asked for */
+	if (fabs(lo - res->run_lo_hz) <= 1e-9 * res->run_lo_hz)
+		lo = res->run_lo_hz;
+	if (fabs(hi - res->run_hi_hz) <= 1e-9 * res->run_hi_hz)
+		hi = res->run_hi_hz;
 	res->band_lo_hz = isnan(opt->band_lo_hz) ? lo : opt->band_lo_hz;
 	res->band_hi_hz = isnan(opt->band_hi_hz) ? hi : opt->band_hi_hz;
 	if (res->band_lo_hz < lo * (1 - 1e-9) || res->band_hi_hz > hi * (1 + 1e-9))
@@ -990,6 +995,8 @@ static enum sch_err analysis_core(const char *path, const struct sch_run_options
 		res->output = plan.output;
 		res->input = plan.input;
 		res->input_unit = plan.letter == 'i' ? "A" : "V";
+		res->run_lo_hz = plan.f_start;
+		res->run_hi_hz = plan.f_stop;
 		if (plan.needs_ac) {
 			aopt.ac_source = plan.input;
 			if ((ret = add_notes(res, &notes, sch_arena_printf(a, "input source '%s' has no AC value: AC 1 supplied "

@@ -88,6 +88,7 @@ struct sch_result {
 	const char *input;              /* "iph" */
 	const char *input_unit;         /* "A" for a current source, "V" for a voltage source */
 	double band_lo_hz, band_hi_hz;
+	double run_lo_hz, run_hi_hz;    /* the noise run's requested frequency range */
 	size_t n_freq;
 	double *freq_hz;
 	double *total_psd;              /* V^2/Hz: sum of every contribution's psd */
