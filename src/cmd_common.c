@@ -51,9 +51,12 @@ enum sch_err sch_cmd_write_outputs(const struct sch_cli *cli, const struct sch_r
 			return ret;
 		if (cli->plot_path && (ret = sch_report_plot(res, cli->plot_path, d)) != SCH_OK)
 			return ret;
-		if (cli->html_path && (ret = sch_report_html(res, cli->html_path, d)) != SCH_OK)
-			return ret;
+	} else if (cli->csv_path || cli->spectrum_path || cli->plot_path) {
+		return sch_diag_error(d, SCH_ERR_USAGE, NULL, 0, "--csv, --spectrum and --plot need a noise run (schrot report)");
 	}
+	/* the review page also serves an operating-point run: carriers, currents, assumptions */
+	if (cli->html_path && (ret = sch_report_html(res, cli->html_path, d)) != SCH_OK)
+		return ret;
 	if (cli->depfile_path) {
 		const char *outs[] = { cli->json_path, cli->csv_path, cli->spectrum_path, cli->plot_path, cli->html_path,
 				       cli->out_path };
