@@ -793,6 +793,101 @@ static enum sch_err check_noise_nodes(struct sch_deck_load *ld)
 	return SCH_OK;
 }
 
+/* ---- DC paths ------------------------------------------------------------------------------ */
+
+static bool is_ground(const char *node)
+{
+	return strcmp(node, "0") == 0 || strcmp(node, "gnd") == 0;
+}
+
+/* Whether node is a port of definition scope (ports reach outside, where the path may be). */
+static bool is_port(const struct sch_deck_load *ld, int scope, const char *node)
+{
+	if (scope < 0)
+		return false;
+	for (int k = 0; k < ld->subckts[scope].n_ports; k++)
+		if (strcmp(ld->subckts[scope].ports[k], node) == 0)
+			return true;
+	return false;
+}
+
+/*
+ * Whether a node of definition scope has a DC path: ground, a port (the path may be outside), an
+ * expression, or touched by anything but capacitors and current sources. Without one the
+ * simulator settles the node through GMIN at a voltage that means nothing (a nanoampere into
+ * 1e-12 S is a kilovolt) and reports success. ix maps node names to the elements touching them.
+ */
+static bool has_dc_path(const struct sch_deck_load *ld, const struct sch_names *ix, int scope, const char *node)
+{
+	size_t len = strlen(node);
+
+	if (is_ground(node) || is_port(ld, scope, node) || strpbrk(node, "{}=(."))
+		return true;
+	for (int j = sch_names_next(ix, node, len, -1); j >= 0; j = sch_names_next(ix, node, len, j)) {
+		const struct sch_element *e = &ld->elements[ix->e[j].value];
+
+		if (e->subckt == scope && e->letter != 'c' && e->letter != 'i')
+			return true;
+	}
+	return false;
+}
+
+static enum sch_err check_dc_paths(struct sch_deck_load *ld)
+{
+	struct sch_deck view = *ld->deck;
+	struct sch_names ix;
+	enum sch_err ret = SCH_ERR_NOMEM;
+	bool *unknown = calloc(ld->n_subckts + 1, sizeof(*unknown)); /* scope s at [s + 1] */
+
+	memset(&ix, 0, sizeof(ix));
+	view.models = ld->models;
+	view.n_models = ld->n_models;
+	if (!unknown || sch_names_init(&ix, 2 * ld->n_elements) != SCH_OK)
+		goto out;
+	for (size_t c = 0; c < ld->n_cards; c++) {
+		if (ld->cards[c].keyword && strcmp(ld->cards[c].keyword, ".global") == 0) {
+			ret = SCH_OK; /* a global node may be driven from anywhere */
+			goto out;
+		}
+	}
+	for (size_t i = 0; i < ld->n_elements; i++) {
+		const struct sch_element *e = &ld->elements[i];
+		const char *const *nodes;
+		int n = sch_deck_element_nodes(&view, e, &nodes);
+
+		if (n == 0 && e->letter != 'k')
+			unknown[e->subckt + 1] = true;
+		for (int k = 0; k < n; k++)
+			if (!is_ground(nodes[k]) && sch_names_add(&ix, nodes[k], strlen(nodes[k]), (int)i) != SCH_OK)
+				goto out;
+	}
+	for (size_t i = 0; i < ld->n_elements; i++) {
+		const struct sch_element *e = &ld->elements[i];
+		const struct sch_card *c = &ld->cards[e->card];
+		const char *node = NULL;
+		char q[SCH_DECK_QUOTE_MAX + 8], qn[SCH_DECK_QUOTE_MAX + 8];
+
+		if (e->letter != 'i' || e->n_tok < 2 || unknown[e->subckt + 1])
+			continue;
+		for (int k = 0; k < 2 && !node; k++)
+			if (!has_dc_path(ld, &ix, e->subckt, e->tok[k]))
+				node = e->tok[k];
+		if (node) {
+			ret = sch_diag_error(ld->d, SCH_ERR_INPUT, c->file, c->line,
+					     "current source%s drives node%s, which only capacitors and current sources "
+					     "touch: it has no DC path",
+					     sch_deck_quote(ld->deck, c->file, e->name, "", q, sizeof(q)),
+					     sch_deck_quote(ld->deck, c->file, node, "", qn, sizeof(qn)));
+			goto out;
+		}
+	}
+	ret = SCH_OK;
+out:
+	sch_names_release(&ix);
+	free(unknown);
+	return ret;
+}
+
 static enum sch_err move_to_arena(struct sch_arena *a, void **dst, const void *src, size_t n, size_t size)
 {
 	*dst = NULL;
@@ -827,6 +922,8 @@ enum sch_err sch_deck_load_finish(struct sch_deck_load *ld)
 	ret = check_names(ld);
 	if (ret == SCH_OK)
 		ret = check_noise_nodes(ld);
+	if (ret == SCH_OK)
+		ret = check_dc_paths(ld);
 	if (ret != SCH_OK)
 		return ret;
 	deck->cards = ld->n_cards ? ld->cards : NULL;

@@ -1016,6 +1016,30 @@ static void test_deck__rejects_noise_output_at_a_node_nothing_touches(void)
 	sch_deck_release(&deck);
 }
 
+static void test_deck__rejects_current_source_without_dc_path(void)
+{
+	struct sch_deck deck;
+
+	expect_error("t\niph 0 a dc 1n\nc1 a 0 1p\n", INLINE_NAME ":2: current source 'iph' drives node 'a', which only "
+						      "capacitors and current sources touch: it has no DC path");
+	expect_error("t\n.subckt s p\nib q p dc 1u\nc1 q 0 1p\n.ends\nx1 a s\nr1 a 0 1k\n",
+		     INLINE_NAME ":3: current source 'ib' drives node 'q', which only capacitors and current sources "
+				 "touch: it has no DC path");
+	/* a resistor, a diode, a port, a hierarchical node or a device the reader cannot read is a path */
+	CHECK(load_text(&deck, "t\niph 0 a dc 1n\nc1 a 0 1p\nr1 a 0 1g\n") == SCH_OK);
+	sch_deck_release(&deck);
+	CHECK(load_text(&deck, "t\niph 0 a dc 1n\nd1 a 0 dm\n.model dm d\n") == SCH_OK);
+	sch_deck_release(&deck);
+	CHECK(load_text(&deck, "t\n.subckt s p\nib 0 p dc 1u\n.ends\nx1 a s\nr1 a 0 1k\n") == SCH_OK);
+	sch_deck_release(&deck);
+	CHECK(load_text(&deck, "t\n.subckt s p\nr1 p 0 1k\n.ends\nx1 a s\niinj 0 x1.p dc 1n\n") == SCH_OK);
+	sch_deck_release(&deck);
+	CHECK(load_text(&deck, "t\niph 0 a dc 1n\na1 [a] [o] amod\n.model amod gain\n") == SCH_OK);
+	sch_deck_release(&deck);
+	CHECK(load_text(&deck, "t\n.global vdd\niph 0 vdd dc 1n\n") == SCH_OK);
+	sch_deck_release(&deck);
+}
+
 static void test_deck__quotes_are_short_and_never_from_included_files(void)
 {
 	static char text[4096];
@@ -1067,4 +1091,5 @@ CHECK_MAIN(CASE(test_deck__joins_plus_continuation_lines), CASE(test_deck__drops
 	   CASE(test_deck__keeps_crlf_tabs_and_control_bytes_in_comments),
 	   CASE(test_deck__include_of_a_fifo_fails_at_once),
 	   CASE(test_deck__rejects_noise_output_at_a_node_nothing_touches),
+	   CASE(test_deck__rejects_current_source_without_dc_path),
 	   CASE(test_deck__quotes_are_short_and_never_from_included_files))
