@@ -59,16 +59,20 @@ static enum sch_err push(struct line_list *l, const char *s)
 	return SCH_OK;
 }
 
-/* Appends the three lines of probe k (definition-local names) across nodes a, b. */
+/*
+ * Appends the lines of probe k (definition-local names) across nodes a, b: a 1 ohm resistor alone
+ * on its own node, whose thermal noise voltage a unity VCCS turns into a current across a, b. No
+ * branch equation and no zero on the matrix diagonal: a 0 V source with an F element (the first
+ * form) made the simulator's pivot search quadratic in the number of instances (docs/performance.md).
+ * The node carries no DC voltage, so the G element carries no DC current.
+ */
 static enum sch_err push_probe(struct line_list *l, int k, const char *a, const char *b, const char *what)
 {
 	enum sch_err ret = push(l, sch_arena_printf(l->arena, "* schrot: generator of known density across %s", what));
 	if (ret == SCH_OK)
-		ret = push(l, sch_arena_printf(l->arena, "vschg%d nschg%d 0 dc 0", k, k));
-	if (ret == SCH_OK)
 		ret = push(l, sch_arena_printf(l->arena, "rschg%d nschg%d 0 %g", k, k, SCH_PROBE_OHMS));
 	if (ret == SCH_OK)
-		ret = push(l, sch_arena_printf(l->arena, "fschg%d %s %s vschg%d 1", k, a, b, k));
+		ret = push(l, sch_arena_printf(l->arena, "gschg%d %s %s nschg%d 0 1", k, a, b, k));
 	return ret;
 }
 
@@ -185,13 +189,16 @@ out:
 	return ret;
 }
 
-/* The probe resistance whose simulated density 4 k_sim T / R is exactly 2q|I|G. */
+/*
+ * The probe resistance whose simulated output density 4 k_sim T R (its noise voltage through the
+ * unity VCCS) is exactly 2q|I|G; SCH_PROBE_OFF_OHMS when the instance gets no generator.
+ */
 static double probe_ohms(const struct sch_carrier *c, double temp_k)
 {
 	double s = c ? sch_shot_density(c->dc_current_a, sch_carrier_gain(c)) : 0.0;
 	if (!(s > 0) || !isfinite(s))
 		return SCH_PROBE_OFF_OHMS;
-	return 4.0 * SCH_SIM_K * temp_k / s;
+	return s / (4.0 * SCH_SIM_K * temp_k);
 }
 
 enum sch_err sch_augment_write(const struct sch_augmented *aug, const struct sch_carrier_set *set, double temp_k,
@@ -210,7 +217,7 @@ enum sch_err sch_augment_write(const struct sch_augmented *aug, const struct sch
 	for (size_t k = 0; k + 1 < aug->n_lines; k++)
 		fprintf(out, "%s\n", aug->lines[k]);
 	fprintf(out, "* schrot: sizes each instance's generator for 2q|I|G with its operating-point current\n"
-		     "* (q = %.10g C exact; R = 4kT/S with the simulator's k = %.9g J/K at T = %.6f K)\n"
+		     "* (q = %.10g C exact; R = S/4kT with the simulator's k = %.9g J/K at T = %.6f K)\n"
 		     ".control\n",
 		SCH_Q, SCH_SIM_K, temp_k);
 	for (size_t k = 0; k < set->n_instances; k++) {

@@ -2,10 +2,10 @@
 /*
  * augment.h - the augmenter: the deck the simulator runs, with a noise generator of known density
  * across every carrier (and every junction, for the junction correction). Each generator is a 1 ohm
- * resistor shorted by a 0 V source whose current a unity-gain F element copies across the device;
- * its density 4kT/1 ohm at the circuit temperature is scaled afterwards to 2q|I|G per instance, so
- * one definition serves every instance and the operating point is untouched (the F element carries
- * no DC current).
+ * resistor alone on its own node, whose thermal noise voltage a unity-gain G element (VCCS) turns
+ * into a current across the device; its density 4kT x 1 ohm at the circuit temperature is scaled
+ * afterwards to 2q|I|G per instance, so one definition serves every instance and the operating
+ * point is untouched (the node has no DC voltage, the G element carries no DC current).
  */
 #ifndef SCH_AUGMENT_H
 #define SCH_AUGMENT_H
@@ -58,12 +58,15 @@ enum sch_err sch_augment_build(const struct sch_deck *deck, const struct sch_car
 const char *sch_augment_probe_sim_name(struct sch_arena *arena, const struct sch_probe *p,
 				       const char *instance_path);
 
-/* Probe resistance that stands for no generator at all (a zero current, or no carrier there). */
-#define SCH_PROBE_OFF_OHMS 1e30
+/*
+ * Probe resistance that stands for no generator at all (a zero current, or no carrier there): its
+ * density 4 k_sim T x 1e-30 ohm is about 1.7e-50, as good as none, and the node stays well posed.
+ */
+#define SCH_PROBE_OFF_OHMS 1e-30
 
 /*
  * Writes aug to out as a deck plain ngspice runs in batch mode: its cards up to ".end", then a
- * .control block that sizes every instance's probe resistor to 4 k_sim T / (2q|I|G) with the
+ * .control block that sizes every instance's probe resistor to 2q|I|G / (4 k_sim T) with the
  * operating-point currents of set at temp_k (SCH_PROBE_OFF_OHMS for a zero current or an instance
  * that is no carrier), runs noise_command, prints the integrated noise and quits with status 0 only
  * when the run produced it. aug must come from set's deck. Returns SCH_ERR_IO (message in d) when a write fails, SCH_ERR_NOMEM; out may then hold part
