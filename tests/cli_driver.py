@@ -1,6 +1,6 @@
 #!/usr/bin/env python3
 # SPDX-License-Identifier: BSD-3-Clause
-"""Runs the command-line cases in tests/cli/NNNN-slug/.
+"""Runs the command-line cases in a directory of NNNN-slug/ cases (tests/cli/, tests/bad/).
 
 Each case directory holds:
   name             one line saying what the case checks
@@ -8,8 +8,12 @@ Each case directory holds:
   expected.rc      the exit code
   expected.stdout  optional: every non-empty line must occur in stdout (substring)
   expected.stderr  optional: every non-empty line must occur in stderr (substring)
+  expected.stderr.lines  optional: the number of lines stderr must have (1: one message, nothing else)
   absent           optional: files (relative to the case) that must not exist afterwards
   setup            optional: shell commands run first in the case directory
+  generated        optional: files the setup writes, removed before and after the run (big inputs
+                   are made by setup, never committed)
+Every case fails when schrot dies of a signal, runs out of time, or a sanitizer reports a problem.
 """
 import os
 import shlex
@@ -22,22 +26,39 @@ def run_case(schrot, case):
         p = os.path.join(case, name)
         return open(p, encoding="utf-8").read() if os.path.exists(p) else None
 
+    def remove_all(names):
+        for f in names:
+            if os.path.lexists(os.path.join(case, f)):
+                os.remove(os.path.join(case, f))
+
     problems = []
     absent = [l.strip() for l in (read("absent") or "").splitlines() if l.strip()]
-    for f in absent:
-        if os.path.exists(os.path.join(case, f)):
-            os.remove(os.path.join(case, f))
+    generated = [l.strip() for l in (read("generated") or "").splitlines() if l.strip()]
+    remove_all(absent + generated)
     setup = read("setup")
     if setup:
         subprocess.run(setup, shell=True, cwd=case, check=True)
     args = shlex.split(read("cmd").strip())
     env = dict(os.environ)
-    proc = subprocess.run([schrot] + args, cwd=case, capture_output=True, timeout=300, env=env)
+    try:
+        proc = subprocess.run([schrot] + args, cwd=case, capture_output=True, timeout=300, env=env,
+                              stdin=subprocess.DEVNULL)
+    except subprocess.TimeoutExpired:
+        remove_all(generated)
+        return ["no answer within 300 s"]
+    remove_all(generated)
     out = proc.stdout.decode("utf-8", "replace")
     err = proc.stderr.decode("utf-8", "replace")
     want_rc = int(read("expected.rc").strip())
-    if proc.returncode != want_rc:
+    if proc.returncode < 0:
+        problems.append("killed by signal %d" % -proc.returncode)
+    elif proc.returncode != want_rc:
         problems.append("exit code %d, expected %d" % (proc.returncode, want_rc))
+    if "Sanitizer" in err or "runtime error:" in err:
+        problems.append("a sanitizer reported a problem")
+    want_lines = read("expected.stderr.lines")
+    if want_lines is not None and len(err.splitlines()) != int(want_lines.strip()):
+        problems.append("stderr has %d lines, expected %s" % (len(err.splitlines()), want_lines.strip()))
     for stream, text in (("stdout", out), ("stderr", err)):
         exp = read("expected." + stream)
         if exp is None:
@@ -50,7 +71,7 @@ def run_case(schrot, case):
             problems.append("file %s exists" % f)
             os.remove(os.path.join(case, f))
     if problems:
-        problems.append("stdout was:\n" + out + "\nstderr was:\n" + err)
+        problems.append("stdout was:\n" + out[:4000] + "\nstderr was:\n" + err[:4000])
     return problems
 
 
