@@ -2,6 +2,7 @@
 /* cmd_common.c - help text and the output files every command can write. */
 #include <stdio.h>
 #include "schrot/cmd.h"
+#include "schrot/outfile.h"
 #include "schrot/report.h"
 
 void sch_cmd_print_help(FILE *out)
@@ -36,7 +37,20 @@ void sch_cmd_print_help(FILE *out)
 	      out);
 }
 
+static enum sch_err write_outputs(const struct sch_cli *cli, const struct sch_result *res, struct sch_diag *d);
+
+/* All or nothing: a later output that fails leaves the earlier ones' targets untouched too. */
 enum sch_err sch_cmd_write_outputs(const struct sch_cli *cli, const struct sch_result *res, struct sch_diag *d)
+{
+	enum sch_err ret, end;
+
+	sch_outfile_batch_begin();
+	ret = write_outputs(cli, res, d);
+	end = sch_outfile_batch_end(ret == SCH_OK, d);
+	return ret != SCH_OK ? ret : end;
+}
+
+static enum sch_err write_outputs(const struct sch_cli *cli, const struct sch_result *res, struct sch_diag *d)
 {
 	enum sch_err ret = SCH_OK;
 	const char *targets[8];

@@ -1,11 +1,68 @@
 /* SPDX-License-Identifier: BSD-3-Clause */
 /* outfile.c - atomic output files: a mkstemp file beside the target, renamed over it on commit. */
 #include <errno.h>
+#include <stdbool.h>
 #include <stdlib.h>
 #include <string.h>
 #include <sys/stat.h>
 #include <unistd.h>
 #include "schrot/outfile.h"
+
+/* Renames deferred by a batch: (temporary file, target), in commit order. One batch at a time. */
+struct deferred {
+	char *tmp_path;
+	char *path;
+};
+
+static struct {
+	bool active;
+	struct deferred *v;
+	size_t n, cap;
+} batch;
+
+static enum sch_err defer(struct sch_outfile *o)
+{
+	if (batch.n == batch.cap) {
+		size_t cap = batch.cap ? 2 * batch.cap : 8;
+		struct deferred *v = realloc(batch.v, cap * sizeof(*v));
+
+		if (!v)
+			return SCH_ERR_NOMEM;
+		batch.v = v;
+		batch.cap = cap;
+	}
+	batch.v[batch.n++] = (struct deferred){ o->tmp_path, o->path };
+	o->tmp_path = NULL;
+	o->path = NULL;
+	return SCH_OK;
+}
+
+void sch_outfile_batch_begin(void)
+{
+	batch.active = true;
+	batch.n = 0;
+}
+
+enum sch_err sch_outfile_batch_end(bool ok, struct sch_diag *d)
+{
+	enum sch_err ret = SCH_OK;
+
+	for (size_t i = 0; i < batch.n; i++) {
+		struct deferred *f = &batch.v[i];
+
+		if (ok && ret == SCH_OK && rename(f->tmp_path, f->path) != 0)
+			ret = sch_diag_error(d, SCH_ERR_IO, f->path, 0, "cannot replace output file: %s", strerror(errno));
+		if (!ok || ret != SCH_OK)
+			remove(f->tmp_path);
+		free(f->tmp_path);
+		free(f->path);
+	}
+	free(batch.v);
+	batch.v = NULL;
+	batch.n = batch.cap = 0;
+	batch.active = false;
+	return ret;
+}
 
 static void outfile_clear(struct sch_outfile *o)
 {
@@ -111,6 +168,14 @@ enum sch_err sch_outfile_commit(struct sch_outfile *o, struct sch_diag *d)
 		ret = sch_diag_error(d, SCH_ERR_IO, o->path, 0, "cannot write output file: %s",
 				     errno ? strerror(errno) : "write error");
 		remove(o->tmp_path);
+		goto out;
+	}
+	if (batch.active) {
+		ret = defer(o);
+		if (ret != SCH_OK) {
+			remove(o->tmp_path);
+			ret = sch_diag_error(d, SCH_ERR_NOMEM, o->path, 0, "out of memory");
+		}
 		goto out;
 	}
 	if (rename(o->tmp_path, o->path) != 0) {

@@ -195,7 +195,65 @@ static void test_outfile__replaced_file_keeps_its_mode(void)
 	remove(path);
 }
 
-CHECK_MAIN(CASE(test_outfile__commit_replaces_target), CASE(test_outfile__abort_leaves_old_file_untouched),
+static void write_one(const char *path, const char *text, struct sch_diag *d)
+{
+	struct sch_outfile o;
+
+	CHECK(sch_outfile_open(&o, path, d) == SCH_OK);
+	fputs(text, o.fp);
+	CHECK(sch_outfile_commit(&o, d) == SCH_OK);
+}
+
+static void test_outfile__failed_batch_leaves_every_target_untouched(void)
+{
+	char a[512], b[512];
+	struct sch_outfile o;
+	struct sch_diag d;
+
+	sch_diag_init(&d, NULL, 0);
+	snprintf(a, sizeof(a), "%s", scratch("a.json"));
+	snprintf(b, sizeof(b), "%s", scratch("b.csv"));
+	write_text(a, "old a");
+	write_text(b, "old b");
+	sch_outfile_batch_begin();
+	write_one(a, "new a", &d);
+	CHECK(slurp(a) && strcmp(slurp(a), "old a") == 0); /* deferred: not renamed yet */
+	/* the second output cannot even be created: the whole set fails */
+	CHECK(sch_outfile_open(&o, "/nonexistent-dir/b.csv", &d) == SCH_ERR_IO);
+	CHECK(sch_outfile_batch_end(false, &d) == SCH_OK);
+	CHECK(slurp(a) && strcmp(slurp(a), "old a") == 0);
+	CHECK(slurp(b) && strcmp(slurp(b), "old b") == 0);
+	CHECK(count_entries() == 2);
+	remove(a);
+	remove(b);
+}
+
+static void test_outfile__good_batch_replaces_every_target(void)
+{
+	char a[512], b[512];
+	struct sch_diag d;
+
+	sch_diag_init(&d, NULL, 0);
+	snprintf(a, sizeof(a), "%s", scratch("a.json"));
+	snprintf(b, sizeof(b), "%s", scratch("b.csv"));
+	write_text(a, "old a");
+	sch_outfile_batch_begin();
+	write_one(a, "new a", &d);
+	write_one(b, "new b", &d);
+	CHECK(count_entries() == 3); /* a, its temporary file, b's temporary file */
+	CHECK(sch_outfile_batch_end(true, &d) == SCH_OK);
+	CHECK(slurp(a) && strcmp(slurp(a), "new a") == 0);
+	CHECK(slurp(b) && strcmp(slurp(b), "new b") == 0);
+	CHECK(count_entries() == 2);
+	/* after the batch, commits rename at once again */
+	write_one(a, "newer a", &d);
+	CHECK(slurp(a) && strcmp(slurp(a), "newer a") == 0);
+	remove(a);
+	remove(b);
+}
+
+CHECK_MAIN(CASE(test_outfile__failed_batch_leaves_every_target_untouched),
+	   CASE(test_outfile__good_batch_replaces_every_target), CASE(test_outfile__commit_replaces_target), CASE(test_outfile__abort_leaves_old_file_untouched),
 	   CASE(test_outfile__abort_without_target_leaves_nothing),
 	   CASE(test_outfile__open_in_missing_directory_fails_naming_the_file), CASE(test_outfile__dash_is_stdout),
 	   CASE(test_outfile__new_file_gets_umask_permissions), CASE(test_outfile__replaced_file_keeps_its_mode))
