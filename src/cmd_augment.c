@@ -6,6 +6,7 @@
 #include "schrot/augment.h"
 #include "schrot/cmd.h"
 #include "schrot/outfile.h"
+#include "schrot/sim.h"
 
 /* True when out names the same existing file as path (hard links and symlinks included). */
 static bool same_file(const char *out, const char *path)
@@ -30,6 +31,26 @@ static enum sch_err check_not_input(const char *out, const struct sch_result *re
 	return SCH_OK;
 }
 
+/*
+ * The deck's control block names every generator instance in an alter command that plain ngspice
+ * runs: a name holding a backquote, ';' or '>' would run or redirect there. SCH_ERR_INPUT at the
+ * element's line for the first name outside sch_sim_name_is_safe's set.
+ */
+static enum sch_err check_command_names(const struct sch_result *res, const struct sch_augmented *aug,
+					struct sch_diag *d)
+{
+	for (size_t k = 0; k < res->set.n_instances; k++) {
+		const struct sch_instance *in = &res->set.instances[k];
+		const struct sch_card *c = &res->deck.cards[res->deck.elements[in->element].card];
+
+		if (aug->probe_of_element[in->element] >= 0 && !sch_sim_name_is_safe(in->path))
+			return sch_diag_error(d, SCH_ERR_INPUT, c->file, c->line,
+					      "instance name '%.64s' cannot go into the augmented deck's control block: "
+					      "only a-z 0-9 _ . # + - are safe there", in->path);
+	}
+	return SCH_OK;
+}
+
 /* Runs the operating point and writes the sized deck to cli->out_path atomically. */
 static enum sch_err augment(const struct sch_cli *cli, struct sch_result *res, struct sch_diag *d)
 {
@@ -50,6 +71,8 @@ static enum sch_err augment(const struct sch_cli *cli, struct sch_result *res, s
 	    SCH_OK)
 		goto out;
 	if ((ret = sch_augment_build(&res->deck, &res->set, &aopt, &res->arena, &aug, d)) != SCH_OK)
+		goto out;
+	if ((ret = check_command_names(res, &aug, d)) != SCH_OK)
 		goto out;
 	if ((ret = sch_outfile_open(&of, cli->out_path, d)) != SCH_OK)
 		goto out;
