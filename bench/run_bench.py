@@ -1,0 +1,175 @@
+#!/usr/bin/env python3
+# SPDX-License-Identifier: BSD-3-Clause
+"""Benchmarks schrot against plain ngspice on generated netlists; prints medians and ratios, asserts nothing.
+
+For every case it writes the netlist (bench/gen_netlists.py), writes the equivalent augmented deck
+with `schrot augment` (per-instance sized generators and the simulator's own per-device noise
+summary, pts_per_summary 1), then alternates `schrot report NETLIST` and `ngspice -b AUGMENTED`,
+REPS times each, and reports the median wall time and the median peak memory of each side.
+
+Peak memory of a run is the sum, over every process of its tree, of that process's high-water
+resident set (VmHWM, sampled every 2 ms from /proc, and the kernel's own figure for the top
+process when it is reaped). A sum of per-process peaks never undercounts what was live at once.
+"""
+import argparse
+import os
+import re
+import statistics
+import subprocess
+import sys
+import tempfile
+import threading
+import time
+
+HERE = os.path.dirname(os.path.abspath(__file__))
+GEN = os.path.join(HERE, "gen_netlists.py")
+
+
+def proc_tree(pid):
+    out, todo = [], [pid]
+    while todo:
+        p = todo.pop()
+        out.append(p)
+        try:
+            for t in os.listdir(f"/proc/{p}/task"):
+                with open(f"/proc/{p}/task/{t}/children") as f:
+                    todo.extend(int(c) for c in f.read().split())
+        except OSError:
+            pass
+    return out
+
+
+def hwm_kb(pid):
+    try:
+        with open(f"/proc/{pid}/status") as f:
+            for line in f:
+                if line.startswith("VmHWM:"):
+                    return int(line.split()[1])
+    except OSError:
+        pass
+    return 0
+
+
+def measure(argv, cwd=None):
+    """(wall seconds, peak KB, exit code) of one run; stdout and stderr are discarded."""
+    peaks = {}
+    done = threading.Event()
+    t0 = time.perf_counter()
+    proc = subprocess.Popen(argv, cwd=cwd, stdout=subprocess.DEVNULL, stderr=subprocess.DEVNULL)
+
+    def sample():
+        while not done.is_set():
+            for p in proc_tree(proc.pid):
+                k = hwm_kb(p)
+                if k > peaks.get(p, 0):
+                    peaks[p] = k
+            time.sleep(0.002)
+
+    th = threading.Thread(target=sample, daemon=True)
+    th.start()
+    _, status, ru = os.wait4(proc.pid, 0)
+    wall = time.perf_counter() - t0
+    done.set()
+    th.join()
+    proc.returncode = os.waitstatus_to_exitcode(status)
+    peaks[proc.pid] = max(peaks.get(proc.pid, 0), ru.ru_maxrss)
+    return wall, sum(peaks.values()), proc.returncode
+
+
+def gen(kind, size, path, extra=()):
+    subprocess.run([sys.executable, GEN, kind, str(size), "-o", path, *extra], check=True)
+
+
+def fmt_mb(kb):
+    return f"{kb / 1024:.0f} MB"
+
+
+def compare(label, a_argv, b_argv, reps, a_name="schrot report", b_name="ngspice -b augmented", cwd=None,
+            memory=True):
+    """Alternating runs; returns (median time a, b, median memory a, b)."""
+    ta, tb, ma, mb = [], [], [], []
+    for r in range(reps):
+        order = [(a_argv, ta, ma), (b_argv, tb, mb)]
+        if r % 2:
+            order.reverse()  # alternate which side runs first
+        for argv, ts, ms in order:
+            wall, kb, rc = measure(argv, cwd)
+            if rc != 0:
+                print(f"  {label}: '{' '.join(argv)}' exited {rc}", file=sys.stderr)
+            ts.append(wall)
+            ms.append(kb)
+    row = (statistics.median(ta), statistics.median(tb), statistics.median(ma), statistics.median(mb))
+    if memory:
+        print(f"{label:<26} {a_name}: {row[0]:7.3f} s {fmt_mb(row[2]):>8}   {b_name}: {row[1]:7.3f} s "
+              f"{fmt_mb(row[3]):>8}   time ratio {row[0] / row[1]:5.2f}x   memory ratio {row[2] / row[3]:6.3f}x",
+              flush=True)
+    else:  # a sequence of processes: the sum of their peaks says nothing
+        print(f"{label:<26} {a_name}: {row[0]:7.3f} s   {b_name}: {row[1]:7.3f} s   time ratio {row[0] / row[1]:5.3f}x "
+              f"({row[1] / row[0]:.1f} times faster)", flush=True)
+    return row
+
+
+def main():
+    ap = argparse.ArgumentParser(description=__doc__, formatter_class=argparse.RawDescriptionHelpFormatter)
+    ap.add_argument("--schrot", required=True)
+    ap.add_argument("--ngspice", default="ngspice")
+    ap.add_argument("--reps", type=int, default=5)
+    ap.add_argument("--pixels", default="500,2000,8000", help="pixel-array sizes (comma list; empty: none)")
+    ap.add_argument("--extracted", type=int, default=200, help="extracted case channels (0: skip)")
+    ap.add_argument("--sweep", type=int, default=500, help="pixels in the sweep case (0: skip)")
+    ap.add_argument("--sweep-points", type=int, default=50)
+    ap.add_argument("--work", default=None, help="directory for the generated files (default: a temporary one)")
+    args = ap.parse_args()
+    work = args.work or tempfile.mkdtemp(prefix="schrot-bench-")
+    os.makedirs(work, exist_ok=True)
+    S, NG = os.path.abspath(args.schrot), args.ngspice
+    print(f"schrot bench: {args.reps} alternating runs per side, medians; work directory {work}")
+    print(f"cpus: {os.cpu_count()}; time is wall-clock of the whole process, memory the sum of per-process peaks")
+
+    cases = []
+    for n in [int(x) for x in args.pixels.split(",") if x.strip()]:
+        cases.append((f"pixels {n}", "pixels", n, ()))
+    if args.extracted:
+        cases.append((f"extracted {args.extracted}ch", "extracted", args.extracted, ()))
+    for label, kind, size, extra in cases:
+        net = os.path.join(work, f"{kind}{size}.cir")
+        aug = os.path.join(work, f"{kind}{size}-aug.cir")
+        gen(kind, size, net, extra)
+        subprocess.run([S, "augment", net, "-o", aug, "-q"], check=True)
+        compare(label, [S, "report", net], [NG, "-b", aug], args.reps)
+        if kind == "extracted":
+            # DESIGN.md section 7: the extracted case against the simulator's bare noise run
+            bare = os.path.join(work, f"{kind}{size}-bare.cir")
+            with open(net) as f, open(bare, "w") as g:
+                for line in f:
+                    if line.startswith(".noise"):
+                        continue
+                    if line.startswith(".end"):
+                        g.write(".control\nnoise v(out) itest dec 10 1 1meg\nprint onoise_total\nquit 0\n.endc\n")
+                    g.write(line.replace("itest 0 bus dc 0", "itest 0 bus dc 0 ac 1"))
+            compare(label + " (bare)", [S, "report", net], [NG, "-b", bare], args.reps,
+                    b_name="ngspice -b bare noise")
+
+    if args.sweep:
+        n, k = args.sweep, args.sweep_points
+        net = os.path.join(work, f"sweep{n}.cir")
+        gen("pixels", n, net)
+        lo, hi = 0.1e-9, 100e-9
+        values = [lo * (hi / lo) ** (i / (k - 1)) for i in range(k)]
+        singles = []
+        text = open(net).read()
+        for i, v in enumerate(values):
+            p = os.path.join(work, f"sweep{n}-{i:03d}.cir")
+            with open(p, "w") as f:
+                f.write(re.sub(r"^xp1 l1 pixel ip=\S+$", f"xp1 l1 pixel ip={v!r}", text, count=1, flags=re.M))
+            singles.append(p)
+        script = os.path.join(work, "singles.sh")
+        with open(script, "w") as f:
+            f.write("set -e\n" + "".join(f"'{S}' report '{p}' -q > /dev/null\n" for p in singles))
+        compare(f"sweep {k} pts, {n} pixels", [S, "sweep", net, "--vary", f"xp1.iph={lo}:{hi}:{k}", "-q"],
+                ["sh", script], max(1, args.reps // 2), a_name="schrot sweep", b_name=f"{k} x schrot report",
+                memory=False)
+
+
+if __name__ == "__main__":
+    main()
