@@ -11,7 +11,7 @@ integrates it in steps of that size: for a single pole of time constant tau this
 variance by about 1 % (computed for the pulse) to 2 % (measured over seeds) at step = tau/50, which
 the variance tolerances allow for."""
 import math
-from schrot_check import run, close, true, contribution, finish, Q
+from schrot_check import run, close, true, finish, Q
 
 
 def rc_deck(i, r, c, title="shot noise of a current into R||C", extra=""):
@@ -157,6 +157,15 @@ if data:
         # output mean I R of xa alone (xb drives another node): Campbell's mean
         close("[sub] v(out) mean = I_xa * R (xa's source sits on its own internal node)", data["output_mean_v"],
               3.2e-16 * 1e9, 5 * math.sqrt(campbell(3.2e-16, 1e9, 1e-12)[3] * 1.3 / 2000) / 3.2e-7)
+
+# --- the histogram plot (cairo): an SVG and a PNG are written ---
+import os, tempfile
+pd = tempfile.mkdtemp(prefix="schrot-e2e-plot-")
+for ext, magic in (("svg", b"<?xml"), ("png", b"\x89PNG")):
+    target = os.path.join(pd, "hist." + ext)
+    rc_, data, out, err = run(rc_deck(I_LOW, 1e9, 1e-12), "arrivals", "--window", "2m", "--windows", "500", "--plot", target)
+    ok = os.path.exists(target) and open(target, "rb").read(5).startswith(magic)
+    true(f"[plot] --plot writes a {ext} histogram", ok)
 
 # --- bad usage: exit 2 with a message ---
 rc_, data, out, err = run(rc_deck(1e-12, 1e9, 1e-12), "arrivals", "--windows", "10", expect_rc=2)
