@@ -312,13 +312,22 @@ static void draw_panel(cairo_t *cr, double top, const char *title, const char *x
 	cairo_set_line_width(cr, 1.0);
 	cairo_rectangle(cr, PANEL_L, t, PANEL_R - PANEL_L, bottom - t);
 	cairo_stroke(cr);
-	for (int i = 0; i <= 4; i++) {
-		double x = x0 + (x1 - x0) * i / 4.0;
-		if (h->integer)
-			snprintf(s, sizeof(s), "%.0f", x + 0.5 * (i == 0) - 0.5 * (i == 4));
-		else
+	if (h->integer) {
+		/* ticks on whole counts, at the centres of their bars */
+		double first = x0 + 0.5, last = x1 - 0.5, tick = fmax(1, ceil((last - first) / 6));
+		for (double k = first; k <= last + 1e-9; k += tick) {
+			snprintf(s, sizeof(s), "%.0f", k);
+			cairo_move_to(cr, PX(k), bottom);
+			cairo_line_to(cr, PX(k), bottom + 4);
+			cairo_stroke(cr);
+			text_at(cr, PX(k), bottom + 16, s, 0.5);
+		}
+	} else {
+		for (int i = 0; i <= 4; i++) {
+			double x = x0 + (x1 - x0) * i / 4.0;
 			sch_si_format(s, sizeof(s), x, 4, "V");
-		text_at(cr, PX(x), bottom + 16, s, i == 0 ? 0 : i == 4 ? 1 : 0.5);
+			text_at(cr, PX(x), bottom + 16, s, i == 0 ? 0 : i == 4 ? 1 : 0.5);
+		}
 	}
 	snprintf(s, sizeof(s), "%.0f", y_max / 1.08);
 	text_at(cr, PANEL_L - 6, PY(y_max / 1.08) + 4, s, 1);
