@@ -59,7 +59,7 @@ static bool takes_value(const char *name)
 	static const char *const names[] = { "--json", "--csv", "--spectrum", "--plot", "--html", "--depfile", "-o",
 					     "--out", "--band", "--freq", "--spot", "--carrier", "--ignore", "--avalanche",
 					     "--fano", "--responsivity", "--signal", "--budget", "--output", "--input",
-					     "--top", "--vary", "--jobs", "--window", "--duration", "--windows", "--seed",
+					     "--top", "--vary", "--jobs", "--shard", "--window", "--duration", "--windows", "--seed",
 					     "--step", "--settle" };
 	for (size_t k = 0; k < sizeof(names) / sizeof(names[0]); k++) {
 		if (strcmp(name, names[k]) == 0)
@@ -220,6 +220,13 @@ enum sch_err sch_cli_parse(struct sch_cli *cli, int argc, char **argv, struct sc
 			cli->top_n = (int)v;
 		} else if (strcmp(name, "--vary") == 0) {
 			cli->vary = val;
+		} else if (strcmp(name, "--shard") == 0) {
+			int k = 0, n = 0, used = 0;
+			if (sscanf(val, "%d/%d%n", &k, &n, &used) != 2 || val[used] != '\0' || n < 1 || n > 10000 || k < 1 ||
+			    k > n)
+				return usage(d, "--shard needs K/N with 1 <= K <= N <= 10000, not '%s'", val);
+			cli->shard_k = k;
+			cli->shard_n = n;
 		} else if (strcmp(name, "--jobs") == 0) {
 			double v;
 			if (parse_number(val, &v) != SCH_OK || v < 1 || v > 64 || v != floor(v))

@@ -67,8 +67,43 @@ static void show_progress(void *progress_ctx, size_t done, size_t total)
 	fflush(stderr);
 }
 
+/*
+ * Narrows values to shard K/N of the points, [n(K-1)/N, nK/N), so that the shards cover the sweep
+ * once whatever N. A shard of one point runs it twice (a sweep needs two steps; both cores take
+ * one each, so it costs one point's time) and keeps the first.
+ */
+static enum sch_err take_shard(const struct sch_cli *cli, double **values, size_t *n, struct sch_sweep_shard *shard,
+			       struct sch_diag *d)
+{
+	size_t first = *n * (size_t)(cli->shard_k - 1) / (size_t)cli->shard_n;
+	size_t end = *n * (size_t)cli->shard_k / (size_t)cli->shard_n;
+	double *mine;
+
+	if (!cli->json_path)
+		return sch_diag_error(d, SCH_ERR_USAGE, NULL, 0,
+				      "--shard needs '--json FILE' for its partial result (try 'schrot --help')");
+	if ((size_t)cli->shard_n > *n)
+		return sch_diag_error(d, SCH_ERR_USAGE, NULL, 0, "--shard %d/%d: more shards than the %zu points of the sweep",
+				      cli->shard_k, cli->shard_n, *n);
+	mine = malloc(2 * sizeof(*mine) + (end - first) * sizeof(*mine));
+	if (!mine)
+		return SCH_ERR_NOMEM;
+	memcpy(mine, *values + first, (end - first) * sizeof(*mine));
+	if (end - first == 1)
+		mine[1] = mine[0];
+	shard->index = cli->shard_k;
+	shard->count = cli->shard_n;
+	shard->first = first;
+	shard->n_total = *n;
+	free(*values);
+	*values = mine;
+	*n = end - first == 1 ? 2 : end - first;
+	return SCH_OK;
+}
+
 int cmd_sweep(int argc, char **argv, struct sch_ctx *ctx)
 {
+	struct sch_sweep_shard shard = { 0, 0, 0, 0 };
 	struct sch_cli cli;
 	struct sch_result res;
 	struct sch_sweep sweep;
@@ -98,6 +133,8 @@ int cmd_sweep(int argc, char **argv, struct sch_ctx *ctx)
 	if (!jobs_given)
 		cli.run.n_workers = 2; /* both cores */
 	cli.run.mode = SCH_RUN_REPORT;
+	if (cli.shard_n && (ret = take_shard(&cli, &values, &n, &shard, &ctx->diag)) != SCH_OK)
+		goto out;
 	if (cli.verbosity >= 0 && isatty(STDERR_FILENO))
 		cli.run.progress = show_progress; /* a pipe or a log file gets no progress lines */
 	ret = sch_analysis_sweep(cli.netlist, &cli.run, name, values, n, &res, &sweep, &ctx->diag);
@@ -105,6 +142,12 @@ int cmd_sweep(int argc, char **argv, struct sch_ctx *ctx)
 		show_progress(NULL, n, n); /* erases the line when the sweep stopped early */
 	if (ret != SCH_OK)
 		goto out;
+	if (cli.shard_n) {
+		if (shard.n_total * (size_t)shard.index / (size_t)shard.count - shard.first == 1)
+			sweep.n_points = 1; /* the shard's one point was run twice; keep it once */
+		ret = sch_report_sweep_partial_json(&res, &sweep, &shard, cli.json_path, &ctx->diag);
+		goto out;
+	}
 	if (cli.json_path && (ret = sch_report_sweep_json(&res, &sweep, cli.json_path, &ctx->diag)) != SCH_OK)
 		goto out;
 	if (cli.verbosity >= 0 && !(cli.json_path && strcmp(cli.json_path, "-") == 0))

@@ -22,6 +22,7 @@ struct sch_cli {
 	struct sch_gain_rule avalanche[SCH_MAX_RULES];
 	struct sch_gain_rule fano[SCH_MAX_RULES];
 	const char *vary;              /* sweep: NAME=START:STOP:N[:lin] */
+	int shard_k, shard_n;          /* sweep --shard K/N: this run's share of the points; 0/0: all */
 	/* arrivals */
 	double window_s;               /* --window; NaN: not given */
 	double duration_s;             /* --duration; NaN: not given */

@@ -22,6 +22,8 @@ int cmd_carriers(int argc, char **argv, struct sch_ctx *ctx);
 int cmd_augment(int argc, char **argv, struct sch_ctx *ctx);
 int cmd_sweep(int argc, char **argv, struct sch_ctx *ctx);
 int cmd_arrivals(int argc, char **argv, struct sch_ctx *ctx);
+/* merge takes partial sweep JSON files, not a netlist: schrot merge PART.json... [--json OUT] */
+int cmd_merge(int argc, char **argv, struct sch_ctx *ctx);
 
 /* Writes every output file the options ask for (json, csv, spectrum, plot, html, depfile). */
 enum sch_err sch_cmd_write_outputs(const struct sch_cli *cli, const struct sch_result *res, struct sch_diag *d);

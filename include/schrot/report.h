@@ -45,4 +45,30 @@ enum sch_err sch_report_sweep_table(const struct sch_result *r, const struct sch
 enum sch_err sch_report_sweep_json(const struct sch_result *r, const struct sch_sweep *s, const char *path,
 				   struct sch_diag *d);
 
+/* Where a partial sweep (sweep --shard K/N) sits in the whole one. */
+struct sch_sweep_shard {
+	int index;                /* K: 1..count */
+	int count;                /* N */
+	size_t first;             /* the whole sweep's index of this shard's first point */
+	size_t n_total;           /* points of the whole sweep */
+};
+
+/*
+ * The sweep JSON of one shard, written atomically to path: the document sch_report_sweep_json
+ * writes for its points, a "shard" object (index, count, first, points_total, input_unit) and a
+ * null crossover, which only the joined sweep knows.
+ */
+enum sch_err sch_report_sweep_partial_json(const struct sch_result *r, const struct sch_sweep *s,
+					   const struct sch_sweep_shard *shard, const char *path, struct sch_diag *d);
+
+/*
+ * Joins the partial sweep JSON files at paths (any order) into r (netlist, output, input,
+ * input_unit, band) and s (name, unit, every point in order, the crossover as a single run finds
+ * it), with storage from r's arena. Returns SCH_ERR_INPUT with a message naming the file when a
+ * file is unreadable or no partial, when the partials come from different sweeps, or when a shard
+ * is missing or given twice; SCH_ERR_NOMEM. r and s are then unusable but r can be released.
+ */
+enum sch_err sch_report_sweep_merge(const char *const *paths, size_t n_paths, struct sch_result *r,
+				    struct sch_sweep *s, struct sch_diag *d);
+
 #endif
