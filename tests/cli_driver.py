@@ -11,6 +11,9 @@ Each case directory holds:
   expected.stderr.lines  optional: the number of lines stderr must have (1: one message, nothing else)
   absent           optional: files (relative to the case) that must not exist afterwards
   setup            optional: shell commands run first in the case directory
+  env              optional: KEY=VALUE lines added to schrot's environment; KEY+=VALUE appends
+                   ":VALUE" to an existing value (e.g. ASAN_OPTIONS+=handle_segv=0, so that a
+                   simulator crash stays a crash in a sanitizer build)
   generated        optional: files the setup writes, removed before and after the run (big inputs
                    are made by setup, never committed)
 Every case fails when schrot dies of a signal, runs out of time, or a sanitizer reports a problem.
@@ -40,6 +43,14 @@ def run_case(schrot, case):
         subprocess.run(setup, shell=True, cwd=case, check=True)
     args = shlex.split(read("cmd").strip())
     env = dict(os.environ)
+    for line in (read("env") or "").splitlines():
+        key, sep, value = line.strip().partition("=")
+        if not sep:
+            continue
+        if key.endswith("+"):
+            key = key[:-1]
+            value = env[key] + ":" + value if env.get(key) else value
+        env[key] = value
     try:
         proc = subprocess.run([schrot] + args, cwd=case, capture_output=True, timeout=300, env=env,
                               stdin=subprocess.DEVNULL)
