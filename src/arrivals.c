@@ -207,6 +207,11 @@ void sch_arrivals_release(struct sch_arrivals *a)
 	memset(a, 0, sizeof(*a));
 }
 
+static bool is_ground(const char *node)
+{
+	return strcmp(node, "0") == 0 || strcmp(node, "gnd") == 0;
+}
+
 /* "v(out)" / "V( a , b )" into its node names (lower case); false for other forms or unsafe names. */
 static bool parse_output(const char *expr, char *a, char *b, size_t size)
 {
@@ -226,12 +231,9 @@ static bool parse_output(const char *expr, char *a, char *b, size_t size)
 		*comma = '\0';
 	snprintf(a, size, "%.200s", tmp + 2);
 	snprintf(b, size, "%.200s", comma ? comma + 1 : "");
-	return sch_sim_name_is_safe(a) && (!comma || sch_sim_name_is_safe(b));
-}
-
-static bool is_ground(const char *node)
-{
-	return strcmp(node, "0") == 0 || strcmp(node, "gnd") == 0;
+	if (is_ground(b))
+		b[0] = '\0'; /* the simulator has no vector for ground */
+	return sch_sim_name_is_safe(a) && (!b[0] || sch_sim_name_is_safe(b));
 }
 
 static bool is_global(const struct sch_deck *deck, const char *node)

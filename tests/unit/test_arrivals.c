@@ -84,6 +84,7 @@ static void test_arrivals__counts_do_not_depend_on_the_bin_size(void)
 	CHECK(fabs(a.mean - nn) < 5 * sqrt(nn / N_WINDOWS));
 	CHECK(fabs(b.mean - nn) < 5 * sqrt(nn / (N_WINDOWS / 4)));
 	CHECK(fabs(b.p_zero - exp(-nn)) < 5 * sqrt(exp(-nn) / (N_WINDOWS / 4)));
+	free(c);
 }
 
 /*
