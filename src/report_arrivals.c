@@ -137,8 +137,10 @@ enum sch_err sch_report_arrivals_table(const struct sch_arrivals *a, FILE *out)
 		for (size_t b = 0; b < h.n; b++)
 			fprintf(out, "  %8.0f %10.0f %10.1f %10.1f\n", h.lo[b], h.observed[b], h.poisson[b], h.gauss[b]);
 	}
+	fprintf(out, "\nnote: the transient realises only the carriers' arrivals; thermal, flicker and the simulator's own\n"
+		     "      device noise are not in it (schrot report gives their share)\n");
 	if (a->settle_s == 0)
-		fprintf(out, "\nnote: sampling starts at the operating point; --settle skips the circuit's start-up\n");
+		fprintf(out, "note: sampling starts at the operating point; --settle skips the circuit's start-up\n");
 	return ferror(out) ? SCH_ERR_IO : SCH_OK;
 }
 
@@ -192,6 +194,8 @@ enum sch_err sch_report_arrivals_json(const struct sch_arrivals *a, const char *
 	json_object_set_new(doc, "settle_s", json_real(a->settle_s));
 	json_object_set_new(doc, "seed", json_integer((json_int_t)a->seed));
 	json_object_set_new(doc, "generator", json_string("xoshiro256** 1.0, state from splitmix64(seed ^ stream * 0x9e3779b97f4a7c15), stream = carrier index"));
+	json_object_set_new(doc, "notes", json_pack("[s]", "the transient realises only the carriers' arrivals; thermal, "
+							  "flicker and the simulator's own device noise are not in it"));
 	json_object_set_new(doc, "output_mean_v", real_or_null(a->output_mean_v));
 	json_object_set_new(doc, "output_std_v", real_or_null(a->output_std_v));
 	json_object_set_new(doc, "output_skewness", real_or_null(a->output_skewness));

@@ -30,7 +30,9 @@ enum sch_arrival_kind {
  * One carrier's arrival process, consumed one time bin after another. Avalanche gains are
  * gamma-distributed with mean M and mean square M^2*F (so the density is 2q|I|MF, as McIntyre's
  * excess noise factor F gives it); this matches the first two moments of the gain, not McIntyre's
- * full gain distribution. Members are read-only for callers.
+ * full gain distribution. A carrier whose current depends on the circuit (G, B, F) keeps its own
+ * current and gets the fluctuation about its operating-point value added beside it. Members are
+ * read-only for callers.
  */
 struct sch_arrival_source {
 	enum sch_arrival_kind kind;
@@ -58,7 +60,7 @@ enum sch_err sch_arrival_source_init(struct sch_arrival_source *src, double curr
 /* Advances by one bin of dt_s seconds: *n_primary events arrived, delivering *charge_c coulombs. */
 void sch_arrival_source_bin(struct sch_arrival_source *src, double dt_s, uint64_t *n_primary, double *charge_c);
 
-/* Running mean, variance and skewness (one pass, P. Pebay, Sandia report SAND2008-6212). */
+/* Running mean, variance and skewness (one-pass update of P. Pebay, Sandia report SAND2008-6212; from memory). */
 struct sch_moments {
 	double n, mean, m2, m3;
 };

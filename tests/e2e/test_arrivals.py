@@ -2,7 +2,8 @@
 # SPDX-License-Identifier: BSD-3-Clause
 """schrot arrivals against outside results: Poisson counts (shared/CHECK-VALUES.md N1, N2) and
 Campbell's theorem for shot noise into R||C (S. O. Rice, "Mathematical analysis of random noise",
-Bell Syst. Tech. J. 23, 1944, section 1.5, from memory), and the report's band rms (K6).
+Bell Syst. Tech. J. 23, 1944; the cumulants kappa_n = lambda * integral of h^n are the theorem, the
+R||C values are derived below), and the report's band rms (K6).
 
 Every run uses a fixed seed (1, the default), so each check is a fixed number; the tolerances are
 several standard errors of the statistic for the number of windows, written next to each check.
