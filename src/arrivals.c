@@ -425,13 +425,6 @@ static enum sch_err build_lines(struct sch_arrivals *a, const struct scratch *s,
 	size_t n = 0;
 	enum sch_err ret;
 
-	for (size_t k = 0; k < deck->n_elements; k++) {
-		const char *nm = deck->elements[k].name;
-		if (strncmp(nm, "aschar", 6) == 0)
-			return sch_diag_error(d, SCH_ERR_INPUT, deck->cards[deck->elements[k].card].file,
-					      deck->cards[deck->elements[k].card].line,
-					      "element name '%s' is reserved for schrot's arrival sources", nm);
-	}
 	if ((ret = sch_augment_build(deck, &a->op.set, NULL, ar, &aug, d)) != SCH_OK)
 		return ret;
 	v = sch_arena_alloc(ar, (aug.n_lines + 3 * a->n_counts + 2) * sizeof(*v));
@@ -465,6 +458,34 @@ static enum sch_err build_lines(struct sch_arrivals *a, const struct scratch *s,
 	*lines = v;
 	*n_lines = n;
 	return SCH_OK;
+}
+
+/*
+ * The run loads the analog code models for its own file sources; a netlist's own code-model
+ * instances (a file source could read any file) stay as unavailable as in every other command.
+ * Checked on a deck of its own, before the operating point runs.
+ */
+static enum sch_err refuse_code_models(const char *path, struct sch_diag *d)
+{
+	struct sch_deck deck;
+	enum sch_err ret;
+
+	sch_deck_init(&deck);
+	if ((ret = sch_deck_load(&deck, path, d)) != SCH_OK)
+		goto out;
+	for (size_t k = 0; k < deck.n_elements; k++) {
+		const struct sch_card *card = &deck.cards[deck.elements[k].card];
+		if (deck.elements[k].letter == 'a') {
+			ret = sch_diag_error(d, SCH_ERR_INPUT, card->file, card->line,
+					     "code-model instance '%s' is not allowed in a netlist for arrivals",
+					     deck.elements[k].name);
+			goto out;
+		}
+	}
+	ret = SCH_OK;
+out:
+	sch_deck_release(&deck);
+	return ret;
 }
 
 /* Options checked and turned into the bin grid. */
@@ -575,6 +596,8 @@ enum sch_err sch_arrivals_run(const char *path, const struct sch_run_options *ru
 
 	memset(&sim, 0, sizeof(sim));
 	if ((ret = plan_grid(a, opt, &bpw, &settle_bins, d)) != SCH_OK)
+		goto out;
+	if ((ret = refuse_code_models(path, d)) != SCH_OK)
 		goto out;
 	op.mode = SCH_RUN_OP;
 	if ((ret = sch_analysis_run(path, &op, &a->op, d)) != SCH_OK)
