@@ -618,6 +618,14 @@ enum sch_err sch_arrivals_run(const char *path, const struct sch_run_options *ru
 		goto out;
 	}
 	a->n_counts = a->op.set.n_carriers;
+	/* each file source holds its whole table in the simulator (16 bytes a point): bound the sum */
+	if ((double)a->n_bins * (double)a->n_counts > SCH_ARRIVALS_MAX_BINS) {
+		ret = sch_diag_error(d, SCH_ERR_USAGE, NULL, 0,
+				     "%zu carriers of %zu source steps each exceed the limit of %d steps in all: use fewer "
+				     "windows or a longer --step",
+				     a->n_counts, a->n_bins, SCH_ARRIVALS_MAX_BINS);
+		goto out;
+	}
 	a->counts = sch_arena_alloc(ar, (a->n_counts + 1) * sizeof(*a->counts));
 	if (!a->output || !a->counts) {
 		ret = SCH_ERR_NOMEM;

@@ -16,7 +16,7 @@
 #include "schrot/rng.h"
 
 #define SCH_ARRIVALS_MAX_WINDOWS 10000000
-#define SCH_ARRIVALS_MAX_BINS 20000000  /* simulator source points per carrier */
+#define SCH_ARRIVALS_MAX_BINS 20000000  /* source points of all carriers together (16 bytes each in the simulator) */
 #define SCH_ARRIVALS_DEFAULT_SEED 1
 #define SCH_ARRIVALS_STEPS_PER_WINDOW 50  /* default source resolution */
 
@@ -123,7 +123,8 @@ void sch_arrivals_init(struct sch_arrivals *a);
  * one transient in which every carrier instance delivers its own random arrival process, and
  * samples the output at the end of every window. The output is run->output_expr or the deck's
  * '.noise' output. Event streams are generated bin by bin and written to the simulator's source
- * files as they go (never held in memory). Returns SCH_ERR_USAGE (bad options, no output, no
+ * files as they go (never held in memory); the simulator's file sources then hold one point per
+ * bin, which SCH_ARRIVALS_MAX_BINS bounds, and the result one count per window. Returns SCH_ERR_USAGE (bad options, no output, no
  * carrier), SCH_ERR_INPUT, SCH_ERR_SIM, SCH_ERR_IO, SCH_ERR_NOMEM with a message in d; a must be
  * released in every case.
  */
