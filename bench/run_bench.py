@@ -8,8 +8,8 @@ summary, pts_per_summary 1), then alternates `schrot report NETLIST` and `ngspic
 REPS times each, and reports the median wall time and the median peak memory of each side.
 
 Peak memory of a run is the sum, over every process of its tree, of that process's high-water
-resident set (VmHWM, sampled every 2 ms from /proc, and the kernel's own figure for the top
-process when it is reaped). A sum of per-process peaks never undercounts what was live at once.
+resident set (VmHWM, sampled every 10 ms from /proc; for a single process, the kernel's own
+figure when it is reaped). A sum of per-process peaks never undercounts what was live at once.
 """
 import argparse
 import os
@@ -51,7 +51,7 @@ def hwm_kb(pid):
 
 
 def measure(argv, cwd=None):
-    """(wall seconds, peak KB, exit code) of one run; stdout and stderr are discarded."""
+    """(wall seconds, peak KB, exit code, CPU seconds) of one run; stdout and stderr are discarded."""
     peaks = {}
     done = threading.Event()
     t0 = time.perf_counter()
@@ -63,7 +63,7 @@ def measure(argv, cwd=None):
                 k = hwm_kb(p)
                 if k > peaks.get(p, 0):
                     peaks[p] = k
-            time.sleep(0.002)
+            time.sleep(0.01)
 
     th = threading.Thread(target=sample, daemon=True)
     th.start()
@@ -72,8 +72,14 @@ def measure(argv, cwd=None):
     done.set()
     th.join()
     proc.returncode = os.waitstatus_to_exitcode(status)
-    peaks[proc.pid] = max(peaks.get(proc.pid, 0), ru.ru_maxrss)
-    return wall, sum(peaks.values()), proc.returncode
+    # the kernel's figure for the reaped top process is the largest of it and its reaped children,
+    # so it stands for the top process only when it had none
+    if len(peaks) <= 1 or proc.pid not in peaks:
+        peaks[proc.pid] = max(peaks.get(proc.pid, 0), ru.ru_maxrss)
+    if os.environ.get("SCH_BENCH_VERBOSE"):
+        print(f"    {argv[0]} {argv[1]}: {wall:.3f} s, per-process peaks {sorted(peaks.values(), reverse=True)} KB",
+              file=sys.stderr)
+    return wall, sum(peaks.values()), proc.returncode, ru.ru_utime + ru.ru_stime
 
 
 def gen(kind, size, path, extra=()):
@@ -87,25 +93,28 @@ def fmt_mb(kb):
 def compare(label, a_argv, b_argv, reps, a_name="schrot report", b_name="ngspice -b augmented", cwd=None,
             memory=True):
     """Alternating runs; returns (median time a, b, median memory a, b)."""
-    ta, tb, ma, mb = [], [], [], []
+    ta, tb, ma, mb, ca, cb = [], [], [], [], [], []
     for r in range(reps):
-        order = [(a_argv, ta, ma), (b_argv, tb, mb)]
+        order = [(a_argv, ta, ma, ca), (b_argv, tb, mb, cb)]
         if r % 2:
             order.reverse()  # alternate which side runs first
-        for argv, ts, ms in order:
-            wall, kb, rc = measure(argv, cwd)
+        for argv, ts, ms, cs in order:
+            wall, kb, rc, cpu = measure(argv, cwd)
             if rc != 0:
                 print(f"  {label}: '{' '.join(argv)}' exited {rc}", file=sys.stderr)
             ts.append(wall)
             ms.append(kb)
-    row = (statistics.median(ta), statistics.median(tb), statistics.median(ma), statistics.median(mb))
+            cs.append(cpu)
+    row = (statistics.median(ta), statistics.median(tb), statistics.median(ma), statistics.median(mb),
+           statistics.median(ca), statistics.median(cb))
+    cpu = f"   cpu {row[4]:.2f} s / {row[5]:.2f} s = {row[4] / row[5]:.2f}x"
     if memory:
         print(f"{label:<26} {a_name}: {row[0]:7.3f} s {fmt_mb(row[2]):>8}   {b_name}: {row[1]:7.3f} s "
-              f"{fmt_mb(row[3]):>8}   time ratio {row[0] / row[1]:5.2f}x   memory ratio {row[2] / row[3]:6.3f}x",
+              f"{fmt_mb(row[3]):>8}   time ratio {row[0] / row[1]:5.2f}x   memory ratio {row[2] / row[3]:6.3f}x{cpu}",
               flush=True)
     else:  # a sequence of processes: the sum of their peaks says nothing
         print(f"{label:<26} {a_name}: {row[0]:7.3f} s   {b_name}: {row[1]:7.3f} s   time ratio {row[0] / row[1]:5.3f}x "
-              f"({row[1] / row[0]:.1f} times faster)", flush=True)
+              f"({row[1] / row[0]:.1f} times faster){cpu}", flush=True)
     return row
 
 
@@ -116,7 +125,7 @@ def main():
     ap.add_argument("--reps", type=int, default=5)
     ap.add_argument("--pixels", default="500,2000,8000", help="pixel-array sizes (comma list; empty: none)")
     ap.add_argument("--extracted", type=int, default=200, help="extracted case channels (0: skip)")
-    ap.add_argument("--sweep", type=int, default=500, help="pixels in the sweep case (0: skip)")
+    ap.add_argument("--sweep", default="20,500", help="pixels in the sweep cases (comma list; empty: none)")
     ap.add_argument("--sweep-points", type=int, default=50)
     ap.add_argument("--work", default=None, help="directory for the generated files (default: a temporary one)")
     args = ap.parse_args()
@@ -124,7 +133,8 @@ def main():
     os.makedirs(work, exist_ok=True)
     S, NG = os.path.abspath(args.schrot), args.ngspice
     print(f"schrot bench: {args.reps} alternating runs per side, medians; work directory {work}")
-    print(f"cpus: {os.cpu_count()}; time is wall-clock of the whole process, memory the sum of per-process peaks")
+    print(f"cpus: {os.cpu_count()}, load average {os.getloadavg()[0]:.1f}; time is wall-clock of the whole process, "
+          "memory the sum of per-process peaks, cpu the user+system time of the process tree")
 
     cases = []
     for n in [int(x) for x in args.pixels.split(",") if x.strip()]:
@@ -150,8 +160,8 @@ def main():
             compare(label + " (bare)", [S, "report", net], [NG, "-b", bare], args.reps,
                     b_name="ngspice -b bare noise")
 
-    if args.sweep:
-        n, k = args.sweep, args.sweep_points
+    for n in [int(x) for x in args.sweep.split(",") if x.strip()]:
+        k = args.sweep_points
         net = os.path.join(work, f"sweep{n}.cir")
         gen("pixels", n, net)
         lo, hi = 0.1e-9, 100e-9
@@ -163,13 +173,12 @@ def main():
             with open(p, "w") as f:
                 f.write(re.sub(r"^xp1 l1 pixel ip=\S+$", f"xp1 l1 pixel ip={v!r}", text, count=1, flags=re.M))
             singles.append(p)
-        script = os.path.join(work, "singles.sh")
+        script = os.path.join(work, f"singles{n}.sh")
         with open(script, "w") as f:
             f.write("set -e\n" + "".join(f"'{S}' report '{p}' -q > /dev/null\n" for p in singles))
         compare(f"sweep {k} pts, {n} pixels", [S, "sweep", net, "--vary", f"xp1.iph={lo}:{hi}:{k}", "-q"],
-                ["sh", script], max(1, args.reps // 2), a_name="schrot sweep", b_name=f"{k} x schrot report",
+                ["sh", script], args.reps, a_name="schrot sweep", b_name=f"{k} x schrot report",
                 memory=False)
-
 
 if __name__ == "__main__":
     main()
