@@ -1,6 +1,7 @@
 /* SPDX-License-Identifier: BSD-3-Clause */
 /* outfile.c - atomic output files: a mkstemp file beside the target, renamed over it on commit. */
 #include <errno.h>
+#include <fcntl.h>
 #include <stdbool.h>
 #include <stdlib.h>
 #include <string.h>
@@ -72,6 +73,7 @@ static void outfile_clear(struct sch_outfile *o)
 	o->path = NULL;
 	o->tmp_path = NULL;
 	o->is_stdout = false;
+	o->direct = false;
 }
 
 /*
@@ -93,6 +95,7 @@ static mode_t target_mode(const char *path)
 enum sch_err sch_outfile_open(struct sch_outfile *o, const char *path, struct sch_diag *d)
 {
 	enum sch_err ret = SCH_ERR_IO;
+	struct stat st, lst;
 	size_t len;
 	int fd = -1;
 
@@ -100,6 +103,7 @@ enum sch_err sch_outfile_open(struct sch_outfile *o, const char *path, struct sc
 	o->path = NULL;
 	o->tmp_path = NULL;
 	o->is_stdout = false;
+	o->direct = false;
 	if (!path || !*path) {
 		ret = sch_diag_error(d, SCH_ERR_USAGE, NULL, 0, "empty output file name");
 		goto out;
@@ -115,6 +119,35 @@ enum sch_err sch_outfile_open(struct sch_outfile *o, const char *path, struct sc
 		ret = SCH_OK;
 		goto out;
 	}
+	if (stat(path, &st) == 0 && S_ISDIR(st.st_mode)) {
+		ret = sch_diag_error(d, SCH_ERR_IO, path, 0, "cannot write output file: it is a directory");
+		goto out;
+	}
+	if (stat(path, &st) == 0 && !S_ISREG(st.st_mode)) {
+		fd = open(path, O_WRONLY | O_CLOEXEC);
+		o->fp = fd >= 0 ? fdopen(fd, "w") : NULL;
+		if (!o->fp) {
+			ret = sch_diag_error(d, SCH_ERR_IO, path, 0, "cannot open output file: %s", strerror(errno));
+			if (fd >= 0)
+				close(fd);
+			goto out;
+		}
+		o->direct = true;
+		ret = SCH_OK;
+		goto out;
+	}
+	if (lstat(path, &lst) == 0 && S_ISLNK(lst.st_mode) && stat(path, &st) == 0) {
+		/* replace the file the link names, not the link */
+		char *real = realpath(path, NULL);
+
+		if (!real) {
+			ret = SCH_ERR_NOMEM;
+			goto out;
+		}
+		free(o->path);
+		o->path = real;
+	}
+	path = o->path;
 	len = strlen(path);
 	o->tmp_path = malloc(len + sizeof(".tmpXXXXXX"));
 	if (!o->tmp_path) {
@@ -152,6 +185,16 @@ enum sch_err sch_outfile_commit(struct sch_outfile *o, struct sch_diag *d)
 
 	if (!o->fp)
 		return sch_diag_error(d, SCH_ERR_IO, o->path, 0, "output file is not open");
+	if (o->direct) {
+		failed = ferror(o->fp) != 0;
+		if (fclose(o->fp) != 0)
+			failed = 1;
+		o->fp = NULL;
+		ret = failed ? sch_diag_error(d, SCH_ERR_IO, o->path, 0, "cannot write output file: %s",
+					      errno ? strerror(errno) : "write error")
+			     : SCH_OK;
+		goto out;
+	}
 	if (o->is_stdout) {
 		if (fflush(stdout) != 0 || ferror(stdout))
 			ret = sch_diag_error(d, SCH_ERR_IO, NULL, 0, "cannot write to standard output: %s",

@@ -9,14 +9,17 @@
 
 struct sch_outfile {
 	FILE *fp;         /* write here between open and commit */
-	char *path;       /* target */
-	char *tmp_path;   /* NULL for stdout */
+	char *path;       /* target (a symlink's target file, so that the link stays) */
+	char *tmp_path;   /* NULL for stdout and for direct writes */
 	bool is_stdout;
+	bool direct;      /* the target is a device or FIFO (/dev/null): written in place, never replaced */
 };
 
 /*
- * Opens a temporary file beside path ("-" means stdout). SCH_ERR_IO with a message naming the
- * file when it cannot be created; nothing is left behind then.
+ * Opens a temporary file beside path ("-" means stdout). An existing target that is not a
+ * regular file (/dev/null, /dev/stderr, a FIFO) is opened and written in place instead: renaming
+ * over it would replace the device with a file. SCH_ERR_IO with a message naming the file when it
+ * cannot be created or is a directory; nothing is left behind then.
  */
 enum sch_err sch_outfile_open(struct sch_outfile *o, const char *path, struct sch_diag *d);
 

@@ -130,5 +130,12 @@ rc, err = run("good.cir")
 true("[O] a second good run replaces every file whole", rc == 0 and snapshot()["report.csv"][0] == before["report.csv"][0],
      err)
 
+# Outputs to a device are written in place: renaming over /dev/null would replace it (as root) with a file.
+if os.path.exists("/dev/null") and stat.S_ISCHR(os.stat("/dev/null").st_mode):
+    proc = subprocess.run([SCHROT, "report", os.path.join(work, "good.cir"), "-q", "--json", "/dev/null", "--csv",
+                           "/dev/null"], capture_output=True, text=True, timeout=300)
+    true("[O] --json /dev/null --csv /dev/null exits 0 and /dev/null stays a character device",
+         proc.returncode == 0 and stat.S_ISCHR(os.stat("/dev/null").st_mode), proc.stderr)
+
 shutil.rmtree(work, ignore_errors=True)
 finish()

@@ -252,7 +252,62 @@ static void test_outfile__good_batch_replaces_every_target(void)
 	remove(b);
 }
 
-CHECK_MAIN(CASE(test_outfile__failed_batch_leaves_every_target_untouched),
+static void test_outfile__device_target_is_written_in_place(void)
+{
+	struct sch_outfile o;
+	struct sch_diag d;
+	struct stat st;
+
+	sch_diag_init(&d, NULL, 0);
+	/* renaming a temporary file over /dev/null would replace the device (as root) with a file */
+	CHECK(sch_outfile_open(&o, "/dev/null", &d) == SCH_OK);
+	CHECK(o.direct && o.tmp_path == NULL);
+	fputs("{}\n", o.fp);
+	CHECK(sch_outfile_commit(&o, &d) == SCH_OK);
+	CHECK(stat("/dev/null", &st) == 0 && S_ISCHR(st.st_mode));
+	sch_outfile_batch_begin();
+	CHECK(sch_outfile_open(&o, "/dev/null", &d) == SCH_OK);
+	CHECK(sch_outfile_commit(&o, &d) == SCH_OK);
+	CHECK(sch_outfile_batch_end(true, &d) == SCH_OK);
+	CHECK(stat("/dev/null", &st) == 0 && S_ISCHR(st.st_mode));
+}
+
+static void test_outfile__symlink_target_keeps_the_link(void)
+{
+	char real[512], link[512];
+	struct sch_outfile o;
+	struct sch_diag d;
+	struct stat st;
+
+	sch_diag_init(&d, NULL, 0);
+	snprintf(real, sizeof(real), "%s", scratch("real.json"));
+	snprintf(link, sizeof(link), "%s", scratch("link.json"));
+	write_text(real, "old");
+	CHECK(symlink(real, link) == 0);
+	CHECK(sch_outfile_open(&o, link, &d) == SCH_OK);
+	fputs("new", o.fp);
+	CHECK(sch_outfile_commit(&o, &d) == SCH_OK);
+	CHECK(lstat(link, &st) == 0 && S_ISLNK(st.st_mode));
+	CHECK(slurp(real) && strcmp(slurp(real), "new") == 0);
+	remove(link);
+	remove(real);
+}
+
+static void test_outfile__directory_target_fails_at_open(void)
+{
+	struct sch_outfile o;
+	struct sch_diag d;
+
+	sch_diag_init(&d, NULL, 0);
+	scratch("x");
+	CHECK(sch_outfile_open(&o, dir, &d) == SCH_ERR_IO);
+	CHECK(strstr(d.first_error, "it is a directory") != NULL);
+	CHECK(count_entries() == 0);
+}
+
+CHECK_MAIN(CASE(test_outfile__device_target_is_written_in_place), CASE(test_outfile__symlink_target_keeps_the_link),
+	   CASE(test_outfile__directory_target_fails_at_open),
+	   CASE(test_outfile__failed_batch_leaves_every_target_untouched),
 	   CASE(test_outfile__good_batch_replaces_every_target), CASE(test_outfile__commit_replaces_target), CASE(test_outfile__abort_leaves_old_file_untouched),
 	   CASE(test_outfile__abort_without_target_leaves_nothing),
 	   CASE(test_outfile__open_in_missing_directory_fails_naming_the_file), CASE(test_outfile__dash_is_stdout),
