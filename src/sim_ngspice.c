@@ -1097,6 +1097,39 @@ static char *reason_from(const struct sch_worker *wk, size_t at, enum sch_phase 
 }
 
 /* The most telling failure line of one phase (and step), or NULL when the text shows none. */
+/*
+ * A failed operating point says "timestep too small" or "aborted"; the node to look at is in the
+ * earlier singular-matrix warning, so the reason gets it: "...too small (singular matrix: check
+ * node v1#branch)".
+ */
+static char *with_singular_node(const struct sch_worker *wk, enum sch_phase phase, uint32_t step, char *r,
+				bool *nomem)
+{
+	for (size_t i = 0; i < wk->n_msgs && !strcasestr(r, "singular matrix"); i++) {
+		const char *m = strcasestr(wk->msgs[i].text, "singular matrix");
+		char line[1024];
+		char *joined;
+
+		if (!m || !msg_in(&wk->msgs[i], phase, step))
+			continue;
+		snprintf(line, sizeof(line), "%s (%.300s", r, m);
+		for (char *q = line; *q; q++)
+			if (*q == '\t' || *q == '\r' || *q == '\n')
+				*q = ' ';
+		for (char *q = strstr(line, "  "); q; q = strstr(q, "  "))
+			memmove(q, q + 1, strlen(q));
+		snprintf(line + strlen(line), sizeof(line) - strlen(line), ")");
+		joined = strdup(line);
+		if (!joined) {
+			*nomem = true;
+			break;
+		}
+		free(r);
+		return joined;
+	}
+	return r;
+}
+
 static char *judge_text(const struct sch_worker *wk, enum sch_phase phase, uint32_t step, bool *nomem)
 {
 	size_t best = 0;
@@ -1119,7 +1152,7 @@ static char *judge_text(const struct sch_worker *wk, enum sch_phase phase, uint3
 	r = reason_from(wk, best, phase, step);
 	if (!r)
 		*nomem = true;
-	return r;
+	return r ? with_singular_node(wk, phase, step, r, nomem) : NULL;
 }
 
 static char *printf_dup(const char *fmt, const char *arg)
