@@ -65,6 +65,20 @@ static inline bool is_control(unsigned char c)
 	return (c < 0x20 && c != '\t' && c != '\f' && c != '\v') || c == 0x7f;
 }
 
+
+/* Bytes that send a line to check_text: controls other than tab, DEL and everything not ASCII. */
+#define ODD(c) ((c) < 0x20 ? (c) != '\t' : (c) >= 0x7f)
+#define ODD_ROW(b)                                                                                          \
+	ODD(b + 0), ODD(b + 1), ODD(b + 2), ODD(b + 3), ODD(b + 4), ODD(b + 5), ODD(b + 6), ODD(b + 7),      \
+	ODD(b + 8), ODD(b + 9), ODD(b + 10), ODD(b + 11), ODD(b + 12), ODD(b + 13), ODD(b + 14), ODD(b + 15)
+static const unsigned char odd_byte[256] = {
+	ODD_ROW(0x00), ODD_ROW(0x10), ODD_ROW(0x20), ODD_ROW(0x30), ODD_ROW(0x40), ODD_ROW(0x50),
+	ODD_ROW(0x60), ODD_ROW(0x70), ODD_ROW(0x80), ODD_ROW(0x90), ODD_ROW(0xa0), ODD_ROW(0xb0),
+	ODD_ROW(0xc0), ODD_ROW(0xd0), ODD_ROW(0xe0), ODD_ROW(0xf0),
+};
+#undef ODD_ROW
+#undef ODD
+
 /*
  * Length of s[0..n) without its inline comment (';' anywhere, '$' at the start or after a
  * blank) and trailing blanks. *odd tells whether a kept byte is not ASCII or is a control byte,
@@ -72,7 +86,7 @@ static inline bool is_control(unsigned char c)
  */
 static size_t strip_inline(const char *s, size_t n, bool *odd)
 {
-	bool any = false;
+	unsigned char any = 0;
 	size_t i;
 
 	for (i = 0; i < n; i++) {
@@ -80,11 +94,11 @@ static size_t strip_inline(const char *s, size_t n, bool *odd)
 
 		if (c == ';' || (c == '$' && (i == 0 || is_blank(s[i - 1]))))
 			break;
-		any |= c >= 0x7f || is_control(c);
+		any |= odd_byte[c];
 	}
 	while (i > 0 && is_blank(s[i - 1]))
 		i--;
-	*odd = any;
+	*odd = any != 0;
 	return i;
 }
 
