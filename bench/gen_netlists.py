@@ -14,7 +14,17 @@ import sys
 LINE_SECTIONS = 50
 
 
-def pixels(n, out, noise="dec 10 1 1meg 1"):
+# The two generators schrot's report adds to each pixel (across iph and across dpd), written out
+# in the netlist so that plain ngspice can time them: "g" is the current form (1 ohm on its own
+# node, unity VCCS), "f" the first one (1 ohm shorted by a 0 V source, copied by a unity CCCS).
+PROBES = {
+    "g": ("rschg0 nschg0 0 1\ngschg0 0 k nschg0 0 1\nrschg1 nschg1 0 1\ngschg1 k 0 nschg1 0 1\n"),
+    "f": ("vschg0 nschg0 0 dc 0\nrschg0 nschg0 0 1\nfschg0 0 k vschg0 1\n"
+          "vschg1 nschg1 0 dc 0\nrschg1 nschg1 0 1\nfschg1 k 0 vschg1 1\n"),
+}
+
+
+def pixels(n, out, noise="dec 10 1 1meg 1", probes=None):
     w = out.write
     w(f"Pixel array readout: {n} light-sensor pixels on a {LINE_SECTIONS}-section RC readout line\n")
     w("* Benchmark netlist written by bench/gen_netlists.py. Every value is invented.\n")
@@ -23,6 +33,8 @@ def pixels(n, out, noise="dec 10 1 1meg 1"):
     w("dpd k 0 dpix\n")
     w("cpd k 0 2p\n")
     w("rsw k line 10k\n")
+    if probes:
+        w(PROBES[probes])
     w(".ends pixel\n")
     w(".model dpix d is=1f n=1.05 rs=10 cjo=1p\n")
     # the readout line: l0 is held at virtual ground by the transimpedance stage
@@ -103,16 +115,25 @@ def main():
     ap.add_argument("-o", "--out", default="-")
     ap.add_argument("--sections", type=int, default=250, help="extracted: R-C segments per channel")
     ap.add_argument("--noise", default="dec 10 1 1meg 1", help="the .noise sweep after 'v(out) itest'")
+    ap.add_argument("--probes", choices=["f", "g"], help="pixels: write schrot's two generators into the cell")
+    ap.add_argument("--control", help="replace the .noise line by a .control block running these commands "
+                    "(';' separates them), e.g. 'op'")
     args = ap.parse_args()
     out = sys.stdout if args.out == "-" else open(args.out, "w")
     if args.kind == "pixels":
-        pixels(int(args.size), out, args.noise)
+        pixels(int(args.size), out, args.noise, args.probes)
     elif args.kind == "extracted":
         extracted(int(args.size), out, args.sections, args.noise)
     else:
         bigdeck(args.size, out)
     if out is not sys.stdout:
         out.close()
+        if args.control:
+            text = open(args.out).read().replace("itest 0 l0 dc 0\n", "itest 0 l0 dc 0 ac 1\n")
+            lines = [l for l in text.splitlines() if not l.startswith(".noise") and l != ".end"]
+            lines += [".control"] + [c.strip() for c in args.control.split(";")] + ["quit 0", ".endc", ".end"]
+            with open(args.out, "w") as f:
+                f.write("\n".join(lines) + "\n")
 
 
 if __name__ == "__main__":
