@@ -105,9 +105,13 @@ int cmd_augment(int argc, char **argv, struct sch_ctx *ctx)
 		goto out;
 	}
 	cli.run.mode = SCH_RUN_OP;
-	if ((ret = augment(&cli, &res, &ctx->diag)) != SCH_OK)
-		goto out;
-	ret = sch_cmd_write_outputs(&cli, &res, &ctx->diag);
+	/* the deck and the other outputs are one set: a JSON that cannot be written keeps the old deck */
+	sch_outfile_batch_begin();
+	ret = augment(&cli, &res, &ctx->diag);
+	if (ret == SCH_OK)
+		ret = sch_cmd_write_outputs(&cli, &res, &ctx->diag);
+	if (sch_outfile_batch_end(ret == SCH_OK, &ctx->diag) != SCH_OK && ret == SCH_OK)
+		ret = SCH_ERR_IO;
 	if (ret != SCH_OK)
 		goto out;
 	if (cli.verbosity > 0 && strcmp(cli.out_path, "-") != 0)

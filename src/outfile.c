@@ -9,7 +9,7 @@
 #include <unistd.h>
 #include "schrot/outfile.h"
 
-/* Renames deferred by a batch: (temporary file, target), in commit order. One batch at a time. */
+/* Renames deferred by a batch: (temporary file, target), in commit order. Nested batches join the outermost. */
 struct deferred {
 	char *tmp_path;
 	char *path;
@@ -17,6 +17,8 @@ struct deferred {
 
 static struct {
 	bool active;
+	int depth;      /* begins not yet ended */
+	bool failed;    /* an inner batch ended without ok: the outermost one fails too */
 	struct deferred *v;
 	size_t n, cap;
 } batch;
@@ -40,14 +42,22 @@ static enum sch_err defer(struct sch_outfile *o)
 
 void sch_outfile_batch_begin(void)
 {
-	batch.active = true;
-	batch.n = 0;
+	if (batch.depth++ == 0) {
+		batch.active = true;
+		batch.failed = false;
+		batch.n = 0;
+	}
 }
 
 enum sch_err sch_outfile_batch_end(bool ok, struct sch_diag *d)
 {
 	enum sch_err ret = SCH_OK;
 
+	if (!ok)
+		batch.failed = true;
+	if (batch.depth > 0 && --batch.depth > 0)
+		return SCH_OK;
+	ok = !batch.failed;
 	for (size_t i = 0; i < batch.n; i++) {
 		struct deferred *f = &batch.v[i];
 
@@ -62,6 +72,8 @@ enum sch_err sch_outfile_batch_end(bool ok, struct sch_diag *d)
 	batch.v = NULL;
 	batch.n = batch.cap = 0;
 	batch.active = false;
+	batch.failed = false;
+	batch.depth = 0;
 	return ret;
 }
 

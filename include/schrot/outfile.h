@@ -31,15 +31,18 @@ void sch_outfile_abort(struct sch_outfile *o);
 
 /*
  * A batch makes a set of outputs all-or-nothing: between begin and end, sch_outfile_commit writes
- * and closes its temporary file but defers the rename. Batches do not nest; begin can't fail.
+ * and closes its temporary file but defers the rename (direct writes to devices are not deferred).
+ * A batch begun inside another joins it: only the outermost end renames or removes. Begin can't
+ * fail; every begin needs its end.
  */
 void sch_outfile_batch_begin(void);
 
 /*
- * Ends the batch. With ok, renames every deferred file over its target in commit order
- * (SCH_ERR_IO naming the file when a rename fails; the files not yet renamed are removed, the
- * ones renamed stay). Without ok, removes every deferred temporary file: all targets untouched,
- * SCH_OK. Either way no temporary file is left.
+ * Ends the batch. An inner end only records ok (SCH_OK). The outermost end, when it and every
+ * inner end had ok, renames every deferred file over its target in commit order (SCH_ERR_IO
+ * naming the file when a rename fails; the files not yet renamed are removed, the ones renamed
+ * stay); otherwise it removes every deferred temporary file: all targets untouched, SCH_OK.
+ * Either way no temporary file is left.
  */
 enum sch_err sch_outfile_batch_end(bool ok, struct sch_diag *d);
 

@@ -130,6 +130,23 @@ rc, err = run("good.cir")
 true("[O] a second good run replaces every file whole", rc == 0 and snapshot()["report.csv"][0] == before["report.csv"][0],
      err)
 
+# augment: the written deck and its other outputs are one set as well.
+deck_path = os.path.join(outdir, "augmented.cir")
+proc = subprocess.run([SCHROT, "augment", os.path.join(work, "good.cir"), "-o", deck_path],
+                      capture_output=True, text=True, timeout=300)
+true("[O] augment -o writes the deck", proc.returncode == 0 and os.path.getsize(deck_path) > 0, proc.stderr)
+with open(deck_path, "rb") as f:
+    deck_before = f.read()
+os.utime(deck_path, ns=(1, 1))
+proc = subprocess.run([SCHROT, "augment", os.path.join(work, "good.cir"), "-q", "-o", deck_path, "--json",
+                       os.path.join(work, "no-such-dir", "a.json")], capture_output=True, text=True, timeout=300)
+with open(deck_path, "rb") as f:
+    deck_after = f.read()
+true("[O] augment with a JSON in a missing directory fails and keeps the old deck unrewritten",
+     proc.returncode == 2 and deck_after == deck_before and os.stat(deck_path).st_mtime_ns == 1, proc.stderr)
+os.remove(deck_path)
+true("[O] ... and leaves no temporary file", not strays(), str(strays()))
+
 # Outputs to a device are written in place: renaming over /dev/null would replace it (as root) with a file.
 if os.path.exists("/dev/null") and stat.S_ISCHR(os.stat("/dev/null").st_mode):
     proc = subprocess.run([SCHROT, "report", os.path.join(work, "good.cir"), "-q", "--json", "/dev/null", "--csv",

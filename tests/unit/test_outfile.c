@@ -228,6 +228,42 @@ static void test_outfile__failed_batch_leaves_every_target_untouched(void)
 	remove(b);
 }
 
+static void test_outfile__nested_batch_joins_the_outer_one(void)
+{
+	char a[512], b[512];
+	struct sch_diag d;
+
+	sch_diag_init(&d, NULL, 0);
+	snprintf(a, sizeof(a), "%s", scratch("a.cir"));
+	snprintf(b, sizeof(b), "%s", scratch("b.json"));
+	write_text(a, "old a");
+	write_text(b, "old b");
+	/* an inner batch that fails makes the outer one fail: neither file is replaced */
+	sch_outfile_batch_begin();
+	write_one(a, "new a", &d);
+	sch_outfile_batch_begin();
+	write_one(b, "new b", &d);
+	CHECK(sch_outfile_batch_end(false, &d) == SCH_OK);
+	CHECK(slurp(a) && strcmp(slurp(a), "old a") == 0);
+	CHECK(sch_outfile_batch_end(true, &d) == SCH_OK);
+	CHECK(slurp(a) && strcmp(slurp(a), "old a") == 0);
+	CHECK(slurp(b) && strcmp(slurp(b), "old b") == 0);
+	CHECK(count_entries() == 2);
+	/* both good: only the outer end renames */
+	sch_outfile_batch_begin();
+	write_one(a, "new a", &d);
+	sch_outfile_batch_begin();
+	write_one(b, "new b", &d);
+	CHECK(sch_outfile_batch_end(true, &d) == SCH_OK);
+	CHECK(slurp(b) && strcmp(slurp(b), "old b") == 0);
+	CHECK(sch_outfile_batch_end(true, &d) == SCH_OK);
+	CHECK(slurp(a) && strcmp(slurp(a), "new a") == 0);
+	CHECK(slurp(b) && strcmp(slurp(b), "new b") == 0);
+	CHECK(count_entries() == 2);
+	remove(a);
+	remove(b);
+}
+
 static void test_outfile__good_batch_replaces_every_target(void)
 {
 	char a[512], b[512];
@@ -308,7 +344,7 @@ static void test_outfile__directory_target_fails_at_open(void)
 CHECK_MAIN(CASE(test_outfile__device_target_is_written_in_place), CASE(test_outfile__symlink_target_keeps_the_link),
 	   CASE(test_outfile__directory_target_fails_at_open),
 	   CASE(test_outfile__failed_batch_leaves_every_target_untouched),
-	   CASE(test_outfile__good_batch_replaces_every_target), CASE(test_outfile__commit_replaces_target), CASE(test_outfile__abort_leaves_old_file_untouched),
+	   CASE(test_outfile__good_batch_replaces_every_target), CASE(test_outfile__nested_batch_joins_the_outer_one), CASE(test_outfile__commit_replaces_target), CASE(test_outfile__abort_leaves_old_file_untouched),
 	   CASE(test_outfile__abort_without_target_leaves_nothing),
 	   CASE(test_outfile__open_in_missing_directory_fails_naming_the_file), CASE(test_outfile__dash_is_stdout),
 	   CASE(test_outfile__new_file_gets_umask_permissions), CASE(test_outfile__replaced_file_keeps_its_mode))
