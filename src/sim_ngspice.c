@@ -31,6 +31,7 @@
 #define SCH_SIM_MAX_WORKERS 64
 #define SCH_SIM_FALLBACK_CM "/usr/lib/x86_64-linux-gnu/ngspice/spice2poly.cm"
 #define SCH_SIM_MAX_RECORD ((uint32_t)1 << 31)
+#define SCH_SIM_READS_PER_GC 128
 
 /*
  * Wire format, worker -> parent: records of kind (u8), payload length (u32), payload. Integers and
@@ -598,10 +599,27 @@ static double vector_value(const struct vector_info *vi, int i)
 	return NAN;
 }
 
-/* Values are read first: a read may print, and a message must not land inside a record. */
+/* The value of one quantity in the current plot (or the live circuit for "@dev[param]"), NaN if none. */
+static double worker_read_quantity(const char *name)
+{
+	pvector_info vi = name ? ngGet_Vec_Info((char *)name) : NULL;
+
+	return vi && vi->v_length > 0 ? vector_value(vi, vi->v_length - 1) : NAN;
+}
+
+/*
+ * Values are read first: a read may print, and a message must not land inside a record. Plot
+ * vectors ("v(out)") are read in the step's own plot. Device quantities ("@d.x1.d1[id]") are read
+ * from the live circuit after the plots are dropped (the density plot already came through
+ * SendData): each read first looks its name up in the current plot and leaves a temporary vector
+ * there, so after a noise run with per-generator vectors, reading Q of them cost O(Q x vectors)
+ * plus O(Q^2) (docs/performance.md). A command every SCH_SIM_READS_PER_GC reads lets the
+ * simulator collect the temporaries.
+ */
 static void worker_send_quantities(struct sch_worker_ctx *w, const struct sch_sim_request *req)
 {
 	double *values;
+	size_t n_device = 0;
 
 	if (req->n_quantities == 0)
 		return;
@@ -609,9 +627,22 @@ static void worker_send_quantities(struct sch_worker_ctx *w, const struct sch_si
 	if (!values)
 		_exit(4);
 	for (size_t q = 0; q < req->n_quantities; q++) {
-		pvector_info vi = req->quantities[q] ? ngGet_Vec_Info((char *)req->quantities[q]) : NULL;
+		const char *name = req->quantities[q];
 
-		values[q] = vi && vi->v_length > 0 ? vector_value(vi, vi->v_length - 1) : NAN;
+		if (name && name[0] == '@')
+			continue;
+		values[q] = worker_read_quantity(name);
+	}
+	for (size_t q = 0; q < req->n_quantities; q++) {
+		const char *name = req->quantities[q];
+
+		if (!name || name[0] != '@')
+			continue;
+		if (n_device == 0)
+			ngSpice_Command((char *)"destroy all");
+		values[q] = worker_read_quantity(name);
+		if (++n_device % SCH_SIM_READS_PER_GC == 0)
+			ngSpice_Command((char *)"unset schrot_collect_temporaries");
 	}
 	worker_header(w, SCH_REC_QUANT, 4 + 8 * req->n_quantities);
 	worker_put_u32(w, w->step);
