@@ -323,6 +323,7 @@ struct mapping {
 	int *id_vec;                /* instance -> vector index of the simulator's "id" generator, -1 */
 	int *id_row;                /* instance -> contribution index of that generator, -1 */
 	int *ic_row, *ib_row;       /* instance -> contribution index of a bipolar's "ic" / "ib" row, -1 */
+	int *probe_owner;           /* instance -> the instance whose probe it shares (a paired diode), -1 */
 };
 
 struct contrib_list {
@@ -483,7 +484,8 @@ static enum sch_err build_mapping(struct sch_result *res, const struct sch_augme
 	m->id_row = sch_arena_alloc(a, (set->n_instances + 1) * sizeof(int));
 	m->ic_row = sch_arena_alloc(a, (set->n_instances + 1) * sizeof(int));
 	m->ib_row = sch_arena_alloc(a, (set->n_instances + 1) * sizeof(int));
-	if (!m->probe_vec || !m->id_vec || !m->id_row || !m->ic_row || !m->ib_row)
+	m->probe_owner = sch_arena_alloc(a, (set->n_instances + 1) * sizeof(int));
+	if (!m->probe_vec || !m->id_vec || !m->id_row || !m->ic_row || !m->ib_row || !m->probe_owner)
 		return SCH_ERR_NOMEM;
 	for (size_t k = 0; k < set->n_instances; k++) {
 		const struct sch_instance *in = &set->instances[k];
@@ -495,11 +497,23 @@ static enum sch_err build_mapping(struct sch_result *res, const struct sch_augme
 		m->ib_row[k] = -1;
 		if (sch_strmap_put(&m->devices, in->sim_name, strlen(in->sim_name), (int)k) != SCH_OK)
 			return SCH_ERR_NOMEM;
-		if (p >= 0) {
+		m->probe_owner[k] = -1;
+		/* a shared probe belongs to the instance of the element it was made for (the carrier) */
+		if (p >= 0 && aug->probes[p].element == in->element) {
 			const char *pn = sch_augment_probe_sim_name(a, &aug->probes[p], in->path);
 			if (!pn || sch_strmap_put(&m->probes, pn, strlen(pn), (int)k) != SCH_OK)
 				return SCH_ERR_NOMEM;
 		}
+	}
+	for (size_t k = 0; k < set->n_instances; k++) {
+		const struct sch_instance *in = &set->instances[k];
+		int p = aug->probe_of_element[in->element];
+		const char *pn;
+		if (p < 0 || aug->probes[p].element == in->element)
+			continue;
+		if (!(pn = sch_augment_probe_sim_name(a, &aug->probes[p], in->path)))
+			return SCH_ERR_NOMEM;
+		m->probe_owner[k] = sch_strmap_get(&m->probes, pn, strlen(pn));
 	}
 	return SCH_OK;
 }
@@ -704,6 +718,10 @@ static enum sch_err take_noise(struct sch_result *res, const struct sch_run_opti
 		}
 	}
 
+	for (size_t k = 0; k < res->set.n_instances; k++) {
+		if (m->probe_owner[k] >= 0)
+			m->probe_vec[k] = m->probe_vec[m->probe_owner[k]];
+	}
 	/* the simulator's diode rows get their DC current; the junction correction follows */
 	for (size_t j = 0; j < q->n_diodes; j++) {
 		int k = q->diode_inst[j];
@@ -966,7 +984,7 @@ static enum sch_err analysis_core(const char *path, const struct sch_run_options
 {
 	struct sch_arena *a = &res->arena;
 	struct noise_plan plan;
-	struct sch_augment_options aopt = { NULL, false, false };
+	struct sch_augment_options aopt = { NULL, false, false, false };
 	struct sch_augmented aug;
 	struct quantity_plan q;
 	struct mapping m;
@@ -1005,6 +1023,7 @@ static enum sch_err analysis_core(const char *path, const struct sch_run_options
 				goto out;
 		}
 		aopt.junction_probes = opt->junction_correction;
+		aopt.share_paired_junctions = true;
 	}
 	if ((ret = sch_augment_build(&res->deck, &res->set, &aopt, a, &aug, d)) != SCH_OK)
 		goto out;

@@ -102,6 +102,26 @@ const char *sch_augment_probe_sim_name(struct sch_arena *arena, const struct sch
 	return sch_arena_printf(arena, "r.%.*s.%s", (int)(dot - instance_path), instance_path, p->res_name);
 }
 
+/* The carrier probe across the same two nodes as element e in the same definition, or -1. */
+static int paired_carrier_probe(const struct sch_deck *deck, const struct sch_augmented *aug, int e)
+{
+	const struct sch_element *d = &deck->elements[e];
+	const char *const *dn, *const *cn;
+
+	if (sch_deck_element_nodes(deck, d, &dn) < 2)
+		return -1;
+	for (size_t p = 0; p < aug->n_probes; p++) {
+		const struct sch_element *c = &deck->elements[aug->probes[p].element];
+		if (aug->probes[p].kind != SCH_PROBE_CARRIER || c->subckt != d->subckt ||
+		    sch_deck_element_nodes(deck, c, &cn) < 2)
+			continue;
+		if ((strcmp(cn[0], dn[0]) == 0 && strcmp(cn[1], dn[1]) == 0) ||
+		    (strcmp(cn[0], dn[1]) == 0 && strcmp(cn[1], dn[0]) == 0))
+			return (int)p;
+	}
+	return -1;
+}
+
 enum sch_err sch_augment_build(const struct sch_deck *deck, const struct sch_carrier_set *set,
 			       const struct sch_augment_options *opt, struct sch_arena *arena,
 			       struct sch_augmented *aug, struct sch_diag *d)
@@ -137,8 +157,13 @@ enum sch_err sch_augment_build(const struct sch_deck *deck, const struct sch_car
 	}
 	if (opt && opt->junction_probes) {
 		for (size_t k = 0; k < deck->n_elements; k++) {
+			int shared;
 			if (deck->elements[k].letter != 'd' || aug->probe_of_element[k] >= 0)
 				continue;
+			if (opt->share_paired_junctions && (shared = paired_carrier_probe(deck, aug, (int)k)) >= 0) {
+				aug->probe_of_element[k] = shared;
+				continue;
+			}
 			struct sch_probe *p = &aug->probes[aug->n_probes];
 			p->kind = SCH_PROBE_JUNCTION;
 			p->element = (int)k;

@@ -31,6 +31,12 @@ struct sch_augment_options {
 	const char *ac_source;   /* top-level source given " ac 1" because it has no AC value; NULL: none */
 	bool junction_probes;    /* a generator across every diode too */
 	bool keep_analyses;      /* keep the deck's own analysis and output cards (for schrot augment) */
+	/*
+	 * A diode whose two nodes are a carrier's (same definition, either order) uses that carrier's
+	 * generator instead of a junction generator of its own: probe_of_element then maps both
+	 * elements to one probe, whose simulator name is the same for both instances.
+	 */
+	bool share_paired_junctions;
 };
 
 struct sch_augmented {
