@@ -947,7 +947,7 @@ static enum sch_err vary_command(const struct sch_result *res, const char *name,
 			      name);
 }
 
-static double crossover_of(const struct sch_sweep_point *p, size_t n)
+double sch_sweep_crossover(const struct sch_sweep_point *p, size_t n)
 {
 	for (size_t i = 0; i + 1 < n; i++) {
 		double r0 = p[i].carrier_power_v2 / p[i].other_power_v2;
@@ -1128,7 +1128,7 @@ static enum sch_err analysis_core(const char *path, const struct sch_run_options
 	}
 	if (vary) {
 		vary->sweep->n_points = n_steps;
-		vary->sweep->crossover = crossover_of(vary->sweep->points, n_steps);
+		vary->sweep->crossover = sch_sweep_crossover(vary->sweep->points, n_steps);
 	}
 	if (res->set.n_noiseless) {
 		char list[400] = "";

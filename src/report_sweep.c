@@ -22,8 +22,8 @@ enum sch_err sch_report_sweep_table(const struct sch_result *r, const struct sch
 	char v[64], o[64], in[64];
 	const char *in_unit = r->input_unit && strcmp(r->input_unit, "A") == 0 ? "A" : "V";
 
-	fprintf(out, "schrot sweep: %s, varying %s, band %g Hz to %g Hz\n\n", r->netlist, s->name, r->band_lo_hz,
-		r->band_hi_hz);
+	fprintf(out, "schrot sweep: %s, varying %s, band %s to %s\n\n", r->netlist, s->name,
+		sch_si_format(o, sizeof(o), r->band_lo_hz, 3, "Hz"), sch_si_format(in, sizeof(in), r->band_hi_hz, 3, "Hz"));
 	fprintf(out, "  %12s  %14s  %14s  %16s\n",
 		strcmp(s->unit, "C") == 0 ? "temp" : strcmp(s->unit, "A") == 0 ? "DC current" : s->name, "output rms",
 		"input-referred", "carrier shot / rest");
@@ -158,25 +158,6 @@ out:
 	return ret;
 }
 
-/*
- * The crossover exactly as sch_analysis_sweep finds it (analysis.c crossover_of; keep the two
- * alike, the shard-merge test compares a joined sweep with a single run bit for bit).
- */
-static double crossover_of(const struct sch_sweep_point *p, size_t n)
-{
-	for (size_t i = 0; i + 1 < n; i++) {
-		double r0 = p[i].carrier_power_v2 / p[i].other_power_v2;
-		double r1 = p[i + 1].carrier_power_v2 / p[i + 1].other_power_v2;
-		if (!(r0 > 0) || !(r1 > 0) || !isfinite(r0) || !isfinite(r1) || (r0 - 1) * (r1 - 1) > 0 || r0 == r1)
-			continue;
-		if (p[i].value > 0 && p[i + 1].value > 0) {
-			double t = -log(r0) / (log(r1) - log(r0));
-			return exp(log(p[i].value) + t * (log(p[i + 1].value) - log(p[i].value)));
-		}
-		return p[i].value + (1 - r0) / (r1 - r0) * (p[i + 1].value - p[i].value);
-	}
-	return NAN;
-}
 
 /* One partial file as read; strings belong to doc. */
 struct partial {
@@ -338,7 +319,7 @@ enum sch_err sch_report_sweep_merge(const char *const *paths, size_t n_paths, st
 		}
 	}
 	s->n_points = (size_t)ref.n_total;
-	s->crossover = crossover_of(s->points, s->n_points);
+	s->crossover = sch_sweep_crossover(s->points, s->n_points);
 	ret = SCH_OK;
 out:
 	json_decref(ref.doc);

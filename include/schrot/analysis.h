@@ -153,6 +153,13 @@ struct sch_sweep {
 };
 
 /*
+ * The value at which the carriers' shot-noise power equals the rest, by log-log interpolation of
+ * their ratio between the first pair of points that brackets 1 (linear where a value is <= 0);
+ * NaN where the points do not cross. Points must be in sweep order. This function can't fail.
+ */
+double sch_sweep_crossover(const struct sch_sweep_point *points, size_t n);
+
+/*
  * Repeats the noise run of sch_analysis_run over values of one quantity (a current source's DC
  * value, a top-level .param through alterparam and reset, or "temp"), loading the circuit once per worker; opt->n_workers workers share the points.
  * The result res describes the last point; sweep gets every point and the crossover (log-log
