@@ -67,6 +67,7 @@ void sch_result_init(struct sch_result *res)
 	res->snr = NAN;
 	res->shot_to_rest = NAN;
 	res->nep_band_w_per_rthz = NAN;
+	res->dominant_other_share = NAN;
 	res->output_rms_v = NAN;
 	res->input_rms = NAN;
 }
@@ -787,6 +788,52 @@ static enum sch_err take_noise(struct sch_result *res, const struct sch_run_opti
 	return SCH_OK;
 }
 
+/*
+ * The device that leads the noise besides the added carrier shot noise: rows netted per device
+ * (a correction row counts against the row it corrects), the device's largest row named.
+ */
+static enum sch_err lead_other(struct sch_result *res, double total)
+{
+	struct sch_strmap devices;
+	double *sum = sch_arena_alloc(&res->arena, (res->n_contributions + 1) * sizeof(double));
+	int *first = sch_arena_alloc(&res->arena, (res->n_contributions + 1) * sizeof(int));
+	int n_dev = 0, best = -1;
+	enum sch_err ret = SCH_ERR_NOMEM;
+
+	sch_strmap_init(&devices);
+	res->dominant_other = NULL;
+	res->dominant_other_share = NAN;
+	if (!sum || !first)
+		goto out;
+	for (size_t c = 0; c < res->n_contributions; c++) {
+		const struct sch_contribution *ct = &res->contributions[c];
+		int k;
+		if (ct->origin == SCH_ORIGIN_ADDED)
+			continue;
+		k = sch_strmap_get(&devices, ct->device, strlen(ct->device));
+		if (k < 0) {
+			k = n_dev++;
+			if (sch_strmap_put(&devices, ct->device, strlen(ct->device), k) != SCH_OK)
+				goto out;
+			first[k] = (int)c; /* sorted by band power: the device's largest row */
+			sum[k] = 0;
+		}
+		sum[k] += ct->band_power;
+	}
+	for (int k = 0; k < n_dev; k++) {
+		if (sum[k] > 0 && (best < 0 || sum[k] > sum[best]))
+			best = k;
+	}
+	if (best >= 0) {
+		res->dominant_other = &res->contributions[first[best]];
+		res->dominant_other_share = total != 0 ? sum[best] / total : NAN;
+	}
+	ret = SCH_OK;
+out:
+	sch_strmap_release(&devices);
+	return ret;
+}
+
 /* Band powers, shares, spots, input referral and SNR. */
 static enum sch_err integrate(struct sch_result *res, const struct sch_run_options *opt, struct sch_diag *d)
 {
@@ -836,11 +883,8 @@ static enum sch_err integrate(struct sch_result *res, const struct sch_run_optio
 			res->carrier_power_v2 += ct->band_power;
 	}
 	qsort(res->contributions, res->n_contributions, sizeof(*res->contributions), by_band_power);
-	res->dominant_other = NULL;
-	for (size_t c = 0; c < res->n_contributions && !res->dominant_other; c++) {
-		if (res->contributions[c].origin != SCH_ORIGIN_ADDED && res->contributions[c].band_power > 0)
-			res->dominant_other = &res->contributions[c];
-	}
+	if (lead_other(res, total) != SCH_OK)
+		return SCH_ERR_NOMEM;
 	res->shot_to_rest = NAN;
 	if (res->set.n_carriers && total - res->carrier_power_v2 > 0)
 		res->shot_to_rest = res->carrier_power_v2 / (total - res->carrier_power_v2);

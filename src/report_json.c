@@ -211,6 +211,7 @@ static json_t *verdict_json(const struct sch_result *r, int *bad)
 	put(o, "shot_to_rest_power", num(r->shot_to_rest), bad);
 	put(o, "dominant_other", r->dominant_other ? text(r->dominant_other->device) : json_null(), bad);
 	put(o, "dominant_other_generator", r->dominant_other ? text(r->dominant_other->generator) : json_null(), bad);
+	put(o, "dominant_other_share", num(r->dominant_other_share), bad);
 	put(o, "text", text(sch_report_verdict(r, line, sizeof(line))), bad);
 	return o;
 }

@@ -156,8 +156,8 @@ const char *sch_report_verdict(const struct sch_result *r, char *out, size_t siz
 	const struct sch_contribution *d = r->dominant_other;
 
 	if (d)
-		snprintf(other, sizeof(other), "%s %s (%.1f %% of the output noise power)", d->device, d->generator,
-			 100.0 * d->share);
+		snprintf(other, sizeof(other), "%s (%.1f %% of the output noise power, mostly %s)", d->device,
+			 100.0 * r->dominant_other_share, d->generator);
 	if (r->set.n_carriers == 0)
 		snprintf(out, size, "no shot-noise carriers found; the noise is led by %s", other);
 	else if (isnan(r->shot_to_rest))

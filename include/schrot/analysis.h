@@ -105,7 +105,8 @@ struct sch_result {
 	double snr;                     /* signal^2 / input_rms^2; NaN without a signal */
 	double carrier_power_v2;        /* band power of all added carrier shot noise */
 	double shot_to_rest;            /* carrier_power_v2 / (everything else); NaN without carriers or rest */
-	const struct sch_contribution *dominant_other; /* largest row that is not added carrier shot noise, or NULL */
+	const struct sch_contribution *dominant_other; /* the largest row of the device that leads the rest, or NULL */
+	double dominant_other_share;    /* that device's share, all its rows netted (corrections included) */
 	double nep_band_w_per_rthz;     /* input_rms / sqrt(band width) / responsivity; NaN without one */
 	const char **notes;             /* assumptions and corrections applied, for reports */
 	size_t n_notes;
