@@ -33,7 +33,7 @@ void sch_cmd_print_help(FILE *out)
 	      "  --budget VRMS          exit 1 when the band's output rms exceeds it (SI suffixes: 50u)\n"
 	      "  --output EXPR --input SRC --freq F1:F2[:PPD]   the noise run when the netlist has no .noise line\n"
 	      "  --jobs N               sweep: worker processes (default 2);  --shard K/N  sweep: only share K of N\n"
-	      "  --window T --duration D --windows N --step S --settle S --seed S   arrivals: the time-domain run\n"
+	      "  --window T --duration D --windows N --step DT --settle TS --seed S   arrivals: the time-domain run\n"
 	      "  --json FILE  --csv FILE  --spectrum FILE.csv  --top N  --plot FILE.svg|png  --html FILE  --depfile FILE\n"
 	      "                         outputs ('-' is stdout for --json); written atomically\n"
 	      "  -q  only errors;  -v  notes and simulator messages;  --help;  --version\n"
