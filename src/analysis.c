@@ -1023,6 +1023,101 @@ static bool needs_dc_solution(const struct sch_result *res)
 	return false;
 }
 
+/*
+ * The netlist card behind a simulator failure, or -1. The simulator numbers the lines of the deck
+ * it was given ("Error on line 4 ...", our title is line 1), which aug->line_card maps back, and
+ * names expanded subcircuit elements ("Error on line: n.x1.n7 ..."), which the instances map back.
+ */
+static int card_of_failure(const struct sch_result *res, const struct sch_augmented *aug, const char *reason)
+{
+	static const char key[] = "rror on line";
+	const char *at = strstr(reason, key);
+
+	if (!at)
+		return -1;
+	at += strlen(key);
+	if (at[0] == ' ' && at[1] >= '0' && at[1] <= '9') {
+		long n = strtol(at + 1, NULL, 10);
+		return n >= 1 && (size_t)n <= aug->n_lines ? aug->line_card[n - 1] : -1;
+	}
+	if (at[0] == ':' && at[1] == ' ') {
+		size_t len = strcspn(at + 2, " :");
+		for (size_t k = 0; k < res->set.n_instances; k++) {
+			const char *sim = res->set.instances[k].sim_name;
+			if (strlen(sim) == len && strncmp(sim, at + 2, len) == 0)
+				return res->deck.elements[res->set.instances[k].element].card;
+		}
+	}
+	return -1;
+}
+
+/*
+ * Reports a simulator failure at the netlist line it concerns: "input.cir:4: error: simulator:
+ * n1 a 0 foo: unknown device type - error". The simulator's own line reference goes; so does its
+ * echo of the card when the card comes from an included file (text of included files is never
+ * quoted, docs/security.md). Without a known card the reason is reported as it came.
+ */
+static void report_failure(const struct sch_result *res, const struct sch_augmented *aug, const char *reason,
+			   struct sch_diag *d)
+{
+	int card = card_of_failure(res, aug, reason);
+	const struct sch_card *c;
+	const char *rest;
+
+	if (card < 0 || (size_t)card >= res->deck.n_cards) {
+		sch_diag_error(d, SCH_ERR_SIM, NULL, 0, "simulator: %s", reason);
+		return;
+	}
+	c = &res->deck.cards[card];
+	rest = strstr(reason, "rror on line");
+	rest = strstr(rest, ": ");
+	rest = rest ? rest + 2 : reason;
+	if (c->file != res->deck.path && strstr(rest, ": "))
+		for (const char *p = strstr(rest, ": "); p; p = strstr(p + 2, ": "))
+			rest = p + 2;
+	sch_diag_error(d, SCH_ERR_SIM, c->file, c->line, "simulator: %s", rest);
+}
+
+/*
+ * sch_sim_run with its failure line held back and reported again at the netlist's FILE:LINE; every
+ * other message passes through unchanged and in order.
+ */
+static enum sch_err run_simulator(const struct sch_result *res, const struct sch_augmented *aug,
+				  const struct sch_sim_request *req, struct sch_sim_result *sim, struct sch_diag *d)
+{
+	struct sch_diag held;
+	char *text = NULL, *line, *next;
+	size_t len = 0;
+	FILE *mem = open_memstream(&text, &len);
+	enum sch_err ret;
+	bool relocate;
+
+	if (!mem)
+		return sch_sim_run(req, sim, d);
+	sch_diag_init(&held, mem, d->verbosity);
+	ret = sch_sim_run(req, sim, &held);
+	fclose(mem);
+	relocate = ret == SCH_ERR_SIM && sim->failure && held.n_errors == 1;
+	for (line = text; line && *line; line = next) {
+		next = strchr(line, '\n');
+		next = next ? next + 1 : line + strlen(line);
+		if (relocate && strncmp(line, "schrot: error: simulator: ", 26) == 0)
+			continue;
+		if (d->sink)
+			fwrite(line, 1, (size_t)(next - line), d->sink);
+	}
+	free(text);
+	d->n_warnings += held.n_warnings;
+	if (relocate) {
+		report_failure(res, aug, sim->failure, d);
+	} else if (held.n_errors) {
+		if (d->n_errors == 0)
+			memcpy(d->first_error, held.first_error, sizeof(d->first_error));
+		d->n_errors += held.n_errors;
+	}
+	return ret;
+}
+
 static enum sch_err analysis_core(const char *path, const struct sch_run_options *opt, const struct vary_plan *vary,
 				  struct sch_result *res, struct sch_diag *d)
 {
@@ -1120,7 +1215,7 @@ static enum sch_err analysis_core(const char *path, const struct sch_run_options
 	req.n_workers = vary ? opt->n_workers : 1;
 	if (vary && opt->progress)
 		opt->progress(opt->progress_ctx, 0, n_steps);
-	if ((ret = sch_sim_run(&req, &sim, d)) != SCH_OK)
+	if ((ret = run_simulator(res, &aug, &req, &sim, d)) != SCH_OK)
 		goto out;
 	res->sim_version = sch_arena_strdup(a, sim.version ? sim.version : "ngspice");
 	noiseless_all = res->set.noiseless;
