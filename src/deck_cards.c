@@ -715,11 +715,22 @@ static enum sch_err check_names(struct sch_deck_load *ld)
 		if (e->letter == 'x') {
 			const char *sub = e->tok[sch_deck_x_name_index(e)];
 
-			if (sch_deck_resolve_subckt(ld->subckts, &sx, sub, e->subckt) < 0) {
-				char q[SCH_DECK_QUOTE_MAX + 8];
+			int def = sch_deck_resolve_subckt(ld->subckts, &sx, sub, e->subckt);
+			int n_nodes = sch_deck_x_name_index(e);
+			char q[SCH_DECK_QUOTE_MAX + 8];
 
+			if (def < 0) {
 				ret = sch_diag_error(ld->d, SCH_ERR_INPUT, c->file, c->line, "unknown subcircuit%s",
 						     sch_deck_quote(ld->deck, c->file, sub, "", q, sizeof(q)));
+				goto out;
+			}
+			/* the simulator would only say that no circuit is loaded */
+			if (n_nodes != ld->subckts[def].n_ports) {
+				ret = sch_diag_error(ld->d, SCH_ERR_INPUT, c->file, c->line,
+						     "'%s' connects %d node%s but subcircuit%s has %d port%s", e->name, n_nodes,
+						     n_nodes == 1 ? "" : "s",
+						     sch_deck_quote(ld->deck, c->file, sub, "", q, sizeof(q)),
+						     ld->subckts[def].n_ports, ld->subckts[def].n_ports == 1 ? "" : "s");
 				goto out;
 			}
 		} else if (check_model_use(ld, &mx, e) != SCH_OK) {
