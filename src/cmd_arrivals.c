@@ -32,17 +32,13 @@ int cmd_arrivals(int argc, char **argv, struct sch_ctx *ctx)
 	struct sch_cli cli;
 	struct sch_arrivals res;
 	struct sch_arrivals_options opt;
+	bool done;
 	enum sch_err ret;
 
 	sch_arrivals_init(&res);
-	ret = sch_cli_parse(&cli, argc, argv, &ctx->diag);
-	if (ret != SCH_OK)
+	ret = sch_cmd_start(&cli, argc, argv, ctx, print_help, &done);
+	if (ret != SCH_OK || done)
 		goto out;
-	if (cli.help) {
-		print_help(stdout);
-		goto out;
-	}
-	ctx->diag.verbosity = cli.verbosity;
 	if (isnan(cli.window_s)) {
 		ret = sch_diag_error(&ctx->diag, SCH_ERR_USAGE, NULL, 0, "arrivals needs --window T (try 'schrot arrivals --help')");
 		goto out;

@@ -11,17 +11,13 @@ int cmd_report(int argc, char **argv, struct sch_ctx *ctx)
 {
 	struct sch_cli cli;
 	struct sch_result res;
+	bool done;
 	enum sch_err ret;
 
 	sch_result_init(&res);
-	ret = sch_cli_parse(&cli, argc, argv, &ctx->diag);
-	if (ret != SCH_OK)
+	ret = sch_cmd_start(&cli, argc, argv, ctx, NULL, &done);
+	if (ret != SCH_OK || done)
 		goto out;
-	if (cli.help) {
-		sch_cmd_print_help(stdout);
-		goto out;
-	}
-	ctx->diag.verbosity = cli.verbosity;
 	cli.run.mode = SCH_RUN_REPORT;
 	ret = sch_analysis_run(cli.netlist, &cli.run, &res, &ctx->diag);
 	if (ret != SCH_OK)

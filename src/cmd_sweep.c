@@ -111,19 +111,15 @@ int cmd_sweep(int argc, char **argv, struct sch_ctx *ctx)
 	size_t n = 0;
 	char name[256];
 	bool jobs_given = false;
+	bool done;
 	enum sch_err ret;
 
 	sch_result_init(&res);
 	for (int i = 1; i < argc; i++)
 		jobs_given |= strncmp(argv[i], "--jobs", 6) == 0;
-	ret = sch_cli_parse(&cli, argc, argv, &ctx->diag);
-	if (ret != SCH_OK)
+	ret = sch_cmd_start(&cli, argc, argv, ctx, NULL, &done);
+	if (ret != SCH_OK || done)
 		goto out;
-	if (cli.help) {
-		sch_cmd_print_help(stdout);
-		goto out;
-	}
-	ctx->diag.verbosity = cli.verbosity;
 	if (!cli.vary) {
 		ret = sch_diag_error(&ctx->diag, SCH_ERR_USAGE, NULL, 0, "sweep needs --vary NAME=START:STOP:N (try 'schrot --help')");
 		goto out;

@@ -9,6 +9,8 @@
 #ifndef SCH_CMD_H
 #define SCH_CMD_H
 
+#include <stdbool.h>
+#include <stdio.h>
 #include "schrot/cli.h"
 #include "schrot/diag.h"
 
@@ -30,5 +32,13 @@ enum sch_err sch_cmd_write_outputs(const struct sch_cli *cli, const struct sch_r
 
 /* Prints the help text of the whole tool to out. */
 void sch_cmd_print_help(FILE *out);
+
+/*
+ * The start every command shares: parses argv into cli, prints help (with help, or the tool's
+ * help when NULL) and sets *done when --help was given, and applies -q/-v to the diagnostics.
+ * Returns SCH_ERR_USAGE for bad options (message printed). cli must be released in every case.
+ */
+enum sch_err sch_cmd_start(struct sch_cli *cli, int argc, char **argv, struct sch_ctx *ctx, void (*help)(FILE *out),
+			   bool *done);
 
 #endif
