@@ -15,6 +15,7 @@
 #include "schrot/arrivals.h"
 #include "schrot/outfile.h"
 #include "schrot/si.h"
+#include "report_int.h"
 
 #define HIST_MAX_BINS 60
 #define OUTPUT_BINS 40
@@ -393,64 +394,14 @@ static enum sch_err draw(cairo_t *cr, const struct sch_arrivals *a)
 	return cairo_status(cr) == CAIRO_STATUS_SUCCESS ? SCH_OK : SCH_ERR_IO;
 }
 
-static cairo_status_t write_file(void *closure, const unsigned char *data, unsigned int length)
+static enum sch_err draw_arrivals(cairo_t *cr, const void *ctx)
 {
-	return fwrite(data, 1, length, closure) == length ? CAIRO_STATUS_SUCCESS : CAIRO_STATUS_WRITE_ERROR;
-}
-
-static bool has_ext(const char *path, const char *ext)
-{
-	size_t n = strlen(path), e = strlen(ext);
-
-	if (n <= e)
-		return false;
-	for (size_t i = 0; i < e; i++)
-		if (tolower((unsigned char)path[n - e + i]) != ext[i])
-			return false;
-	return true;
+	return draw(cr, ctx);
 }
 
 enum sch_err sch_report_arrivals_plot(const struct sch_arrivals *a, const char *path, struct sch_diag *d)
 {
-	enum sch_err ret = SCH_ERR_USAGE;
-	struct sch_outfile o;
-	cairo_surface_t *surface = NULL;
-	cairo_t *cr;
-	bool svg = has_ext(path, ".svg"), open = false;
 	size_t n_panels = 1 + (a->n_counts < MAX_COUNT_PANELS ? a->n_counts : MAX_COUNT_PANELS);
-	double height = PLOT_TOP + PANEL_H * (double)n_panels;
 
-	if (!svg && !has_ext(path, ".png")) {
-		ret = sch_diag_error(d, SCH_ERR_USAGE, path, 0, "plot file name must end in .svg or .png");
-		goto out;
-	}
-	if ((ret = sch_outfile_open(&o, path, d)) != SCH_OK)
-		goto out;
-	open = true;
-	if (svg)
-		surface = cairo_svg_surface_create_for_stream(write_file, o.fp, PLOT_W, height);
-	else
-		surface = cairo_image_surface_create(CAIRO_FORMAT_RGB24, (int)PLOT_W, (int)height);
-	cr = cairo_create(surface);
-	ret = draw(cr, a);
-	cairo_destroy(cr);
-	cairo_surface_flush(surface);
-	if (ret == SCH_OK && !svg && cairo_surface_write_to_png_stream(surface, write_file, o.fp) != CAIRO_STATUS_SUCCESS)
-		ret = SCH_ERR_IO;
-	cairo_surface_finish(surface);
-	if (ret == SCH_OK && cairo_surface_status(surface) != CAIRO_STATUS_SUCCESS)
-		ret = SCH_ERR_IO;
-	if (ret != SCH_OK) {
-		ret = sch_diag_error(d, ret, path, 0, "cannot draw the plot: %s",
-				     cairo_status_to_string(cairo_surface_status(surface)));
-		goto out;
-	}
-	open = false;
-	ret = sch_outfile_commit(&o, d);
-out:
-	if (surface)
-		cairo_surface_destroy(surface);
-	if (open)
-		sch_outfile_abort(&o);
-	return ret;
+	return sch_report_figure(path, PLOT_W, PLOT_TOP + PANEL_H * (double)n_panels, draw_arrivals, a, d);
 }

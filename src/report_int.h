@@ -3,6 +3,7 @@
 #ifndef SCH_REPORT_INT_H
 #define SCH_REPORT_INT_H
 
+#include <cairo.h>
 #include <stddef.h>
 #include "schrot/analysis.h"
 #include "schrot/buf.h"
@@ -34,5 +35,13 @@ size_t sch_report_width(const char *s);
  * appended so far on failure and is the caller's to release.
  */
 enum sch_err sch_report_plot_svg(const struct sch_result *r, struct sch_buf *out);
+
+/*
+ * Writes a figure of width x height that draw_fn paints (given ctx) as SVG or PNG, chosen by the
+ * extension of path, atomically. SCH_ERR_USAGE for another extension or when draw_fn finds nothing
+ * to draw (it returns SCH_ERR_USAGE), SCH_ERR_IO when cairo or the file fails; messages name path.
+ */
+enum sch_err sch_report_figure(const char *path, double width, double height,
+			       enum sch_err (*draw_fn)(cairo_t *cr, const void *ctx), const void *ctx, struct sch_diag *d);
 
 #endif

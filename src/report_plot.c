@@ -467,32 +467,32 @@ static bool has_ext(const char *path, const char *ext)
 	return true;
 }
 
-enum sch_err sch_report_plot(const struct sch_result *r, const char *path, struct sch_diag *d)
+enum sch_err sch_report_figure(const char *path, double width, double height,
+			       enum sch_err (*draw_fn)(cairo_t *cr, const void *ctx), const void *ctx, struct sch_diag *d)
 {
 	enum sch_err ret = SCH_ERR_USAGE;
 	struct sch_outfile o;
 	cairo_surface_t *surface = NULL;
+	cairo_t *cr;
 	bool svg = has_ext(path, ".svg"), open = false;
 
 	if (!svg && !has_ext(path, ".png")) {
 		ret = sch_diag_error(d, SCH_ERR_USAGE, path, 0, "plot file name must end in .svg or .png");
 		goto out;
 	}
-	if (r->n_freq == 0) {
-		ret = sch_diag_error(d, SCH_ERR_USAGE, path, 0, "the plot needs a noise analysis");
-		goto out;
-	}
-	ret = sch_outfile_open(&o, path, d);
-	if (ret != SCH_OK)
+	if ((ret = sch_outfile_open(&o, path, d)) != SCH_OK)
 		goto out;
 	open = true;
 	if (svg)
-		surface = cairo_svg_surface_create_for_stream(write_file, o.fp, PLOT_W, PLOT_H);
+		surface = cairo_svg_surface_create_for_stream(write_file, o.fp, width, height);
 	else
-		surface = cairo_image_surface_create(CAIRO_FORMAT_RGB24, (int)PLOT_W, (int)PLOT_H);
-	ret = render(surface, r);
+		surface = cairo_image_surface_create(CAIRO_FORMAT_RGB24, (int)width, (int)height);
+	cr = cairo_create(surface);
+	ret = draw_fn(cr, ctx);
+	cairo_destroy(cr);
+	cairo_surface_flush(surface);
 	if (ret == SCH_ERR_USAGE) {
-		ret = sch_diag_error(d, ret, path, 0, "nothing to plot: no positive noise density");
+		ret = sch_diag_error(d, ret, path, 0, "nothing to plot: no positive value to draw");
 		goto out;
 	}
 	if (ret == SCH_OK && !svg && cairo_surface_write_to_png_stream(surface, write_file, o.fp) != CAIRO_STATUS_SUCCESS)
@@ -513,4 +513,16 @@ out:
 	if (open)
 		sch_outfile_abort(&o);
 	return ret;
+}
+
+static enum sch_err draw_result(cairo_t *cr, const void *ctx)
+{
+	return draw(cr, ctx);
+}
+
+enum sch_err sch_report_plot(const struct sch_result *r, const char *path, struct sch_diag *d)
+{
+	if (r->n_freq == 0)
+		return sch_diag_error(d, SCH_ERR_USAGE, path, 0, "the plot needs a noise analysis");
+	return sch_report_figure(path, PLOT_W, PLOT_H, draw_result, r, d);
 }
