@@ -13,6 +13,16 @@
 
 /* ---- small helpers ---------------------------------------------------------------------- */
 
+/* The capacity that holds entry n (doubling from 16), or 0 when it would overflow. */
+static size_t grown_capacity(size_t alloc, size_t n, size_t size)
+{
+	size_t want = alloc ? alloc * 2 : 16;
+
+	if (want <= n)
+		want = n + 1;
+	return want > SIZE_MAX / size || want > (size_t)INT_MAX ? 0 : want;
+}
+
 enum sch_err sch_deck_grow(void **data, size_t *alloc, size_t n, size_t size)
 {
 	size_t want;
@@ -20,13 +30,7 @@ enum sch_err sch_deck_grow(void **data, size_t *alloc, size_t n, size_t size)
 
 	if (n < *alloc)
 		return SCH_OK;
-	want = *alloc ? *alloc * 2 : 16;
-	if (want <= n)
-		want = n + 1;
-	if (want > SIZE_MAX / size || want > (size_t)INT_MAX)
-		return SCH_ERR_NOMEM;
-	p = realloc(*data, want * size);
-	if (!p)
+	if (!(want = grown_capacity(*alloc, n, size)) || !(p = realloc(*data, want * size)))
 		return SCH_ERR_NOMEM;
 	*data = p;
 	*alloc = want;
@@ -40,13 +44,7 @@ enum sch_err sch_deck_arena_grow(struct sch_arena *a, void **data, size_t *alloc
 
 	if (n < *alloc)
 		return SCH_OK;
-	want = *alloc ? *alloc * 2 : 16;
-	if (want <= n)
-		want = n + 1;
-	if (want > SIZE_MAX / size || want > (size_t)INT_MAX)
-		return SCH_ERR_NOMEM;
-	p = sch_arena_alloc(a, want * size);
-	if (!p)
+	if (!(want = grown_capacity(*alloc, n, size)) || !(p = sch_arena_alloc(a, want * size)))
 		return SCH_ERR_NOMEM;
 	if (*alloc)
 		memcpy(p, *data, *alloc * size);
