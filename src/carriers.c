@@ -5,6 +5,7 @@
 #include <string.h>
 #include "schrot/carriers.h"
 #include "schrot/physics.h"
+#include "schrot/strmap.h"
 
 /* True for elements that force a current: I; G; F; B with i=. */
 static bool is_current_element(const struct sch_element *e)
@@ -26,24 +27,44 @@ static const char *leaf_name(const char *path)
 	return dot ? dot + 1 : path;
 }
 
-/* A diode in the same definition whose two nodes are the element's two nodes; NULL if none. */
-static const struct sch_element *paired_diode(const struct sch_deck *deck, const struct sch_element *e)
+/*
+ * The key of an unordered node pair in one definition: "scope a b" with the two nodes sorted, so
+ * that a diode and a current element across the same nodes (either order) meet. NULL when out of
+ * memory or when the element has fewer than two nodes.
+ */
+static const char *pair_key(struct sch_arena *arena, const struct sch_deck *deck, const struct sch_element *e)
 {
-	const char *const *en;
-	if (sch_deck_element_nodes(deck, e, &en) < 2)
+	const char *const *n;
+	int swap;
+
+	if (sch_deck_element_nodes(deck, e, &n) < 2)
 		return NULL;
+	swap = strcmp(n[0], n[1]) > 0;
+	return sch_arena_printf(arena, "%d %s %s", e->subckt, n[swap], n[!swap]);
+}
+
+/* Maps each diode's node pair to the diode (the first one across a pair wins). */
+static enum sch_err index_diodes(const struct sch_deck *deck, struct sch_arena *arena, struct sch_strmap *pairs)
+{
 	for (size_t k = 0; k < deck->n_elements; k++) {
-		const struct sch_element *d = &deck->elements[k];
-		const char *const *dn;
-		if (d->letter != 'd' || d->subckt != e->subckt)
+		const char *key;
+		if (deck->elements[k].letter != 'd' || !(key = pair_key(arena, deck, &deck->elements[k])))
 			continue;
-		if (sch_deck_element_nodes(deck, d, &dn) < 2)
-			continue;
-		if ((strcmp(dn[0], en[0]) == 0 && strcmp(dn[1], en[1]) == 0) ||
-		    (strcmp(dn[0], en[1]) == 0 && strcmp(dn[1], en[0]) == 0))
-			return d;
+		if (sch_strmap_get(pairs, key, strlen(key)) < 0 &&
+		    sch_strmap_put(pairs, key, strlen(key), (int)k) != SCH_OK)
+			return SCH_ERR_NOMEM;
 	}
-	return NULL;
+	return SCH_OK;
+}
+
+/* A diode in the same definition whose two nodes are the element's two nodes; NULL if none. */
+static const struct sch_element *paired_diode(const struct sch_deck *deck, struct sch_arena *arena,
+					      const struct sch_strmap *pairs, const struct sch_element *e)
+{
+	const char *key = pair_key(arena, deck, e);
+	int d = key ? sch_strmap_get(pairs, key, strlen(key)) : -1;
+
+	return d >= 0 ? &deck->elements[d] : NULL;
 }
 
 /* Compiles each rule's regex (whole name, caseless) into pats[]. */
@@ -87,11 +108,13 @@ enum sch_err sch_carriers_find(const struct sch_deck *deck, const struct sch_car
 	enum sch_err ret;
 	struct sch_pattern *name_rule = NULL, *add = NULL, *ignore = NULL;
 	struct elem_info *info = NULL;
+	struct sch_strmap pairs;
 	struct sch_pattern *aval_pat[64] = { NULL }, *fano_pat[64] = { NULL };
 	size_t n_aval = opt ? opt->n_avalanche : 0, n_fano = opt ? opt->n_fano : 0;
 	size_t n_cur = 0;
 
 	memset(set, 0, sizeof(*set));
+	sch_strmap_init(&pairs);
 	ret = sch_pattern_compile(&name_rule, SCH_DEFAULT_CARRIER_REGEX, SCH_PAT_CASELESS | SCH_PAT_WHOLE,
 				  "default carrier rule", d);
 	if (ret != SCH_OK)
@@ -121,12 +144,14 @@ enum sch_err sch_carriers_find(const struct sch_deck *deck, const struct sch_car
 	info = sch_arena_alloc(arena, (deck->n_elements + 1) * sizeof(*info));
 	if (!info)
 		goto out;
+	if (index_diodes(deck, arena, &pairs) != SCH_OK)
+		goto out;
 	for (size_t k = 0; k < deck->n_elements; k++) {
 		const struct sch_element *e = &deck->elements[k];
 		info[k].current = is_current_element(e);
 		if (!info[k].current)
 			continue;
-		info[k].diode = paired_diode(deck, e);
+		info[k].diode = paired_diode(deck, arena, &pairs, e);
 		info[k].name_rule = sch_pattern_match(name_rule, e->name, strlen(e->name));
 	}
 	for (size_t k = 0; k < set->n_instances; k++) {
@@ -212,6 +237,7 @@ enum sch_err sch_carriers_find(const struct sch_deck *deck, const struct sch_car
 	}
 	ret = SCH_OK;
 out:
+	sch_strmap_release(&pairs);
 	free_rules(aval_pat, n_aval <= 64 ? n_aval : 0);
 	free_rules(fano_pat, n_fano <= 64 ? n_fano : 0);
 	sch_pattern_free(name_rule);
