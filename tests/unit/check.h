@@ -3,9 +3,12 @@
 #ifndef SCH_CHECK_H
 #define SCH_CHECK_H
 
+#include <dirent.h>
 #include <math.h>
 #include <stdio.h>
+#include <stdlib.h>
 #include <string.h>
+#include <unistd.h>
 
 static int check_failures;
 static int check_count;
@@ -43,6 +46,37 @@ static int check_count;
 				check_m_ > 0 ? fabs(check_x_ - check_y_) / check_m_ : 0.0, (double)(rel)); \
 		}                                                                          \
 	} while (0)
+
+static char check_dir_path[64];
+
+static void check_dir_remove(void)
+{
+	DIR *dp = opendir(check_dir_path);
+	struct dirent *e;
+	char p[512];
+
+	if (!dp)
+		return;
+	while ((e = readdir(dp)))
+		if (strcmp(e->d_name, ".") && strcmp(e->d_name, "..")) {
+			snprintf(p, sizeof(p), "%s/%s", check_dir_path, e->d_name);
+			remove(p);
+		}
+	closedir(dp);
+	rmdir(check_dir_path);
+}
+
+/* A private scratch directory for the test program (made on first use, removed at exit). */
+static inline const char *check_scratch_dir(void)
+{
+	if (!check_dir_path[0]) {
+		snprintf(check_dir_path, sizeof(check_dir_path), "/tmp/schrot-test-XXXXXX");
+		if (!mkdtemp(check_dir_path))
+			abort();
+		atexit(check_dir_remove);
+	}
+	return check_dir_path;
+}
 
 struct check_case {
 	const char *name;

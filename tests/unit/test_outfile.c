@@ -8,43 +8,18 @@
 #include "check.h"
 #include "schrot/outfile.h"
 
-static char dir[64];
-
-static void remove_dir(void)
-{
-	DIR *dp = opendir(dir);
-	struct dirent *e;
-	char p[512];
-
-	if (!dp)
-		return;
-	while ((e = readdir(dp)))
-		if (strcmp(e->d_name, ".") && strcmp(e->d_name, "..")) {
-			snprintf(p, sizeof(p), "%s/%s", dir, e->d_name);
-			remove(p);
-		}
-	closedir(dp);
-	rmdir(dir);
-}
-
-/* A fresh scratch file name in a private directory, removed at exit. */
+/* A fresh scratch file name in the test's private directory. */
 static const char *scratch(const char *name)
 {
 	static char p[512];
 
-	if (!dir[0]) {
-		snprintf(dir, sizeof(dir), "/tmp/schrot-outfile-XXXXXX");
-		if (!mkdtemp(dir))
-			abort();
-		atexit(remove_dir);
-	}
-	snprintf(p, sizeof(p), "%s/%s", dir, name);
+	snprintf(p, sizeof(p), "%s/%s", check_scratch_dir(), name);
 	return p;
 }
 
 static int count_entries(void)
 {
-	DIR *dp = opendir(dir);
+	DIR *dp = opendir(check_scratch_dir());
 	struct dirent *e;
 	int n = 0;
 
@@ -336,7 +311,7 @@ static void test_outfile__directory_target_fails_at_open(void)
 
 	sch_diag_init(&d, NULL, 0);
 	scratch("x");
-	CHECK(sch_outfile_open(&o, dir, &d) == SCH_ERR_IO);
+	CHECK(sch_outfile_open(&o, check_scratch_dir(), &d) == SCH_ERR_IO);
 	CHECK(strstr(d.first_error, "it is a directory") != NULL);
 	CHECK(count_entries() == 0);
 }

@@ -14,8 +14,6 @@
 #define N_FREQ 31
 #define N_CONTRIB 4
 
-static char dir[64];
-
 /*
  * fontconfig (loaded by cairo for the plot's text) keeps its configuration for the life of the
  * process; LeakSanitizer would count that as a leak of ours.
@@ -26,33 +24,10 @@ const char *__lsan_default_suppressions(void)
 	return "leak:libfontconfig\n";
 }
 
-static void remove_dir(void)
-{
-	DIR *dp = opendir(dir);
-	struct dirent *e;
-	char p[512];
-
-	if (!dp)
-		return;
-	while ((e = readdir(dp)))
-		if (strcmp(e->d_name, ".") && strcmp(e->d_name, "..")) {
-			snprintf(p, sizeof(p), "%s/%s", dir, e->d_name);
-			remove(p);
-		}
-	closedir(dp);
-	rmdir(dir);
-}
-
-/* A scratch file name in a private directory removed at exit; each call has its own storage. */
+/* A scratch file name in the test's private directory; each call has its own storage. */
 static const char *scratch(struct sch_arena *a, const char *name)
 {
-	if (!dir[0]) {
-		snprintf(dir, sizeof(dir), "/tmp/schrot-report-XXXXXX");
-		if (!mkdtemp(dir))
-			abort();
-		atexit(remove_dir);
-	}
-	return sch_arena_printf(a, "%s/%s", dir, name);
+	return sch_arena_printf(a, "%s/%s", check_scratch_dir(), name);
 }
 
 static char *slurp(const char *path, size_t *len)
