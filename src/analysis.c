@@ -10,6 +10,7 @@
 #include <string.h>
 #include "schrot/analysis.h"
 #include "schrot/augment.h"
+#include "schrot/pattern.h"
 #include "schrot/physics.h"
 #include "schrot/si.h"
 #include "schrot/sim.h"
@@ -110,7 +111,8 @@ struct noise_plan {
 	const char *input;
 	char letter;        /* 'i' or 'v' */
 	double f_start, f_stop;
-	char command[1024];
+	char command[1040];
+	char bare_command[1024]; /* the same run without per-device vectors */
 	bool needs_ac;      /* the input source has no AC value of its own */
 };
 
@@ -233,8 +235,9 @@ static enum sch_err plan_noise(const struct sch_deck *deck, const struct sch_run
 	plan->input = sch_arena_strdup(a, in_lower);
 	plan->letter = src->letter;
 	plan->needs_ac = !element_has_ac(src);
-	snprintf(plan->command, sizeof(plan->command), "noise %s %s %s %ld %.17g %.17g 1", out_norm, in_lower, sweep,
-		 n_points, plan->f_start, plan->f_stop);
+	snprintf(plan->bare_command, sizeof(plan->bare_command), "noise %s %s %s %ld %.17g %.17g", out_norm, in_lower,
+		 sweep, n_points, plan->f_start, plan->f_stop);
+	snprintf(plan->command, sizeof(plan->command), "%s 1", plan->bare_command);
 	return plan->output && plan->input ? SCH_OK : SCH_ERR_NOMEM;
 }
 
@@ -351,6 +354,7 @@ static struct sch_contribution *contrib_add(struct sch_arena *a, struct contrib_
 	if (!c->psd)
 		return NULL;
 	c->dc_current_a = NAN;
+	c->device_count = 1;
 	l->n++;
 	return c;
 }
@@ -615,9 +619,100 @@ static int correct_bipolar(struct sch_result *res, const struct quantity_plan *q
 }
 
 /* Contributions of one noise outcome: scaled generators, the simulator's own, and corrections. */
+/* --lump: which resistor definitions run quiet, and the row that stands for them. */
+struct lump_plan {
+	bool *quiet;          /* deck element index -> quiet; NULL when there is no lump */
+	size_t n_instances;   /* resistor instances in the row */
+	const char *label;    /* the row's device name */
+};
+
+/*
+ * Matches --lump against every resistor instance. noisy=0 goes on a definition's line, so every
+ * instance of a definition must match, or none.
+ */
+static enum sch_err plan_lump(struct sch_result *res, const char *regex, struct lump_plan *lp, struct sch_diag *d)
+{
+	struct sch_arena *a = &res->arena;
+	const struct sch_deck *deck = &res->deck;
+	struct sch_pattern *pat = NULL;
+	unsigned char *seen = sch_arena_alloc(a, deck->n_elements + 1); /* bit 1: a match, bit 2: a miss */
+	enum sch_err ret;
+
+	memset(lp, 0, sizeof(*lp));
+	lp->quiet = sch_arena_alloc(a, (deck->n_elements + 1) * sizeof(bool));
+	if (!seen || !lp->quiet)
+		return SCH_ERR_NOMEM;
+	if ((ret = sch_pattern_compile(&pat, regex, SCH_PAT_CASELESS | SCH_PAT_WHOLE, "--lump", d)) != SCH_OK)
+		return ret;
+	for (size_t k = 0; k < res->set.n_instances; k++) {
+		const struct sch_instance *in = &res->set.instances[k];
+		if (deck->elements[in->element].letter != 'r')
+			continue;
+		if (sch_pattern_match(pat, in->path, strlen(in->path))) {
+			seen[in->element] |= 1;
+			lp->n_instances++;
+		} else {
+			seen[in->element] |= 2;
+		}
+	}
+	sch_pattern_free(pat);
+	for (size_t e = 0; e < deck->n_elements; e++) {
+		const struct sch_card *card = &deck->cards[deck->elements[e].card];
+		if (seen[e] == 3)
+			return sch_diag_error(d, SCH_ERR_USAGE, card->file, card->line,
+					      "--lump '%s' matches some instances of resistor '%s' but not all: a lump "
+					      "takes a subcircuit's resistor in every instance or in none",
+					      regex, deck->elements[e].name);
+		lp->quiet[e] = seen[e] == 1;
+	}
+	if (lp->n_instances == 0)
+		return sch_diag_error(d, SCH_ERR_USAGE, NULL, 0, "--lump '%s' matches no resistor", regex);
+	lp->label = sch_arena_printf(a, "%zu resistor%s /%s/", lp->n_instances, lp->n_instances == 1 ? "" : "s", regex);
+	return lp->label ? SCH_OK : SCH_ERR_NOMEM;
+}
+
+/*
+ * The lump's row: the circuit's own output density (the second run: every resistor noisy, our
+ * generators quiet) less the sum of the simulator's rows of the per-device run, where the lumped
+ * resistors were quiet. Both runs solve the same circuit, so the difference is the lumped
+ * resistors' noise (thermal, and flicker if their models give one), restated with the exact SI
+ * 2019 k. Neither side holds a generator's unit density, so no digits are lost next to it.
+ */
+static enum sch_err add_lump_row(struct sch_result *res, const struct lump_plan *lp, const double *own,
+				 const struct sch_sim_outcome *o, const struct sch_sim_outcome *full,
+				 struct contrib_list *list, struct sch_diag *d)
+{
+	const struct sch_sim_vector *fa = sch_sim_find_vector(o, "frequency");
+	const struct sch_sim_vector *fb = sch_sim_find_vector(full, "frequency");
+	const struct sch_sim_vector *ob = sch_sim_find_vector(full, "onoise_spectrum");
+	struct sch_contribution *ct;
+	size_t nf = res->n_freq;
+
+	if (!fa || !fb || !ob || fb->n != nf || ob->n != nf)
+		return sch_diag_error(d, SCH_ERR_SIM, NULL, 0, "simulator: the run for --lump returned no spectra");
+	for (size_t i = 0; i < nf; i++) {
+		if (fabs(fa->values[i] - fb->values[i]) > 1e-12 * fabs(fa->values[i]))
+			return sch_diag_error(d, SCH_ERR_SIM, NULL, 0,
+					      "simulator: the two runs for --lump have different frequency points");
+	}
+	if (!(ct = contrib_add(&res->arena, list, nf)))
+		return SCH_ERR_NOMEM;
+	ct->device = lp->label;
+	ct->generator = "thermal";
+	ct->mechanism = SCH_MECH_THERMAL;
+	ct->origin = SCH_ORIGIN_SIMULATOR;
+	ct->device_count = lp->n_instances;
+	for (size_t i = 0; i < nf; i++) {
+		double diff = ob->values[i] - own[i];
+		ct->psd[i] = (diff > 0 ? diff : 0) * (SCH_K / SCH_SIM_K);
+	}
+	return SCH_OK;
+}
+
 static enum sch_err take_noise(struct sch_result *res, const struct sch_run_options *opt,
 			       const struct quantity_plan *q, const struct sch_sim_outcome *o, const struct mapping *m,
-			       struct strlist *notes, struct sch_diag *d)
+			       const struct lump_plan *lp, const struct sch_sim_outcome *full, struct strlist *notes,
+			       struct sch_diag *d)
 {
 	struct sch_arena *a = &res->arena;
 	const struct sch_sim_vector *fv = sch_sim_find_vector(o, "frequency");
@@ -627,7 +722,7 @@ static enum sch_err take_noise(struct sch_result *res, const struct sch_run_opti
 	/* a probe's own density as the simulator computes it: 4 k_sim T / R */
 	const double unit = 4.0 * SCH_SIM_K * res->temp_k / SCH_PROBE_OHMS;
 	const double gmin = deck_gmin(&res->deck);
-	double *carrier_of_inst;
+	double *carrier_of_inst, *own = NULL;
 	size_t nf;
 	int n_corrected = 0;
 	enum sch_err ret;
@@ -649,6 +744,9 @@ static enum sch_err take_noise(struct sch_result *res, const struct sch_run_opti
 		carrier_of_inst[k] = -1;
 	for (size_t k = 0; k < res->set.n_carriers; k++)
 		carrier_of_inst[res->set.carriers[k].instance] = (double)k;
+	/* with --lump: the simulator's own rows as it computed them, summed over devices */
+	if (lp && lp->quiet && !(own = sch_arena_alloc(a, (nf + 1) * sizeof(double))))
+		return SCH_ERR_NOMEM;
 
 	for (size_t v = 0; v < o->n_vectors; v++) {
 		const struct sch_sim_vector *vec = &o->vectors[v];
@@ -708,6 +806,8 @@ static enum sch_err take_noise(struct sch_result *res, const struct sch_run_opti
 			ct->origin = SCH_ORIGIN_SIMULATOR;
 			if (!ct->device || !ct->generator)
 				return SCH_ERR_NOMEM;
+			for (size_t i = 0; own && i < nf; i++)
+				own[i] += vec->values[i];
 			{
 				/* restate the simulator's CODATA 2014 constants as the exact SI 2019 ones */
 				double scale = ct->mechanism == SCH_MECH_THERMAL ? SCH_K / SCH_SIM_K
@@ -780,6 +880,16 @@ static enum sch_err take_noise(struct sch_result *res, const struct sch_run_opti
 				sch_arena_printf(a, "junction correction applied to %d diode instance%s: 2q*I_j*coth(qV_j/2kT) "
 						    "in place of the simulator's 2q|I_D| (GMIN %g S kept out)",
 						 n_corrected, n_corrected == 1 ? "" : "s", gmin));
+		if (ret != SCH_OK)
+			return ret;
+	}
+	if (lp && lp->quiet) {
+		if ((ret = add_lump_row(res, lp, own, o, full, &list, d)) != SCH_OK)
+			return ret;
+		ret = add_notes(res, notes, sch_arena_printf(a, "--lump: %s reported as one row, the circuit's own noise "
+								"(a second run) less the simulator's rows of this run, "
+								"where they were quiet (noisy=0)",
+							    lp->label));
 		if (ret != SCH_OK)
 			return ret;
 	}
@@ -1123,7 +1233,7 @@ static enum sch_err analysis_core(const char *path, const struct sch_run_options
 {
 	struct sch_arena *a = &res->arena;
 	struct noise_plan plan;
-	struct sch_augment_options aopt = { NULL, false, false, false };
+	struct sch_augment_options aopt = { NULL, false, false, false, NULL, false };
 	struct sch_augmented aug;
 	struct quantity_plan q;
 	struct mapping m;
@@ -1136,8 +1246,13 @@ static enum sch_err analysis_core(const char *path, const struct sch_run_options
 	size_t n_steps = 1;
 	struct sch_source *noiseless_all = NULL;
 	size_t n_noiseless_all = 0;
+	struct lump_plan lump;
+	struct sch_augmented aug_full;
+	const char *bare_commands[1];
 	enum sch_err ret;
 
+	memset(&lump, 0, sizeof(lump));
+	memset(&one_step, 0, sizeof(one_step));
 	memset(&sim, 0, sizeof(sim));
 	memset(&m, 0, sizeof(m));
 	memset(&plan, 0, sizeof(plan));
@@ -1163,6 +1278,23 @@ static enum sch_err analysis_core(const char *path, const struct sch_run_options
 		}
 		aopt.junction_probes = opt->junction_correction;
 		aopt.share_paired_junctions = true;
+	}
+	if (opt->lump_regex) {
+		if (opt->mode != SCH_RUN_REPORT || vary) {
+			ret = sch_diag_error(d, SCH_ERR_USAGE, NULL, 0, "--lump works with a single noise report only");
+			goto out;
+		}
+		if ((ret = plan_lump(res, opt->lump_regex, &lump, d)) != SCH_OK)
+			goto out;
+		/*
+		 * The circuit's own noise, every resistor noisy and our generators quiet: their unit
+		 * density is far above any real one, and a difference next to it would lose digits.
+		 */
+		aopt.quiet_probes = true;
+		if ((ret = sch_augment_build(&res->deck, &res->set, &aopt, a, &aug_full, d)) != SCH_OK)
+			goto out;
+		aopt.quiet_probes = false;
+		aopt.quiet_elements = lump.quiet;
 	}
 	if ((ret = sch_augment_build(&res->deck, &res->set, &aopt, a, &aug, d)) != SCH_OK)
 		goto out;
@@ -1208,6 +1340,20 @@ static enum sch_err analysis_core(const char *path, const struct sch_run_options
 	req.n_lines = aug.n_lines;
 	req.steps = steps;
 	req.n_steps = n_steps;
+	if (lump.quiet) {
+		/* step 1, the full circuit's total alone, runs in a second worker beside step 0 */
+		ret = SCH_ERR_NOMEM;
+		if (!(steps = sch_arena_alloc(a, 2 * sizeof(*steps))))
+			goto out;
+		steps[0] = one_step;
+		bare_commands[0] = plan.bare_command;
+		steps[1].commands = bare_commands;
+		steps[1].n_commands = 1;
+		steps[1].lines = aug_full.lines;
+		steps[1].n_lines = aug_full.n_lines;
+		req.steps = steps;
+		req.n_steps = 2;
+	}
 	req.quantities = q.names.v;
 	req.n_quantities = q.names.n;
 	req.collect_noise = opt->mode == SCH_RUN_REPORT;
@@ -1249,7 +1395,8 @@ static enum sch_err analysis_core(const char *path, const struct sch_run_options
 				m.ic_row[i] = -1;
 				m.ib_row[i] = -1;
 			}
-			if ((ret = take_noise(res, opt, &q, &sim.steps[k], &m, &notes, d)) != SCH_OK)
+			if ((ret = take_noise(res, opt, &q, &sim.steps[k], &m, &lump, lump.quiet ? &sim.steps[1] : NULL,
+					      &notes, d)) != SCH_OK)
 				goto out;
 			if ((ret = integrate(res, opt, d)) != SCH_OK)
 				goto out;

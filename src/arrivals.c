@@ -683,6 +683,7 @@ enum sch_err sch_arrivals_run(const char *path, const struct sch_run_options *ru
 	snprintf(tran, sizeof(tran), "tran %.12g %.15g 0 %.12g", a->step_s, ((double)a->n_bins + 0.5) * a->step_s,
 		 a->step_s);
 	cmds[0] = tran;
+	memset(&step, 0, sizeof(step));
 	step.commands = cmds;
 	step.n_commands = 1;
 	vecs[0] = na;

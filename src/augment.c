@@ -34,6 +34,7 @@ struct line_list {
 	struct sch_arena *arena;
 	int *card;      /* deck card of each line, -1 for generated ones */
 	int cur_card;   /* what push records */
+	bool quiet_probes;
 };
 
 static enum sch_err push(struct line_list *l, const char *s)
@@ -70,7 +71,8 @@ static enum sch_err push_probe(struct line_list *l, int k, const char *a, const 
 {
 	enum sch_err ret = push(l, sch_arena_printf(l->arena, "* schrot: generator of known density across %s", what));
 	if (ret == SCH_OK)
-		ret = push(l, sch_arena_printf(l->arena, "rschg%d nschg%d 0 %g", k, k, SCH_PROBE_OHMS));
+		ret = push(l, sch_arena_printf(l->arena, "rschg%d nschg%d 0 %g%s", k, k, SCH_PROBE_OHMS,
+					       l->quiet_probes ? " noisy=0" : ""));
 	if (ret == SCH_OK)
 		ret = push(l, sch_arena_printf(l->arena, "gschg%d %s %s nschg%d 0 1", k, a, b, k));
 	return ret;
@@ -126,7 +128,7 @@ enum sch_err sch_augment_build(const struct sch_deck *deck, const struct sch_car
 			       const struct sch_augment_options *opt, struct sch_arena *arena,
 			       struct sch_augmented *aug, struct sch_diag *d)
 {
-	struct line_list l = { NULL, 0, 0, arena, NULL, -1 };
+	struct line_list l = { NULL, 0, 0, arena, NULL, -1, opt && opt->quiet_probes };
 	enum sch_err ret = SCH_ERR_NOMEM;
 
 	memset(aug, 0, sizeof(*aug));
@@ -187,6 +189,12 @@ enum sch_err sch_augment_build(const struct sch_deck *deck, const struct sch_car
 		    strcmp(deck->elements[card->element].name, opt->ac_source) == 0 &&
 		    !has_ac_value(&deck->elements[card->element]))
 			text = sch_arena_printf(arena, "%s ac 1", text);
+		if (card->element >= 0 && opt && opt->quiet_elements && opt->quiet_elements[card->element])
+			text = sch_arena_printf(arena, "%s noisy=0", text);
+		if (!text) {
+			ret = SCH_ERR_NOMEM;
+			goto out;
+		}
 		l.cur_card = (int)c;
 		ret = push(&l, text);
 		l.cur_card = -1;

@@ -57,7 +57,7 @@ static int parse_rule(char *text, const char **regex, double *nums, int n)
 static bool takes_value(const char *name)
 {
 	static const char *const names[] = { "--json", "--csv", "--spectrum", "--plot", "--html", "--depfile", "-o",
-					     "--out", "--band", "--freq", "--spot", "--carrier", "--ignore", "--avalanche",
+					     "--out", "--band", "--freq", "--spot", "--carrier", "--ignore", "--lump", "--avalanche",
 					     "--fano", "--responsivity", "--signal", "--budget", "--output", "--input",
 					     "--top", "--vary", "--jobs", "--shard", "--window", "--duration", "--windows", "--seed",
 					     "--step", "--settle" };
@@ -169,6 +169,10 @@ enum sch_err sch_cli_parse(struct sch_cli *cli, int argc, char **argv, struct sc
 			cli->run.carriers.carrier_regex = val;
 		} else if (strcmp(name, "--ignore") == 0) {
 			cli->run.carriers.ignore_regex = val;
+		} else if (strcmp(name, "--lump") == 0) {
+			if (cli->run.lump_regex)
+				return usage(d, "--lump given twice ('%s'): join the patterns with '|' into one", val);
+			cli->run.lump_regex = val;
 		} else if (strcmp(name, "--avalanche") == 0) {
 			double nums[2];
 			char shown[256];

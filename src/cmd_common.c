@@ -1,6 +1,7 @@
 /* SPDX-License-Identifier: BSD-3-Clause */
 /* cmd_common.c - help text and the output files every command can write. */
 #include <stdio.h>
+#include <string.h>
 #include "schrot/cmd.h"
 #include "schrot/outfile.h"
 #include "schrot/report.h"
@@ -25,6 +26,7 @@ void sch_cmd_print_help(FILE *out)
 	      "  --spot F               spot frequency in Hz (repeatable)\n"
 	      "  --carrier REGEX        also treat matching current elements as carriers (whole hierarchical name)\n"
 	      "  --ignore REGEX         never treat matching elements as carriers\n"
+	      "  --lump REGEX           report: matching resistors as one row (extracted parasitics; much faster)\n"
 	      "  --avalanche REGEX=M:K  avalanche gain M >= 1 and ionisation ratio k in [0,1] (McIntyre excess noise)\n"
 	      "  --fano REGEX=F         shot noise scaled by the Fano factor F >= 0\n"
 	      "  --no-junction-correction   keep the simulator's own 2q|I_D| diode noise\n"
@@ -53,6 +55,8 @@ enum sch_err sch_cmd_start(struct sch_cli *cli, int argc, char **argv, struct sc
 	*done = false;
 	if (ret != SCH_OK)
 		return ret;
+	if (cli->run.lump_regex && !cli->help && (!cli->command || strcmp(cli->command, "report") != 0))
+		return sch_diag_error(&ctx->diag, SCH_ERR_USAGE, NULL, 0, "--lump works with 'schrot report' only");
 	if (cli->help) {
 		(help ? help : sch_cmd_print_help)(stdout);
 		*done = true;

@@ -165,6 +165,7 @@ static json_t *contributions_json(const struct sch_result *r, int *bad)
 		put(o, "share", num(c->share), bad);
 		put(o, "spot_v_per_rthz", spot, bad);
 		put(o, "band_power_v2", num(c->band_power), bad);
+		put(o, "device_count", json_integer((json_int_t)(c->device_count ? c->device_count : 1)), bad);
 		append(arr, o, bad);
 	}
 	return arr;

@@ -1303,17 +1303,17 @@ static bool line_runs_commands(const char *s)
  * the simulator run commands. A .control block is dropped whole. NULL-terminated; the strings
  * still belong to req.
  */
-static enum sch_err build_deck(const struct sch_sim_request *req, char ***out, struct sch_diag *d)
+static enum sch_err build_deck(const char *const *lines, size_t n_lines, char ***out, struct sch_diag *d)
 {
-	char **deck = calloc(req->n_lines + 2, sizeof(*deck));
+	char **deck = calloc(n_lines + 2, sizeof(*deck));
 	size_t n = 0;
 	bool in_control = false;
 
 	if (!deck)
 		return SCH_ERR_NOMEM;
 	deck[n++] = (char *)SCH_SIM_TITLE;
-	for (size_t i = 1; i < req->n_lines; i++) {
-		const char *line = req->lines[i];
+	for (size_t i = 1; i < n_lines; i++) {
+		const char *line = lines[i];
 
 		if (!line)
 			continue;
@@ -1492,7 +1492,7 @@ static void release_workers(struct sch_worker *wks, size_t n_wk)
 	}
 }
 
-static enum sch_err start_workers(const struct sch_sim_request *req, char **deck, struct sch_worker *wks,
+static enum sch_err start_workers(const struct sch_sim_request *req, char **const *decks, struct sch_worker *wks,
 				  size_t n_wk, char *why, size_t why_len)
 {
 	for (size_t w = 0; w < n_wk; w++) {
@@ -1523,7 +1523,7 @@ static enum sch_err start_workers(const struct sch_sim_request *req, char **deck
 				if (wks[k].fd >= 0)
 					close(wks[k].fd);
 			signal(SIGPIPE, SIG_DFL);
-			worker_main(req, deck, wks[w].first, wks[w].end, fds[1]);
+			worker_main(req, decks[w], wks[w].first, wks[w].end, fds[1]);
 		}
 		close(fds[1]);
 #ifdef F_SETPIPE_SZ
@@ -1553,27 +1553,43 @@ enum sch_err sch_sim_run(const struct sch_sim_request *req, struct sch_sim_resul
 	enum sch_err ret = SCH_ERR_SIM;
 	struct sch_worker wks[SCH_SIM_MAX_WORKERS];
 	struct sch_collect c = { 0 };
-	char **deck = NULL;
+	char **deck = NULL, **decks[SCH_SIM_MAX_WORKERS] = { NULL };
 	size_t n_wk = 1;
 	char why[512] = "";
-	bool failed = false;
+	bool failed = false, own_decks = false;
 
 	memset(res, 0, sizeof(*res));
 	memset(wks, 0, sizeof(wks));
 	ret = check_commands(req, d);
 	if (ret != SCH_OK)
 		goto out;
-	ret = build_deck(req, &deck, d);
+	for (size_t s = 0; s < req->n_steps; s++)
+		own_decks = own_decks || req->steps[s].lines;
+	if (own_decks && req->n_steps > SCH_SIM_MAX_WORKERS) {
+		ret = sch_diag_error(d, SCH_ERR_USAGE, NULL, 0, "simulator: more than %d steps with decks of their own",
+				     SCH_SIM_MAX_WORKERS);
+		goto out;
+	}
+	ret = build_deck(req->lines, req->n_lines, &deck, d);
 	if (ret != SCH_OK)
 		goto out;
 	ret = alloc_result(res, req, &c);
 	if (ret != SCH_OK)
 		goto out;
-	if (req->n_workers > 1 && req->n_steps > 1)
+	if (own_decks)
+		n_wk = req->n_steps; /* one step per worker: each loads its own deck */
+	else if (req->n_workers > 1 && req->n_steps > 1)
 		n_wk = (size_t)req->n_workers < req->n_steps ? (size_t)req->n_workers : req->n_steps;
 	if (n_wk > SCH_SIM_MAX_WORKERS)
 		n_wk = SCH_SIM_MAX_WORKERS;
-	ret = start_workers(req, deck, wks, n_wk, why, sizeof(why));
+	for (size_t w = 0; w < n_wk; w++) {
+		const struct sch_sim_step *st = own_decks ? &req->steps[w] : NULL;
+
+		decks[w] = deck;
+		if (st && st->lines && (ret = build_deck(st->lines, st->n_lines, &decks[w], d)) != SCH_OK)
+			goto out;
+	}
+	ret = start_workers(req, decks, wks, n_wk, why, sizeof(why));
 	if (ret == SCH_OK)
 		ret = drain_workers(wks, n_wk, &c);
 	if (ret == SCH_ERR_NOMEM)
@@ -1603,6 +1619,9 @@ out:
 	free(c.vec_cap);
 	free(c.step_done);
 	free(c.step_flags);
+	for (size_t w = 0; w < SCH_SIM_MAX_WORKERS; w++)
+		if (decks[w] && decks[w] != deck)
+			free(decks[w]);
 	free(deck);
 	return ret;
 }

@@ -33,6 +33,7 @@ struct sch_contribution {
 	double output_rms_v;     /* sqrt(|band_power|) */
 	double share;            /* band_power / total band power; shares sum to 1 */
 	double *spot_density;    /* at each spot frequency: sqrt(|psd|), V/√Hz */
+	size_t device_count;     /* devices the row stands for: 1, or the resistors of a --lump row */
 };
 
 struct sch_spot {
@@ -68,6 +69,13 @@ struct sch_run_options {
 	double responsivity_a_per_w;    /* NaN: none */
 	double signal;                  /* NaN: none; in input units */
 	int n_workers;
+	/*
+	 * --lump: resistors whose whole hierarchical name matches (case-insensitive) are reported as
+	 * one row. The per-device run leaves them quiet (noisy=0), and a second run without per-device
+	 * vectors, in a second worker at the same time, gives the total; the row is the difference.
+	 * NULL: every device its own row. Report runs only.
+	 */
+	const char *lump_regex;
 	/*
 	 * Sweeps only: called in the calling process with the number of points done (0 before the
 	 * first) out of total; NULL for none. It must not write to stdout.

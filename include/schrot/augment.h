@@ -37,6 +37,9 @@ struct sch_augment_options {
 	 * elements to one probe, whose simulator name is the same for both instances.
 	 */
 	bool share_paired_junctions;
+	/* deck element index -> true: the element (a resistor) gets " noisy=0"; NULL: none */
+	const bool *quiet_elements;
+	bool quiet_probes;       /* every generator's resistor gets " noisy=0" (a run for the circuit's own noise) */
 };
 
 struct sch_augmented {

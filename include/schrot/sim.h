@@ -15,6 +15,12 @@
 struct sch_sim_step {
 	const char *const *commands;
 	size_t n_commands;
+	/*
+	 * A deck of its own for this step (NULL: the request's). A request with any such step runs
+	 * every step in a worker of its own, all at once, so it may have at most 64 steps.
+	 */
+	const char *const *lines;
+	size_t n_lines;
 };
 
 struct sch_sim_request {

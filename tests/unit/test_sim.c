@@ -94,7 +94,7 @@ static void assert_sane_result(const struct sch_sim_result *res, size_t n_steps)
 }
 
 static const char *const op_cmd[] = { "op" };
-static const struct sch_sim_step op_step[] = { { op_cmd, 1 } };
+static const struct sch_sim_step op_step[] = { { op_cmd, 1, NULL, 0 } };
 
 static const char *const divider[] = {
 	"resistor divider", "v1 in 0 dc 10", "r1 in out 1k", "r2 out 0 4k", ".end",
@@ -151,7 +151,7 @@ static const char *const johnson_deck[] = {
 static void test_sim__resistor_noise_density_is_4ktr(void)
 {
 	static const char *const cmd[] = { "noise v(out) i1 dec 5 10 100k 1" };
-	static const struct sch_sim_step step[] = { { cmd, 1 } };
+	static const struct sch_sim_step step[] = { { cmd, 1, NULL, 0 } };
 	struct sch_sim_result res;
 	struct sch_diag d;
 	const struct sch_sim_vector *f, *total, *r1;
@@ -377,7 +377,7 @@ static void test_sim__commands_with_special_characters_are_refused(void)
 	snprintf(bad[2], sizeof(bad[2]), "echo hi > %s", s.marker);
 	for (size_t i = 0; i < 3; i++) {
 		const char *cmds[] = { "op", bad[i] };
-		struct sch_sim_step step = { cmds, 2 };
+		struct sch_sim_step step = { cmds, 2, NULL, 0 };
 
 		CHECK(run_deck(divider, N_OF(divider), &step, 1, NULL, 0, false, &res, &d) == SCH_ERR_USAGE);
 		CHECK(res.n_messages == 0 && res.n_steps == 0);
@@ -392,7 +392,7 @@ static void test_sim__overlong_command_is_refused(void)
 {
 	char cmd[1100];
 	const char *cmds[] = { cmd };
-	struct sch_sim_step step = { cmds, 1 };
+	struct sch_sim_step step = { cmds, 1, NULL, 0 };
 	struct sch_sim_result res;
 	struct sch_diag d;
 
@@ -468,7 +468,7 @@ static void test_sim__numparam_error_gives_up_and_next_run_works(void)
 static void test_sim__quit_command_gives_up(void)
 {
 	static const char *const cmds[] = { "quit" };
-	static const struct sch_sim_step step[] = { { cmds, 1 } };
+	static const struct sch_sim_step step[] = { { cmds, 1, NULL, 0 } };
 	struct sch_sim_result res;
 	struct sch_diag d;
 
@@ -494,7 +494,7 @@ static void test_sim__noise_input_without_ac_value_fails_with_reason(void)
 {
 	static const char *const deck[] = { "no ac", "v1 in 0 dc 1", "r1 in out 1k", "r2 out 0 1k", ".end" };
 	static const char *const cmd[] = { "noise v(out) v1 dec 2 1 1k 1" };
-	static const struct sch_sim_step step[] = { { cmd, 1 } };
+	static const struct sch_sim_step step[] = { { cmd, 1, NULL, 0 } };
 	struct sch_sim_result res;
 	struct sch_diag d;
 
@@ -553,7 +553,7 @@ static void test_sim__steps_split_over_two_workers_come_back_in_order(void)
 	static const char *const noise = "noise v(out) i1 dec 1 10 1k 1";
 	static const char *const q[] = { "@r1[resistance]" };
 	const char *cmds[4][2];
-	struct sch_sim_step steps[4];
+	struct sch_sim_step steps[4] = { { NULL, 0, NULL, 0 } };
 	struct sch_sim_request req = {
 		.lines = johnson_deck, .n_lines = N_OF(johnson_deck), .steps = steps, .n_steps = 4,
 		.quantities = q, .n_quantities = 1, .collect_noise = true, .squared_noise = true,
@@ -588,7 +588,7 @@ static void test_sim__failed_step_does_not_hide_later_steps(void)
 {
 	static const char *const good[] = { "op" };
 	static const char *const bad[] = { "alter rnosuch 5k" };
-	static const struct sch_sim_step steps[] = { { good, 1 }, { bad, 1 }, { good, 1 } };
+	static const struct sch_sim_step steps[] = { { good, 1, NULL, 0 }, { bad, 1, NULL, 0 }, { good, 1, NULL, 0 } };
 	static const char *const q[] = { "@r1[i]" };
 	struct sch_sim_result res;
 	struct sch_diag d;
