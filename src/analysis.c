@@ -106,6 +106,9 @@ static enum sch_err strlist_push(struct sch_arena *a, struct strlist *l, const c
 }
 
 /* The noise analysis to run, resolved from the deck's .noise line and the options. */
+/* From this many resistor instances on, a report without --lump says that --lump exists. */
+#define SCH_LUMP_HINT_RESISTORS 2000
+
 struct noise_plan {
 	const char *output;
 	const char *input;
@@ -1415,6 +1418,17 @@ static enum sch_err analysis_core(const char *path, const struct sch_run_options
 	if (vary) {
 		vary->sweep->n_points = n_steps;
 		vary->sweep->crossover = sch_sweep_crossover(vary->sweep->points, n_steps);
+	}
+	if (opt->mode == SCH_RUN_REPORT && !vary && !lump.quiet) {
+		size_t n_res = 0;
+		for (size_t k = 0; k < res->set.n_instances; k++)
+			n_res += res->deck.elements[res->set.instances[k].element].letter == 'r';
+		if (n_res >= SCH_LUMP_HINT_RESISTORS &&
+		    (ret = add_notes(res, &notes, sch_arena_printf(a, "%zu resistors, one row each: --lump REGEX reports "
+								      "matching ones (extracted parasitics) as one row, "
+								      "and much faster",
+								  n_res))) != SCH_OK)
+			goto out;
 	}
 	if (res->set.n_noiseless) {
 		char list[400] = "";

@@ -106,6 +106,16 @@ if plain and lumped:
     close("pixels: carrier shot power unchanged", lumped["total"]["carrier_shot_power_v2"],
           plain["total"]["carrier_shot_power_v2"], 1e-12)
 
+# Many resistors without --lump: the notes say that it exists (2000 or more resistor instances).
+MANY = "many film segments\nitest 0 n0 dc 0 ac 1\n" + "".join(
+    "r%d n%d n%d 1\n" % (i, i, i + 1) for i in range(2000)) + "r2000 n2000 0 1\n.noise v(n0) itest dec 1 1 10 1\n.end\n"
+rc, many, _, _ = run(MANY, "report")
+true("2001 resistors: a note names --lump", many is not None and any("--lump" in n for n in many.get("notes", [])))
+rc, many, _, _ = run(MANY, "report", "--lump", "r[0-9]+")
+if many:
+    close("2001 one-ohm segments: lump = 4kT*2001 ohm*9 Hz (Nyquist 1928)", many["contributions"][0]["band_power_v2"],
+          4 * K * T * 2001.0 * 9.0, 1e-9)
+
 # Bad uses: exit 2 and a message.
 rc, _, _, err = run(PIXELS, "report", "--lump", "nosuch.*", expect_rc=2)
 true("no match: message", "matches no resistor" in err, err)
