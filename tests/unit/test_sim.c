@@ -176,6 +176,72 @@ static void test_sim__resistor_noise_density_is_4ktr(void)
 	sch_sim_result_release(&res);
 }
 
+/* A resistor without a flicker coefficient: its flicker vector is zero at every point, yet it is there. */
+static void test_sim__all_zero_vector_keeps_its_length(void)
+{
+	static const char *const cmd[] = { "noise v(out) i1 dec 5 10 100k 1" };
+	static const struct sch_sim_step steps[] = { { cmd, 1 }, { cmd, 1 } };
+	struct sch_sim_request req = {
+		.lines = johnson_deck, .n_lines = N_OF(johnson_deck), .steps = steps, .n_steps = 2,
+		.collect_noise = true, .squared_noise = true, .n_workers = 2,
+	};
+	struct sch_sim_result res;
+	struct sch_diag d;
+
+	sch_diag_init(&d, NULL, 0);
+	CHECK(sch_sim_run(&req, &res, &d) == SCH_OK);
+	assert_sane_result(&res, 2);
+	for (size_t s = 0; s < res.n_steps; s++) {
+		const struct sch_sim_vector *flicker = sch_sim_find_vector(&res.steps[s], "onoise_r1_1overf");
+		const struct sch_sim_vector *thermal = sch_sim_find_vector(&res.steps[s], "onoise_r1_thermal");
+
+		CHECK(flicker && thermal);
+		if (!flicker || !thermal)
+			continue;
+		CHECK(flicker->n == 21 && thermal->n == 21);
+		for (size_t i = 0; i < flicker->n; i++)
+			CHECK(flicker->values[i] == 0.0);
+		CHECK_REL(thermal->values[20], 4.0 * SI_K * T_DEFAULT_K * 1000.0, 2e-6);
+	}
+	sch_sim_result_release(&res);
+}
+
+static bool keep_all_but_r1_sum(void *ctx, const char *name)
+{
+	size_t *calls = ctx;
+
+	(*calls)++;
+	return strcmp(name, "onoise_r1") != 0;
+}
+
+static void test_sim__keep_vector_drops_the_vectors_it_refuses(void)
+{
+	static const char *const cmd[] = { "noise v(out) i1 dec 5 10 100k 1" };
+	static const struct sch_sim_step step[] = { { cmd, 1 } };
+	size_t calls = 0;
+	struct sch_sim_request req = {
+		.lines = johnson_deck, .n_lines = N_OF(johnson_deck), .steps = step, .n_steps = 1,
+		.collect_noise = true, .squared_noise = true, .n_workers = 1,
+		.keep_vector = keep_all_but_r1_sum, .keep_vector_ctx = &calls,
+	};
+	struct sch_sim_result res;
+	struct sch_diag d;
+	const struct sch_sim_vector *r1;
+
+	sch_diag_init(&d, NULL, 0);
+	CHECK(sch_sim_run(&req, &res, &d) == SCH_OK);
+	assert_sane_result(&res, 1);
+	CHECK(calls == res.steps[0].n_vectors + 1);
+	CHECK(sch_sim_find_vector(&res.steps[0], "onoise_r1") == NULL);
+	CHECK(sch_sim_find_vector(&res.steps[0], "frequency") != NULL);
+	r1 = sch_sim_find_vector(&res.steps[0], "onoise_r1_thermal");
+	CHECK(r1 && r1->n == 21);
+	/* Johnson-Nyquist 4kTR, as in test_sim__resistor_noise_density_is_4ktr */
+	if (r1 && r1->n == 21)
+		CHECK_REL(r1->values[0], 4.0 * SI_K * T_DEFAULT_K * 1000.0, 2e-6);
+	sch_sim_result_release(&res);
+}
+
 static void test_sim__poly_sources_work_without_spinit(void)
 {
 	static const char *const deck[] = {
@@ -618,6 +684,8 @@ CHECK_MAIN(CASE(test_sim__divider_current_obeys_ohms_law),
 	   CASE(test_sim__reports_version_from_the_simulator),
 	   CASE(test_sim__forward_diode_voltage_matches_ideal_diode_equation),
 	   CASE(test_sim__resistor_noise_density_is_4ktr),
+	   CASE(test_sim__all_zero_vector_keeps_its_length),
+	   CASE(test_sim__keep_vector_drops_the_vectors_it_refuses),
 	   CASE(test_sim__poly_sources_work_without_spinit),
 	   CASE(test_sim__unknown_quantity_is_nan_not_a_failure),
 	   CASE(test_sim__cwd_spiceinit_is_not_run),
