@@ -1031,13 +1031,12 @@ static enum sch_err on_noise_names(struct sch_worker *wk, struct sch_collect *c,
 			continue;
 		if (!v)
 			return SCH_ERR_NOMEM;
-		ns->end = c->res->steps[step].n_vectors;
-		if (!keeps_vector(c, v->name)) {
+		if (keeps_vector(c, v->name)) {
+			ns->vec_of_col[col] = c->res->steps[step].n_vectors - 1;
+		} else {
 			free(v->name);
 			c->res->steps[step].n_vectors--;
-			continue;
 		}
-		ns->vec_of_col[col] = c->res->steps[step].n_vectors - 1;
 		ns->end = c->res->steps[step].n_vectors;
 	}
 	if (at != n)
