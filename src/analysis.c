@@ -569,6 +569,20 @@ static int classify_vector(const struct mapping *m, const char *name, const char
 	return -1;
 }
 
+/*
+ * Whether take_noise can use a density vector; the simulator session drops the others as they
+ * arrive. Device sums (classify_vector's -2) are left out: take_noise skips them anyway.
+ */
+static bool keep_noise_vector(void *ctx, const char *name)
+{
+	const char *gen = NULL;
+	int probe_of = -1;
+
+	if (strncmp(name, "onoise", 6) != 0 || strcmp(name, "onoise_spectrum") == 0)
+		return true;
+	return classify_vector(ctx, name, &gen, &probe_of) != -2;
+}
+
 static enum sch_err add_notes(struct sch_result *res, struct strlist *notes, const char *s)
 {
 	return strlist_push(&res->arena, notes, s);
@@ -1360,6 +1374,12 @@ static enum sch_err analysis_core(const char *path, const struct sch_run_options
 	req.quantities = q.names.v;
 	req.n_quantities = q.names.n;
 	req.collect_noise = opt->mode == SCH_RUN_REPORT;
+	if (opt->mode == SCH_RUN_REPORT) {
+		if ((ret = build_mapping(res, &aug, &m)) != SCH_OK)
+			goto out;
+		req.keep_vector = keep_noise_vector;
+		req.keep_vector_ctx = &m;
+	}
 	req.squared_noise = true;
 	req.n_workers = vary ? opt->n_workers : 1;
 	if (vary && opt->progress)
@@ -1369,8 +1389,6 @@ static enum sch_err analysis_core(const char *path, const struct sch_run_options
 	res->sim_version = sch_arena_strdup(a, sim.version ? sim.version : "ngspice");
 	noiseless_all = res->set.noiseless;
 	n_noiseless_all = res->set.n_noiseless;
-	if (opt->mode == SCH_RUN_REPORT && (ret = build_mapping(res, &aug, &m)) != SCH_OK)
-		goto out;
 	for (size_t k = 0; k < n_steps; k++) {
 		/* each step starts from the full list of sources: taking the operating point compacts it */
 		if (k > 0) {

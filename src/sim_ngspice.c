@@ -45,7 +45,9 @@ enum sch_rec {
 	SCH_REC_VEC,       /* u32 step, u32 name length, name, u32 n, n doubles */
 	SCH_REC_STEP_DONE, /* u32 step, u8 flags */
 	SCH_REC_GAVE_UP,   /* ControlledExit was called */
-	SCH_REC_END        /* the worker finished */
+	SCH_REC_END,       /* the worker finished */
+	SCH_REC_NOISE_NAMES, /* u32 step, u32 n, then n times (u32 name length, name): a density plot starts */
+	SCH_REC_NOISE_ROW    /* u32 step, u32 n, n doubles: one frequency point of that plot, in name order */
 };
 
 /* Which part of the worker's job a simulator line belongs to; decides how it is judged. */
@@ -75,17 +77,17 @@ struct sch_worker_ctx {
 	volatile bool gave_up;
 	bool load_error;
 	/*
-	 * The newest noise density plot of the current step, as SendData delivered it: n_rows rows
-	 * of n_names values, in the order SendInitData named them. With "save none" the library
-	 * itself keeps only each vector's last point, which is what keeps big circuits affordable.
+	 * The newest noise density plot of the current step. Its names go to the parent when the plot
+	 * starts and each SendData row as it arrives, so no one holds the whole plot here. With
+	 * "save none" the library itself keeps only each vector's last point, which is what keeps
+	 * big circuits affordable. names is kept only until the first row has been checked against it.
 	 */
 	bool noise_live;  /* the plot now being written is a density plot */
 	bool noise_seen;  /* this step produced one */
 	bool noise_order_bad;
 	char **names;
 	size_t n_names;
-	double *rows;
-	size_t n_rows, rows_cap;
+	size_t n_rows;
 	/*
 	 * The transient vectors the request asks for, as SendData delivers them: rows of
 	 * 1 + n_tran_vectors values (time first), every point or only the interpolated samples.
@@ -225,15 +227,19 @@ static bool path_is_command_safe(const char *p)
 	return true;
 }
 
+static void noise_free_names(struct sch_worker_ctx *w)
+{
+	if (w->names)
+		for (size_t i = 0; i < w->n_names; i++)
+			free(w->names[i]);
+	free(w->names);
+	w->names = NULL;
+}
+
 static void noise_clear(struct sch_worker_ctx *w)
 {
-	for (size_t i = 0; i < w->n_names; i++)
-		free(w->names[i]);
-	free(w->names);
-	free(w->rows);
-	w->names = NULL;
-	w->rows = NULL;
-	w->n_names = w->n_rows = w->rows_cap = 0;
+	noise_free_names(w);
+	w->n_names = w->n_rows = 0;
 	w->noise_live = w->noise_seen = w->noise_order_bad = false;
 }
 
@@ -283,6 +289,31 @@ static void tran_start(struct sch_worker_ctx *w, pvecinfoall info)
 	w->tran_live = w->tran_time_ix >= 0;
 }
 
+/*
+ * Tells the parent the names of a density plot that starts. A plot too big for records is
+ * flagged as garbled instead (the parent then keeps none of it).
+ */
+static void worker_send_noise_names(struct sch_worker_ctx *w)
+{
+	size_t payload = 8;
+
+	for (size_t i = 0; i < w->n_names && payload < SCH_SIM_MAX_RECORD; i++)
+		payload += 4 + strlen(w->names[i]);
+	if (payload >= SCH_SIM_MAX_RECORD || 8 + 8 * w->n_names >= SCH_SIM_MAX_RECORD) {
+		w->noise_order_bad = true;
+		return;
+	}
+	worker_header(w, SCH_REC_NOISE_NAMES, payload);
+	worker_put_u32(w, w->step);
+	worker_put_u32(w, (uint32_t)w->n_names);
+	for (size_t i = 0; i < w->n_names; i++) {
+		size_t len = strlen(w->names[i]);
+
+		worker_put_u32(w, (uint32_t)len);
+		worker_put(w, w->names[i], len);
+	}
+}
+
 /* SendInitData: a new plot starts. A noise plot holding "frequency" is a density plot. */
 static int worker_on_init_data(pvecinfoall info, int id, void *user)
 {
@@ -314,6 +345,8 @@ static int worker_on_init_data(pvecinfoall info, int id, void *user)
 	}
 	w->n_names = (size_t)info->veccount;
 	w->noise_live = w->noise_seen = true;
+	if (w->req && w->req->collect_noise)
+		worker_send_noise_names(w);
 	return 0;
 }
 
@@ -387,40 +420,51 @@ out:
 		free(row);
 }
 
-/* SendData: one frequency point of every vector; appended, so copying stays linear. */
+/* True when the row holds the vectors SendInitData named, in that order. */
+static bool noise_row_matches_names(const struct sch_worker_ctx *w, pvecvaluesall vals)
+{
+	for (size_t i = 0; i < w->n_names; i++) {
+		const struct vecvalues *v = vals->vecsa[i];
+
+		if (!v || !v->name || strcmp(v->name, w->names[i]) != 0)
+			return false;
+	}
+	return true;
+}
+
+/*
+ * SendData: one frequency point of every vector, sent on at once. Once a row does not match the
+ * plot's names, nothing more of the plot is sent and the step is flagged as garbled.
+ */
 static int worker_on_data(pvecvaluesall vals, int count, int id, void *user)
 {
 	struct sch_worker_ctx *w = user;
-	double *row;
 
 	if (w->tran_live && vals) {
 		tran_on_data(w, vals);
 		return 0;
 	}
-	if (!w->noise_live || !vals)
+	if (!w->noise_live || !vals || w->noise_order_bad)
 		return 0;
 	if ((size_t)vals->veccount != w->n_names) {
 		w->noise_order_bad = true;
 		return 0;
 	}
-	if ((w->n_rows + 1) * w->n_names > w->rows_cap) {
-		size_t cap = w->rows_cap ? 2 * w->rows_cap : 64 * w->n_names;
-		double *grown = realloc(w->rows, cap * sizeof(*grown));
-
-		if (!grown)
-			_exit(4);
-		w->rows = grown;
-		w->rows_cap = cap;
-	}
-	row = w->rows + w->n_rows * w->n_names;
-	for (size_t i = 0; i < w->n_names; i++) {
-		const struct vecvalues *v = vals->vecsa[i];
-
-		if (w->n_rows == 0 && (!v->name || strcmp(v->name, w->names[i]) != 0))
+	if (w->n_rows == 0) {
+		if (!noise_row_matches_names(w, vals)) {
 			w->noise_order_bad = true;
-		row[i] = v->creal;
+			return 0;
+		}
+		noise_free_names(w); /* before the library builds its next plot */
 	}
 	w->n_rows++;
+	if (!w->req || !w->req->collect_noise)
+		return 0;
+	worker_header(w, SCH_REC_NOISE_ROW, 8 + 8 * w->n_names);
+	worker_put_u32(w, w->step);
+	worker_put_u32(w, (uint32_t)w->n_names);
+	for (size_t i = 0; i < w->n_names; i++)
+		worker_put(w, &vals->vecsa[i]->creal, sizeof(double));
 	return 0;
 }
 
@@ -459,31 +503,6 @@ static void worker_send_tran(struct sch_worker_ctx *w)
 	for (size_t j = 0; j < req->n_tran_vectors; j++)
 		if (w->tran_ix[j] >= 0)
 			worker_send_column(w, req->tran_vectors[j], w->tran_rows, w->tran_n_rows, width, 1 + j);
-}
-
-/* Sends the collected density plot to the parent, one record per vector. */
-static void worker_send_vectors(struct sch_worker_ctx *w)
-{
-	size_t n = w->n_rows;
-	double *column = malloc((n ? n : 1) * sizeof(*column));
-
-	if (!column)
-		_exit(4);
-	for (size_t j = 0; j < w->n_names; j++) {
-		size_t name_len = strlen(w->names[j]);
-
-		if (name_len > 65536 || 12 + name_len + 8 * n >= SCH_SIM_MAX_RECORD)
-			continue;
-		worker_header(w, SCH_REC_VEC, 12 + name_len + 8 * n);
-		worker_put_u32(w, w->step);
-		worker_put_u32(w, (uint32_t)name_len);
-		worker_put(w, w->names[j], name_len);
-		worker_put_u32(w, (uint32_t)n);
-		for (size_t k = 0; k < n; k++)
-			column[k] = w->rows[k * w->n_names + j];
-		worker_put(w, column, n * sizeof(*column));
-	}
-	free(column);
 }
 
 /* A code-model file name we accept: [a-z0-9_] letters ending in ".cm", no directory part. */
@@ -692,11 +711,9 @@ static bool worker_run_step(struct sch_worker_ctx *w, const struct sch_sim_reque
 	if (w->gave_up)
 		return false;
 	if (req->collect_noise) {
-		if (w->noise_seen && !w->noise_order_bad)
-			worker_send_vectors(w);
-		else if (w->noise_seen)
+		if (w->noise_seen && w->noise_order_bad)
 			flags |= SCH_STEP_NOISE_GARBLED;
-		else if (step_runs_noise(st))
+		else if (!w->noise_seen && step_runs_noise(st))
 			flags |= SCH_STEP_NO_NOISE_PLOT;
 	}
 	noise_clear(w);
@@ -796,11 +813,30 @@ struct sch_worker {
 	int status;                 /* from waitpid; -1 when unknown */
 };
 
+#define SCH_NO_VECTOR SIZE_MAX
+
+/*
+ * A step's density plot while its rows arrive, transposed straight into the outcome's vectors:
+ * o->vectors[first..] are the plot's, in name order. A vector has no storage (values NULL, cap 0)
+ * while every value so far is exactly +0.0; it gets one at its first other value, with the zeros
+ * before it filled in. When the step ends, the vectors that stayed zero share one array of zeros.
+ */
+struct sch_noise_stream {
+	bool live;
+	size_t first, end;          /* the plot's vectors are o->vectors[first, end) */
+	size_t n_cols;              /* values per row */
+	size_t n_rows;
+	size_t *vec_of_col;         /* index into o->vectors, or SCH_NO_VECTOR for a column not kept */
+	size_t *cap_of_col;         /* capacity of that vector's values */
+};
+
 struct sch_collect {
 	struct sch_sim_result *res;
+	const struct sch_sim_request *req;
 	size_t *vec_cap;            /* capacity of res->steps[i].vectors */
 	bool *step_done;
 	uint8_t *step_flags;
+	struct sch_noise_stream *noise; /* per step */
 	size_t n_quantities;
 };
 
@@ -855,10 +891,34 @@ static bool step_is_ours(const struct sch_worker *wk, uint32_t step)
 	return step >= wk->first && step < wk->end;
 }
 
+/* Appends an empty vector named by n bytes at name to the step's outcome; NULL when out of memory. */
+static struct sch_sim_vector *outcome_add_vector(struct sch_collect *c, uint32_t step, const unsigned char *name,
+						 size_t n)
+{
+	struct sch_sim_outcome *o = &c->res->steps[step];
+	struct sch_sim_vector *v;
+
+	if (o->n_vectors == c->vec_cap[step]) {
+		size_t cap = c->vec_cap[step] ? 2 * c->vec_cap[step] : 16;
+		struct sch_sim_vector *grown = realloc(o->vectors, cap * sizeof(*grown));
+
+		if (!grown)
+			return NULL;
+		o->vectors = grown;
+		c->vec_cap[step] = cap;
+	}
+	v = &o->vectors[o->n_vectors];
+	memset(v, 0, sizeof(*v));
+	v->name = dup_mem(name, n);
+	if (!v->name)
+		return NULL;
+	o->n_vectors++;
+	return v;
+}
+
 static enum sch_err on_vector(struct sch_worker *wk, struct sch_collect *c, const unsigned char *p, size_t n)
 {
 	uint32_t step, name_len, count;
-	struct sch_sim_outcome *o;
 	struct sch_sim_vector *v;
 
 	if (n < 12)
@@ -870,28 +930,176 @@ static enum sch_err on_vector(struct sch_worker *wk, struct sch_collect *c, cons
 	count = get_u32(p + 8 + name_len);
 	if (n != 12 + (size_t)name_len + 8 * (size_t)count)
 		goto bad;
-	o = &c->res->steps[step];
-	if (o->n_vectors == c->vec_cap[step]) {
-		size_t cap = c->vec_cap[step] ? 2 * c->vec_cap[step] : 16;
-		struct sch_sim_vector *grown = realloc(o->vectors, cap * sizeof(*grown));
-
-		if (!grown)
-			return SCH_ERR_NOMEM;
-		o->vectors = grown;
-		c->vec_cap[step] = cap;
-	}
-	v = &o->vectors[o->n_vectors];
-	memset(v, 0, sizeof(*v));
-	v->name = dup_mem(p + 8, name_len);
-	v->values = malloc(count ? 8 * (size_t)count : 1);
-	if (!v->name || !v->values) {
-		free(v->name);
-		free(v->values);
+	v = outcome_add_vector(c, step, p + 8, name_len);
+	if (!v)
 		return SCH_ERR_NOMEM;
-	}
+	v->values = malloc(count ? 8 * (size_t)count : 1);
+	if (!v->values)
+		return SCH_ERR_NOMEM;
 	memcpy(v->values, p + 12 + name_len, 8 * (size_t)count);
 	v->n = count;
-	o->n_vectors++;
+	return SCH_OK;
+bad:
+	wk->malformed = true;
+	return SCH_OK;
+}
+
+/* Drops a step's density plot: its vectors leave the outcome. */
+static void noise_stream_drop(struct sch_collect *c, size_t step)
+{
+	struct sch_noise_stream *ns = &c->noise[step];
+	struct sch_sim_outcome *o = &c->res->steps[step];
+
+	if (ns->live) {
+		for (size_t v = ns->first; v < ns->end; v++) {
+			free(o->vectors[v].name);
+			free(o->vectors[v].values);
+		}
+		memmove(o->vectors + ns->first, o->vectors + ns->end, (o->n_vectors - ns->end) * sizeof(*o->vectors));
+		o->n_vectors -= ns->end - ns->first;
+	}
+	free(ns->vec_of_col);
+	free(ns->cap_of_col);
+	memset(ns, 0, sizeof(*ns));
+}
+
+/*
+ * Ends a step's density plot: every vector gets its length, and those that stayed zero point at
+ * the outcome's one array of zeros.
+ */
+static enum sch_err noise_stream_finish(struct sch_collect *c, size_t step)
+{
+	struct sch_noise_stream *ns = &c->noise[step];
+	struct sch_sim_outcome *o = &c->res->steps[step];
+
+	if (!ns->live)
+		return SCH_OK;
+	for (size_t v = ns->first; v < ns->end; v++) {
+		struct sch_sim_vector *vec = &o->vectors[v];
+
+		if (!vec->values) {
+			if (!o->shared_zeros)
+				o->shared_zeros = calloc(ns->n_rows ? ns->n_rows : 1, sizeof(double));
+			if (!o->shared_zeros)
+				return SCH_ERR_NOMEM;
+			vec->values = o->shared_zeros;
+		}
+		vec->n = ns->n_rows;
+	}
+	free(ns->vec_of_col);
+	free(ns->cap_of_col);
+	memset(ns, 0, sizeof(*ns));
+	return SCH_OK;
+}
+
+static bool keeps_vector(const struct sch_collect *c, const char *name)
+{
+	return !c->req->keep_vector || c->req->keep_vector(c->req->keep_vector_ctx, name);
+}
+
+/* A density plot starts: its vectors enter the outcome, empty, in name order. */
+static enum sch_err on_noise_names(struct sch_worker *wk, struct sch_collect *c, const unsigned char *p, size_t n)
+{
+	struct sch_noise_stream *ns;
+	uint32_t step, n_cols;
+	size_t at = 8;
+
+	if (n < 8 || !step_is_ours(wk, (step = get_u32(p))) || c->step_done[step])
+		goto bad;
+	n_cols = get_u32(p + 4);
+	if (n_cols > (n - 8) / 4)
+		goto bad;
+	noise_stream_drop(c, step); /* only the newest density plot of a step counts */
+	ns = &c->noise[step];
+	ns->first = ns->end = c->res->steps[step].n_vectors;
+	ns->n_cols = n_cols;
+	ns->live = true;
+	ns->vec_of_col = malloc((n_cols + 1) * sizeof(*ns->vec_of_col));
+	ns->cap_of_col = calloc(n_cols + 1, sizeof(*ns->cap_of_col));
+	if (!ns->vec_of_col || !ns->cap_of_col)
+		return SCH_ERR_NOMEM;
+	for (size_t col = 0; col < n_cols; col++) {
+		uint32_t len;
+		struct sch_sim_vector *v;
+
+		if (n - at < 4 || n - at - 4 < (len = get_u32(p + at)))
+			goto bad;
+		ns->vec_of_col[col] = SCH_NO_VECTOR;
+		v = len <= 65536 ? outcome_add_vector(c, step, p + at + 4, len) : NULL;
+		at += 4 + (size_t)len;
+		if (len > 65536)
+			continue;
+		if (!v)
+			return SCH_ERR_NOMEM;
+		if (keeps_vector(c, v->name)) {
+			ns->vec_of_col[col] = c->res->steps[step].n_vectors - 1;
+		} else {
+			free(v->name);
+			c->res->steps[step].n_vectors--;
+		}
+		ns->end = c->res->steps[step].n_vectors;
+	}
+	if (at != n)
+		goto bad;
+	return SCH_OK;
+bad:
+	wk->malformed = true;
+	return SCH_OK;
+}
+
+/* Gives a vector its first storage: its zeros so far, then room for more. */
+static double *noise_values_start(size_t n_rows, size_t *cap)
+{
+	size_t want = 8;
+	double *values;
+
+	while (want <= n_rows)
+		want *= 2;
+	values = calloc(want, sizeof(*values));
+	if (values)
+		*cap = want;
+	return values;
+}
+
+/* One frequency point of a density plot: each value goes to the end of its vector. */
+static enum sch_err on_noise_row(struct sch_worker *wk, struct sch_collect *c, const unsigned char *p, size_t n)
+{
+	struct sch_noise_stream *ns;
+	struct sch_sim_outcome *o;
+	uint32_t step;
+
+	if (n < 8 || !step_is_ours(wk, (step = get_u32(p))) || c->step_done[step])
+		goto bad;
+	ns = &c->noise[step];
+	if (!ns->live || get_u32(p + 4) != ns->n_cols || n != 8 + 8 * (size_t)ns->n_cols)
+		goto bad;
+	o = &c->res->steps[step];
+	for (size_t col = 0; col < ns->n_cols; col++) {
+		size_t vi = ns->vec_of_col[col];
+		struct sch_sim_vector *v;
+		double x;
+
+		if (vi == SCH_NO_VECTOR)
+			continue;
+		memcpy(&x, p + 8 + 8 * col, sizeof(x));
+		v = &o->vectors[vi];
+		if (!v->values) {
+			if (x == 0.0 && !signbit(x))
+				continue;
+			v->values = noise_values_start(ns->n_rows, &ns->cap_of_col[col]);
+			if (!v->values)
+				return SCH_ERR_NOMEM;
+		} else if (ns->n_rows == ns->cap_of_col[col]) {
+			double *grown = realloc(v->values, 2 * ns->cap_of_col[col] * sizeof(*grown));
+
+			if (!grown)
+				return SCH_ERR_NOMEM;
+			v->values = grown;
+			ns->cap_of_col[col] *= 2;
+		}
+		v->values[ns->n_rows] = x;
+	}
+	ns->n_rows++;
 	return SCH_OK;
 bad:
 	wk->malformed = true;
@@ -924,13 +1132,21 @@ static enum sch_err on_record(struct sch_worker *wk, struct sch_collect *c, unsi
 		return SCH_OK;
 	case SCH_REC_VEC:
 		return on_vector(wk, c, p, n);
+	case SCH_REC_NOISE_NAMES:
+		return on_noise_names(wk, c, p, n);
+	case SCH_REC_NOISE_ROW:
+		return on_noise_row(wk, c, p, n);
 	case SCH_REC_STEP_DONE:
-		if (n != 5 || !step_is_ours(wk, get_u32(p)))
+		if (n != 5 || !step_is_ours(wk, get_u32(p)) || c->step_done[get_u32(p)])
 			break;
 		step = get_u32(p);
 		c->step_done[step] = true;
 		c->step_flags[step] = p[4];
-		return SCH_OK;
+		if (p[4] & SCH_STEP_NOISE_GARBLED) {
+			noise_stream_drop(c, step);
+			return SCH_OK;
+		}
+		return noise_stream_finish(c, step);
 	case SCH_REC_GAVE_UP:
 		wk->gave_up = true;
 		return SCH_OK;
@@ -1347,12 +1563,14 @@ static enum sch_err alloc_result(struct sch_sim_result *res, const struct sch_si
 				 struct sch_collect *c)
 {
 	c->res = res;
+	c->req = req;
 	c->n_quantities = req->n_quantities;
 	c->vec_cap = calloc(req->n_steps + 1, sizeof(*c->vec_cap));
 	c->step_done = calloc(req->n_steps + 1, sizeof(*c->step_done));
 	c->step_flags = calloc(req->n_steps + 1, sizeof(*c->step_flags));
+	c->noise = calloc(req->n_steps + 1, sizeof(*c->noise));
 	res->steps = calloc(req->n_steps + 1, sizeof(*res->steps));
-	if (!c->vec_cap || !c->step_done || !c->step_flags || !res->steps)
+	if (!c->vec_cap || !c->step_done || !c->step_flags || !c->noise || !res->steps)
 		return SCH_ERR_NOMEM;
 	res->n_steps = req->n_steps;
 	for (size_t s = 0; s < req->n_steps; s++) {
@@ -1616,6 +1834,10 @@ out:
 	else if (ret == SCH_ERR_NOMEM)
 		sch_diag_error(d, SCH_ERR_NOMEM, NULL, 0, "simulator: out of memory");
 	release_workers(wks, n_wk);
+	/* a density plot whose step never ended is left out, as if it had never started */
+	for (size_t s = 0; c.noise && res->steps && s < res->n_steps; s++)
+		noise_stream_drop(&c, s);
+	free(c.noise);
 	free(c.vec_cap);
 	free(c.step_done);
 	free(c.step_flags);
@@ -1635,8 +1857,10 @@ void sch_sim_result_release(struct sch_sim_result *res)
 
 		for (size_t v = 0; v < o->n_vectors; v++) {
 			free(o->vectors[v].name);
-			free(o->vectors[v].values);
+			if (o->vectors[v].values != o->shared_zeros)
+				free(o->vectors[v].values);
 		}
+		free(o->shared_zeros);
 		free(o->vectors);
 		free(o->quantities);
 		free(o->failure);

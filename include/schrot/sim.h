@@ -49,11 +49,18 @@ struct sch_sim_request {
 	/* Extra code-model libraries by file name ("analog.cm"), loaded from the simulator's own directory. */
 	const char *const *code_models;
 	size_t n_code_models;
+	/*
+	 * Which density vectors (collect_noise) the outcome keeps: called once per vector name when
+	 * a density plot starts; a vector it returns false for is dropped as its data arrives and is
+	 * not in the outcome. NULL keeps every vector.
+	 */
+	bool (*keep_vector)(void *ctx, const char *name);
+	void *keep_vector_ctx;
 };
 
 struct sch_sim_vector {
 	char *name;      /* as the simulator names it: "frequency", "onoise_spectrum", "onoise_d.x1.d1_id" */
-	double *values;
+	double *values;  /* n values, never NULL; read-only: may be the outcome's shared_zeros */
 	size_t n;
 };
 
@@ -62,6 +69,11 @@ struct sch_sim_outcome {
 	double *quantities;            /* n_quantities values; NaN where the simulator had none */
 	struct sch_sim_vector *vectors;
 	size_t n_vectors;
+	/*
+	 * The values of every density vector that was exactly zero throughout (NULL when there is
+	 * none): such vectors share this one array instead of holding their own.
+	 */
+	double *shared_zeros;
 	char *failure;                 /* NULL when the step succeeded, else the simulator's reason, one line */
 };
 

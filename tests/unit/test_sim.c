@@ -176,6 +176,94 @@ static void test_sim__resistor_noise_density_is_4ktr(void)
 	sch_sim_result_release(&res);
 }
 
+/* A resistor without a flicker coefficient: its flicker vector is zero at every point, yet it is there. */
+static void test_sim__all_zero_vector_keeps_its_length(void)
+{
+	static const char *const cmd[] = { "noise v(out) i1 dec 5 10 100k 1" };
+	static const struct sch_sim_step steps[] = { { cmd, 1 }, { cmd, 1 } };
+	struct sch_sim_request req = {
+		.lines = johnson_deck, .n_lines = N_OF(johnson_deck), .steps = steps, .n_steps = 2,
+		.collect_noise = true, .squared_noise = true, .n_workers = 2,
+	};
+	struct sch_sim_result res;
+	struct sch_diag d;
+
+	sch_diag_init(&d, NULL, 0);
+	CHECK(sch_sim_run(&req, &res, &d) == SCH_OK);
+	assert_sane_result(&res, 2);
+	for (size_t s = 0; s < res.n_steps; s++) {
+		const struct sch_sim_vector *flicker = sch_sim_find_vector(&res.steps[s], "onoise_r1_1overf");
+		const struct sch_sim_vector *thermal = sch_sim_find_vector(&res.steps[s], "onoise_r1_thermal");
+
+		CHECK(flicker && thermal);
+		if (!flicker || !thermal)
+			continue;
+		CHECK(flicker->n == 21 && thermal->n == 21);
+		for (size_t i = 0; i < flicker->n; i++)
+			CHECK(flicker->values[i] == 0.0);
+		CHECK_REL(thermal->values[20], 4.0 * SI_K * T_DEFAULT_K * 1000.0, 2e-6);
+	}
+	sch_sim_result_release(&res);
+}
+
+/* Refuses two names given by the test; counts the calls. */
+struct refusal {
+	const char *names[2];
+	size_t calls;
+};
+
+static bool keep_unless_refused(void *ctx, const char *name)
+{
+	struct refusal *r = ctx;
+
+	r->calls++;
+	return strcmp(name, r->names[0]) != 0 && strcmp(name, r->names[1]) != 0;
+}
+
+/* The first and the last vector of the plot are refused, so both ends of the list are covered. */
+static void test_sim__keep_vector_drops_the_vectors_it_refuses(void)
+{
+	static const char *const cmd[] = { "noise v(out) i1 dec 5 10 100k 1" };
+	static const struct sch_sim_step step[] = { { cmd, 1 } };
+	struct refusal refused = { { "", "" }, 0 };
+	struct sch_sim_request req = {
+		.lines = johnson_deck, .n_lines = N_OF(johnson_deck), .steps = step, .n_steps = 1,
+		.collect_noise = true, .squared_noise = true, .n_workers = 1,
+	};
+	struct sch_sim_result all, kept;
+	struct sch_diag d;
+	size_t n_all;
+
+	sch_diag_init(&d, NULL, 0);
+	CHECK(sch_sim_run(&req, &all, &d) == SCH_OK);
+	n_all = all.n_steps == 1 ? all.steps[0].n_vectors : 0;
+	CHECK(n_all >= 4);
+	if (n_all < 4) {
+		sch_sim_result_release(&all);
+		return;
+	}
+	refused.names[0] = all.steps[0].vectors[0].name;
+	refused.names[1] = all.steps[0].vectors[n_all - 1].name;
+	req.keep_vector = keep_unless_refused;
+	req.keep_vector_ctx = &refused;
+	CHECK(sch_sim_run(&req, &kept, &d) == SCH_OK);
+	assert_sane_result(&kept, 1);
+	CHECK(refused.calls == n_all);
+	CHECK(kept.steps[0].n_vectors == n_all - 2);
+	CHECK(sch_sim_find_vector(&kept.steps[0], refused.names[0]) == NULL);
+	CHECK(sch_sim_find_vector(&kept.steps[0], refused.names[1]) == NULL);
+	for (size_t v = 1; v + 1 < n_all; v++) {
+		const struct sch_sim_vector *a = &all.steps[0].vectors[v];
+		const struct sch_sim_vector *k = sch_sim_find_vector(&kept.steps[0], a->name);
+
+		CHECK(k && k->n == a->n);
+		if (k && k->n == a->n)
+			CHECK(memcmp(k->values, a->values, a->n * sizeof(double)) == 0);
+	}
+	sch_sim_result_release(&kept);
+	sch_sim_result_release(&all);
+}
+
 static void test_sim__poly_sources_work_without_spinit(void)
 {
 	static const char *const deck[] = {
@@ -618,6 +706,8 @@ CHECK_MAIN(CASE(test_sim__divider_current_obeys_ohms_law),
 	   CASE(test_sim__reports_version_from_the_simulator),
 	   CASE(test_sim__forward_diode_voltage_matches_ideal_diode_equation),
 	   CASE(test_sim__resistor_noise_density_is_4ktr),
+	   CASE(test_sim__all_zero_vector_keeps_its_length),
+	   CASE(test_sim__keep_vector_drops_the_vectors_it_refuses),
 	   CASE(test_sim__poly_sources_work_without_spinit),
 	   CASE(test_sim__unknown_quantity_is_nan_not_a_failure),
 	   CASE(test_sim__cwd_spiceinit_is_not_run),
