@@ -180,7 +180,7 @@ static void test_sim__resistor_noise_density_is_4ktr(void)
 static void test_sim__all_zero_vector_keeps_its_length(void)
 {
 	static const char *const cmd[] = { "noise v(out) i1 dec 5 10 100k 1" };
-	static const struct sch_sim_step steps[] = { { cmd, 1 }, { cmd, 1 } };
+	static const struct sch_sim_step steps[] = { { cmd, 1, NULL, 0 }, { cmd, 1, NULL, 0 } };
 	struct sch_sim_request req = {
 		.lines = johnson_deck, .n_lines = N_OF(johnson_deck), .steps = steps, .n_steps = 2,
 		.collect_noise = true, .squared_noise = true, .n_workers = 2,
@@ -224,7 +224,7 @@ static bool keep_unless_refused(void *ctx, const char *name)
 static void test_sim__keep_vector_drops_the_vectors_it_refuses(void)
 {
 	static const char *const cmd[] = { "noise v(out) i1 dec 5 10 100k 1" };
-	static const struct sch_sim_step step[] = { { cmd, 1 } };
+	static const struct sch_sim_step step[] = { { cmd, 1, NULL, 0 } };
 	struct refusal refused = { { "", "" }, 0 };
 	struct sch_sim_request req = {
 		.lines = johnson_deck, .n_lines = N_OF(johnson_deck), .steps = step, .n_steps = 1,
