@@ -1250,7 +1250,7 @@ static enum sch_err analysis_core(const char *path, const struct sch_run_options
 {
 	struct sch_arena *a = &res->arena;
 	struct noise_plan plan;
-	struct sch_augment_options aopt = { NULL, false, false, false, NULL, false };
+	struct sch_augment_options aopt = { NULL, false, false, false, NULL, false, NULL };
 	struct sch_augmented aug;
 	struct quantity_plan q;
 	struct mapping m;
@@ -1308,16 +1308,26 @@ static enum sch_err analysis_core(const char *path, const struct sch_run_options
 		 * density is far above any real one, and a difference next to it would lose digits.
 		 */
 		aopt.quiet_probes = true;
+		aopt.analysis_card = sch_arena_printf(a, ".%s", plan.bare_command);
+		if (!aopt.analysis_card) {
+			ret = SCH_ERR_NOMEM;
+			goto out;
+		}
 		if ((ret = sch_augment_build(&res->deck, &res->set, &aopt, a, &aug_full, d)) != SCH_OK)
 			goto out;
 		aopt.quiet_probes = false;
 		aopt.quiet_elements = lump.quiet;
 	}
+	/* the noise run is the deck's own card, so the simulator can write its data to a file (sim.h) */
+	if (opt->mode == SCH_RUN_REPORT && !(aopt.analysis_card = sch_arena_printf(a, ".%s", plan.command))) {
+		ret = SCH_ERR_NOMEM;
+		goto out;
+	}
 	if ((ret = sch_augment_build(&res->deck, &res->set, &aopt, a, &aug, d)) != SCH_OK)
 		goto out;
 	if ((ret = plan_quantities(res, &aug, &q)) != SCH_OK)
 		goto out;
-	commands[0] = opt->mode == SCH_RUN_REPORT ? plan.command : "op";
+	commands[0] = opt->mode == SCH_RUN_REPORT ? "run" : "op";
 	/*
 	 * G, F and B elements compute their current from the last solution, which after a noise run is
 	 * the small-signal one: an operating point after the noise run puts the DC solution back.
@@ -1363,7 +1373,7 @@ static enum sch_err analysis_core(const char *path, const struct sch_run_options
 		if (!(steps = sch_arena_alloc(a, 2 * sizeof(*steps))))
 			goto out;
 		steps[0] = one_step;
-		bare_commands[0] = plan.bare_command;
+		bare_commands[0] = "run";
 		steps[1].commands = bare_commands;
 		steps[1].n_commands = 1;
 		steps[1].lines = aug_full.lines;
@@ -1374,6 +1384,7 @@ static enum sch_err analysis_core(const char *path, const struct sch_run_options
 	req.quantities = q.names.v;
 	req.n_quantities = q.names.n;
 	req.collect_noise = opt->mode == SCH_RUN_REPORT;
+	req.noise_via_file = opt->mode == SCH_RUN_REPORT;
 	if (opt->mode == SCH_RUN_REPORT) {
 		if ((ret = build_mapping(res, &aug, &m)) != SCH_OK)
 			goto out;

@@ -211,7 +211,11 @@ enum sch_err sch_augment_build(const struct sch_deck *deck, const struct sch_car
 	if ((ret = push_probes_of(&l, deck, aug, -1)) != SCH_OK)
 		goto out;
 	if ((ret = push(&l, "* schrot: reads the circuit temperature")) != SCH_OK ||
-	    (ret = push(&l, "rschtemp nschtemp 0 1 noisy=0")) != SCH_OK || (ret = push(&l, ".end")) != SCH_OK)
+	    (ret = push(&l, "rschtemp nschtemp 0 1 noisy=0")) != SCH_OK)
+		goto out;
+	if (opt && opt->analysis_card && (ret = push(&l, opt->analysis_card)) != SCH_OK)
+		goto out;
+	if ((ret = push(&l, ".end")) != SCH_OK)
 		goto out;
 	aug->lines = l.v;
 	aug->line_card = l.card;

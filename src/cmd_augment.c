@@ -54,7 +54,7 @@ static enum sch_err check_command_names(const struct sch_result *res, const stru
 /* Runs the operating point and writes the sized deck to cli->out_path atomically. */
 static enum sch_err augment(const struct sch_cli *cli, struct sch_result *res, struct sch_diag *d)
 {
-	struct sch_augment_options aopt = { NULL, false, true, false, NULL, false };
+	struct sch_augment_options aopt = { NULL, false, true, false, NULL, false, NULL };
 	struct sch_augmented aug;
 	struct sch_outfile of = { 0 };
 	const char *noise_command = NULL;

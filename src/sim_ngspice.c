@@ -194,6 +194,10 @@ static int worker_on_char(char *text, int id, void *user)
 		n = 65536;
 	if (w->phase == SCH_PHASE_LOAD && starts_ci(text, "error"))
 		w->load_error = true;
+	/* a data-file run says where it writes and how much: not news */
+	if (w->req && w->req->noise_via_file &&
+	    (starts_ci(text, "binary raw file") || starts_ci(text, "No. of Data ")))
+		return 0;
 	worker_header(w, SCH_REC_MSG, 1 + 4 + n);
 	worker_put_u8(w, (uint8_t)w->phase);
 	worker_put_u32(w, w->step);
@@ -225,6 +229,19 @@ static bool path_is_command_safe(const char *p)
 		if (command_char_is_bad((unsigned char)*p) || *p == ' ' || *p == '\'' || *p == '\\')
 			return false;
 	return true;
+}
+
+/*
+ * With noise_via_file: the private directory the simulator writes its data files to, one per
+ * step ("s12.raw"). The parent makes it before it forks the workers and removes it afterwards.
+ */
+static char sch_data_dir[PATH_MAX];
+
+static bool data_file_path(size_t step, char *out, size_t size)
+{
+	int n = snprintf(out, size, "%s/s%zu.raw", sch_data_dir, step);
+
+	return sch_data_dir[0] && n > 0 && (size_t)n < size && path_is_command_safe(out);
 }
 
 static void noise_free_names(struct sch_worker_ctx *w)
@@ -591,7 +608,11 @@ static bool worker_init_library(struct sch_worker_ctx *w)
 		snprintf(reason, sizeof(reason), "cannot prepare '%s': %s", dir, strerror(errno));
 		goto out;
 	}
-	ngSpice_Init(worker_on_char, NULL, worker_on_exit, worker_on_data, worker_on_init_data, NULL, w);
+	/* the library's SendData setup dereferences a plot a data-file run does not have: no callbacks then */
+	if (w->req->noise_via_file)
+		ngSpice_Init(worker_on_char, NULL, worker_on_exit, NULL, NULL, NULL, w);
+	else
+		ngSpice_Init(worker_on_char, NULL, worker_on_exit, worker_on_data, worker_on_init_data, NULL, w);
 	if ((cwd_fd >= 0 ? fchdir(cwd_fd) : chdir(cwd)) != 0) {
 		snprintf(reason, sizeof(reason), "cannot return to the working directory: %s", strerror(errno));
 		goto out;
@@ -671,6 +692,137 @@ static void worker_send_quantities(struct sch_worker_ctx *w, const struct sch_si
 	free(values);
 }
 
+/* One header line of a data file, without its newline; false at the end or for a longer line. */
+static bool data_file_line(FILE *f, char *buf, size_t size)
+{
+	size_t n;
+
+	if (!fgets(buf, (int)size, f))
+		return false;
+	n = strlen(buf);
+	if (n == 0 || buf[n - 1] != '\n')
+		return false;
+	buf[n - 1] = '\0';
+	return true;
+}
+
+/* "\t3\tonoise_r1_thermal\tvoltage^2-density\tgrid=3": the name, copied; NULL when malformed. */
+static char *data_file_name(const char *line)
+{
+	const char *p = line, *end;
+	char *name;
+
+	if (*p++ != '\t' || !isdigit((unsigned char)*p))
+		return NULL;
+	while (isdigit((unsigned char)*p))
+		p++;
+	if (*p++ != '\t')
+		return NULL;
+	end = strchr(p, '\t');
+	if (!end)
+		end = p + strlen(p);
+	if (end == p)
+		return NULL;
+	name = malloc((size_t)(end - p) + 1);
+	if (!name)
+		_exit(4);
+	memcpy(name, p, (size_t)(end - p));
+	name[end - p] = '\0';
+	return name;
+}
+
+/*
+ * Reads the first plot of the simulator's binary data file and, when it is a density plot (its
+ * first variable is "frequency"), sends it as the SendData path does: its names, then each row.
+ * A file that does not parse, or ends early (a full disk), flags the step's plot as garbled.
+ */
+static void worker_send_data_file(struct sch_worker_ctx *w, const char *path)
+{
+	FILE *f = fopen(path, "rb");
+	char line[8192];
+	long n_vars = -1, n_points = -1;
+	bool real = false, header_done = false;
+	double *row = NULL;
+
+	if (!f)
+		return;
+	while (data_file_line(f, line, sizeof(line))) {
+		if (strncmp(line, "Flags:", 6) == 0)
+			real = strstr(line, "real") && !strstr(line, "complex");
+		else if (strncmp(line, "No. Variables:", 14) == 0)
+			n_vars = strtol(line + 14, NULL, 10);
+		else if (strncmp(line, "No. Points:", 11) == 0)
+			n_points = strtol(line + 11, NULL, 10);
+		else if (strcmp(line, "Variables:") == 0) {
+			header_done = true;
+			break;
+		}
+	}
+	if (!header_done || n_vars <= 0 || n_vars > (long)(SCH_SIM_MAX_RECORD / 8) || n_points <= 0)
+		goto bad;
+	noise_clear(w);
+	w->names = calloc((size_t)n_vars, sizeof(*w->names));
+	if (!w->names)
+		_exit(4);
+	for (long i = 0; i < n_vars; i++) {
+		if (!data_file_line(f, line, sizeof(line)) || !(w->names[i] = data_file_name(line)))
+			goto bad;
+		w->n_names = (size_t)i + 1;
+	}
+	if (!data_file_line(f, line, sizeof(line)) || strcmp(line, "Binary:") != 0)
+		goto bad;
+	if (strcmp(w->names[0], "frequency") != 0) {
+		noise_clear(w); /* not a density plot */
+		goto out;
+	}
+	if (!real)
+		goto bad;
+	w->noise_live = w->noise_seen = true;
+	if (w->req->collect_noise)
+		worker_send_noise_names(w);
+	if (w->noise_order_bad)
+		goto out;
+	row = malloc((size_t)n_vars * sizeof(*row));
+	if (!row)
+		_exit(4);
+	for (long k = 0; k < n_points; k++) {
+		if (fread(row, sizeof(*row), (size_t)n_vars, f) != (size_t)n_vars)
+			goto bad;
+		w->n_rows++;
+		if (!w->req->collect_noise)
+			continue;
+		worker_header(w, SCH_REC_NOISE_ROW, 8 + 8 * (size_t)n_vars);
+		worker_put_u32(w, w->step);
+		worker_put_u32(w, (uint32_t)n_vars);
+		worker_put(w, row, (size_t)n_vars * sizeof(*row));
+	}
+	goto out;
+bad:
+	w->noise_seen = true;
+	w->noise_order_bad = true;
+out:
+	free(row);
+	noise_free_names(w);
+	fclose(f);
+}
+
+/* The command "run" with the data file of step s: the deck's analyses, then its density plot read back. */
+static bool worker_run_to_file(struct sch_worker_ctx *w, size_t s)
+{
+	char path[PATH_MAX], cmd[SCH_SIM_MAX_COMMAND + 1];
+
+	if (!data_file_path(s, path, sizeof(path)) || (size_t)snprintf(cmd, sizeof(cmd), "run %s", path) >= sizeof(cmd)) {
+		w->noise_seen = w->noise_order_bad = true;
+		return true;
+	}
+	unlink(path);
+	ngSpice_Command(cmd);
+	if (!w->gave_up)
+		worker_send_data_file(w, path);
+	unlink(path);
+	return !w->gave_up;
+}
+
 static bool step_runs_noise(const struct sch_sim_step *st)
 {
 	for (size_t c = 0; c < st->n_commands; c++) {
@@ -679,6 +831,8 @@ static bool step_runs_noise(const struct sch_sim_step *st)
 		while (*s == ' ' || *s == '\t')
 			s++;
 		if (strncasecmp(s, "noise", 5) == 0 && (s[5] == '\0' || isspace((unsigned char)s[5])))
+			return true;
+		if (strcmp(s, "run") == 0)
 			return true;
 	}
 	return false;
@@ -703,9 +857,12 @@ static bool worker_run_step(struct sch_worker_ctx *w, const struct sch_sim_reque
 	w->phase = SCH_PHASE_STEP;
 	noise_clear(w);
 	tran_clear(w);
-	for (size_t c = 0; c < st->n_commands; c++)
-		if (!worker_command(w, st->commands[c]))
+	for (size_t c = 0; c < st->n_commands; c++) {
+		bool ok = req->noise_via_file && strcmp(st->commands[c], "run") == 0 ? worker_run_to_file(w, s)
+											: worker_command(w, st->commands[c]);
+		if (!ok)
 			return false;
+	}
 	w->phase = SCH_PHASE_READ;
 	worker_send_quantities(w, req);
 	if (w->gave_up)
@@ -755,6 +912,10 @@ static void worker_main(const struct sch_sim_request *req, char **deck, size_t f
 			worker_load_codemodel_named(req->code_models[k]);
 	if (req->squared_noise)
 		worker_command(&w, "set sqrnoise");
+	if (req->noise_via_file) {
+		worker_command(&w, "set filetype=binary");
+		worker_command(&w, "set norefvalue");
+	}
 	if (w.gave_up)
 		goto gave_up;
 	w.phase = SCH_PHASE_LOAD;
@@ -1753,6 +1914,36 @@ static enum sch_err start_workers(const struct sch_sim_request *req, char **cons
 	return SCH_OK;
 }
 
+/* The workers' data-file directory, in $TMPDIR when a command may name it, else in /tmp. */
+static enum sch_err make_data_dir(struct sch_diag *d)
+{
+	const char *tmp = getenv("TMPDIR");
+
+	if (!tmp || tmp[0] != '/' || strlen(tmp) > 200 || !path_is_command_safe(tmp))
+		tmp = "/tmp";
+	snprintf(sch_data_dir, sizeof(sch_data_dir), "%s/schrot-data-XXXXXX", tmp);
+	if (!mkdtemp(sch_data_dir)) {
+		sch_data_dir[0] = '\0';
+		return sch_diag_error(d, SCH_ERR_SIM, NULL, 0, "simulator: cannot create a private directory in '%s': %s",
+				      tmp, strerror(errno));
+	}
+	return SCH_OK;
+}
+
+/* Removes what a worker that died early may have left, then the directory. */
+static void remove_data_dir(size_t n_steps)
+{
+	char path[PATH_MAX];
+
+	if (!sch_data_dir[0])
+		return;
+	for (size_t s = 0; s < n_steps; s++)
+		if (data_file_path(s, path, sizeof(path)))
+			unlink(path);
+	rmdir(sch_data_dir);
+	sch_data_dir[0] = '\0';
+}
+
 static void reap_workers(struct sch_worker *wks, size_t n_wk)
 {
 	for (size_t w = 0; w < n_wk; w++) {
@@ -1783,6 +1974,12 @@ enum sch_err sch_sim_run(const struct sch_sim_request *req, struct sch_sim_resul
 		goto out;
 	for (size_t s = 0; s < req->n_steps; s++)
 		own_decks = own_decks || req->steps[s].lines;
+	if (req->noise_via_file && req->n_tran_vectors > 0) {
+		ret = sch_diag_error(d, SCH_ERR_USAGE, NULL, 0, "simulator: transient vectors need the SendData path");
+		goto out;
+	}
+	if (req->noise_via_file && (ret = make_data_dir(d)) != SCH_OK)
+		goto out;
 	if (own_decks && req->n_steps > SCH_SIM_MAX_WORKERS) {
 		ret = sch_diag_error(d, SCH_ERR_USAGE, NULL, 0, "simulator: more than %d steps with decks of their own",
 				     SCH_SIM_MAX_WORKERS);
@@ -1834,6 +2031,7 @@ out:
 	else if (ret == SCH_ERR_NOMEM)
 		sch_diag_error(d, SCH_ERR_NOMEM, NULL, 0, "simulator: out of memory");
 	release_workers(wks, n_wk);
+	remove_data_dir(req->n_steps);
 	/* a density plot whose step never ended is left out, as if it had never started */
 	for (size_t s = 0; c.noise && res->steps && s < res->n_steps; s++)
 		noise_stream_drop(&c, s);

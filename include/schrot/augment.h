@@ -40,6 +40,7 @@ struct sch_augment_options {
 	/* deck element index -> true: the element (a resistor) gets " noisy=0"; NULL: none */
 	const bool *quiet_elements;
 	bool quiet_probes;       /* every generator's resistor gets " noisy=0" (a run for the circuit's own noise) */
+	const char *analysis_card; /* a card put just before ".end" (".noise v(out) iin dec 10 1 1meg 1"); NULL: none */
 };
 
 struct sch_augmented {

@@ -32,6 +32,13 @@ struct sch_sim_request {
 	size_t n_quantities;
 	bool collect_noise;            /* after each step, copy every vector of the newest noise density plot */
 	bool squared_noise;            /* "set sqrnoise": densities in V^2/Hz (or A^2/Hz) */
+	/*
+	 * A step command "run" runs the deck's own analysis cards (a ".noise" line), and the simulator
+	 * writes its data to a file in a private directory instead of building a vector per generator
+	 * in memory; the worker reads the density plot back from that file. Same numbers as the
+	 * SendData path, far less memory for big circuits. Transient vectors cannot be collected then.
+	 */
+	bool noise_via_file;
 	int n_workers;                 /* worker processes sharing the steps (<= 1: one) */
 	/*
 	 * Transient vectors collected from the simulator's data stream during each step (the library
