@@ -176,6 +176,111 @@ static void test_sim__resistor_noise_density_is_4ktr(void)
 	sch_sim_result_release(&res);
 }
 
+/*
+ * noise_via_file: the deck's own .noise card, its data written to a file and read back. Every
+ * vector must equal the SendData path's bit for bit, and the density still be 4kTR (Johnson 1928,
+ * Nyquist 1928, as above).
+ */
+static const char *const johnson_card_deck[] = {
+	"resistor across a current source", "i1 0 out dc 0 ac 1", "r1 out 0 1k", "r2 out 0 3k",
+	".noise v(out) i1 dec 5 10 100k 1", ".end",
+};
+
+static size_t data_dirs_in_tmp(void)
+{
+	size_t n = 0;
+	FILE *p = popen("ls -d /tmp/schrot-data-* 2>/dev/null | wc -l", "r");
+
+	if (p) {
+		if (fscanf(p, "%zu", &n) != 1)
+			n = 0;
+		pclose(p);
+	}
+	return n;
+}
+
+static void test_sim__data_file_path_equals_senddata_path(void)
+{
+	static const char *const cmd[] = { "noise v(out) i1 dec 5 10 100k 1" };
+	static const char *const run[] = { "run" };
+	static const struct sch_sim_step mem_step[] = { { cmd, 1, NULL, 0 } };
+	static const struct sch_sim_step file_step[] = { { run, 1, NULL, 0 } };
+	struct sch_sim_request req = {
+		.lines = johnson_card_deck, .n_lines = N_OF(johnson_card_deck), .steps = file_step, .n_steps = 1,
+		.collect_noise = true, .squared_noise = true, .n_workers = 1, .noise_via_file = true,
+	};
+	struct sch_sim_result mem, file;
+	struct sch_diag d;
+	size_t dirs_before = data_dirs_in_tmp();
+	/* R = 1k || 3k = 750 ohm: S_V = 4kTR */
+	double expected = 4.0 * SI_K * T_DEFAULT_K * 750.0;
+
+	CHECK(run_deck(johnson_card_deck, N_OF(johnson_card_deck), mem_step, 1, NULL, 0, true, &mem, &d) == SCH_OK);
+	sch_diag_init(&d, NULL, 0);
+	CHECK(sch_sim_run(&req, &file, &d) == SCH_OK);
+	assert_sane_result(&file, 1);
+	CHECK(data_dirs_in_tmp() == dirs_before);
+	if (mem.n_steps == 1 && file.n_steps == 1) {
+		const struct sch_sim_vector *total = sch_sim_find_vector(&file.steps[0], "onoise_spectrum");
+		size_t compared = 0;
+
+		CHECK(file.steps[0].n_vectors == mem.steps[0].n_vectors);
+		for (size_t v = 0; v < mem.steps[0].n_vectors; v++) {
+			const struct sch_sim_vector *a = &mem.steps[0].vectors[v];
+			const struct sch_sim_vector *b = sch_sim_find_vector(&file.steps[0], a->name);
+
+			CHECK(b != NULL);
+			if (!b || b->n != a->n)
+				continue;
+			CHECK(memcmp(a->values, b->values, a->n * sizeof(double)) == 0);
+			compared++;
+		}
+		CHECK(compared >= 8); /* frequency, two spectra, r1 and r2 with three each */
+		CHECK(total && total->n == 21);
+		for (size_t i = 0; total && i < total->n; i++)
+			CHECK_REL(total->values[i], expected, 2e-6);
+	}
+	sch_sim_result_release(&mem);
+	sch_sim_result_release(&file);
+}
+
+/* Two workers, an alter before each "run": each run sees its own value (4kTR for R = 1k..8k). */
+static void test_sim__data_file_runs_follow_alters_on_two_workers(void)
+{
+	static const double ohms[4] = { 1e3, 2e3, 4e3, 8e3 };
+	static const char *const alters[4] = { "alter r1 1k", "alter r1 2k", "alter r1 4k", "alter r1 8k" };
+	static const char *const lines[] = {
+		"resistor across a current source", "i1 0 out dc 0 ac 1", "r1 out 0 1k",
+		".noise v(out) i1 dec 1 10 1k 1", ".end",
+	};
+	const char *cmds[4][2];
+	struct sch_sim_step steps[4] = { { NULL, 0, NULL, 0 } };
+	struct sch_sim_request req = {
+		.lines = lines, .n_lines = N_OF(lines), .steps = steps, .n_steps = 4, .collect_noise = true,
+		.squared_noise = true, .n_workers = 2, .noise_via_file = true,
+	};
+	struct sch_sim_result res;
+	struct sch_diag d;
+
+	for (size_t i = 0; i < 4; i++) {
+		cmds[i][0] = alters[i];
+		cmds[i][1] = "run";
+		steps[i].commands = cmds[i];
+		steps[i].n_commands = 2;
+	}
+	sch_diag_init(&d, NULL, 0);
+	CHECK(sch_sim_run(&req, &res, &d) == SCH_OK);
+	assert_sane_result(&res, 4);
+	for (size_t i = 0; i < res.n_steps; i++) {
+		const struct sch_sim_vector *v = sch_sim_find_vector(&res.steps[i], "onoise_spectrum");
+
+		CHECK(v && v->n == 3);
+		if (v && v->n)
+			CHECK_REL(v->values[0], 4.0 * SI_K * T_DEFAULT_K * ohms[i], 2e-6);
+	}
+	sch_sim_result_release(&res);
+}
+
 /* A resistor without a flicker coefficient: its flicker vector is zero at every point, yet it is there. */
 static void test_sim__all_zero_vector_keeps_its_length(void)
 {
@@ -706,6 +811,8 @@ CHECK_MAIN(CASE(test_sim__divider_current_obeys_ohms_law),
 	   CASE(test_sim__reports_version_from_the_simulator),
 	   CASE(test_sim__forward_diode_voltage_matches_ideal_diode_equation),
 	   CASE(test_sim__resistor_noise_density_is_4ktr),
+	   CASE(test_sim__data_file_path_equals_senddata_path),
+	   CASE(test_sim__data_file_runs_follow_alters_on_two_workers),
 	   CASE(test_sim__all_zero_vector_keeps_its_length),
 	   CASE(test_sim__keep_vector_drops_the_vectors_it_refuses),
 	   CASE(test_sim__poly_sources_work_without_spinit),
