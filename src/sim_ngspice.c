@@ -61,6 +61,7 @@ enum sch_phase {
 
 #define SCH_STEP_NO_NOISE_PLOT 0x1u
 #define SCH_STEP_NOISE_GARBLED 0x2u
+#define SCH_STEP_DATA_FILE_BAD 0x4u
 #define SCH_STEP_NONE UINT32_MAX
 
 /* ------------------------------------------------------------------------------------------ */
@@ -85,6 +86,7 @@ struct sch_worker_ctx {
 	bool noise_live;  /* the plot now being written is a density plot */
 	bool noise_seen;  /* this step produced one */
 	bool noise_order_bad;
+	bool data_file_bad; /* the step's data file did not read back whole */
 	char **names;
 	size_t n_names;
 	size_t n_rows;
@@ -257,7 +259,7 @@ static void noise_clear(struct sch_worker_ctx *w)
 {
 	noise_free_names(w);
 	w->n_names = w->n_rows = 0;
-	w->noise_live = w->noise_seen = w->noise_order_bad = false;
+	w->noise_live = w->noise_seen = w->noise_order_bad = w->data_file_bad = false;
 }
 
 static void tran_clear(struct sch_worker_ctx *w)
@@ -800,6 +802,7 @@ static void worker_send_data_file(struct sch_worker_ctx *w, const char *path)
 bad:
 	w->noise_seen = true;
 	w->noise_order_bad = true;
+	w->data_file_bad = true;
 out:
 	free(row);
 	noise_free_names(w);
@@ -812,7 +815,7 @@ static bool worker_run_to_file(struct sch_worker_ctx *w, size_t s)
 	char path[PATH_MAX], cmd[SCH_SIM_MAX_COMMAND + 1];
 
 	if (!data_file_path(s, path, sizeof(path)) || (size_t)snprintf(cmd, sizeof(cmd), "run %s", path) >= sizeof(cmd)) {
-		w->noise_seen = w->noise_order_bad = true;
+		w->noise_seen = w->noise_order_bad = w->data_file_bad = true;
 		return true;
 	}
 	unlink(path);
@@ -868,7 +871,9 @@ static bool worker_run_step(struct sch_worker_ctx *w, const struct sch_sim_reque
 	if (w->gave_up)
 		return false;
 	if (req->collect_noise) {
-		if (w->noise_seen && w->noise_order_bad)
+		if (w->data_file_bad)
+			flags |= SCH_STEP_DATA_FILE_BAD;
+		else if (w->noise_seen && w->noise_order_bad)
 			flags |= SCH_STEP_NOISE_GARBLED;
 		else if (!w->noise_seen && step_runs_noise(st))
 			flags |= SCH_STEP_NO_NOISE_PLOT;
@@ -1303,7 +1308,7 @@ static enum sch_err on_record(struct sch_worker *wk, struct sch_collect *c, unsi
 		step = get_u32(p);
 		c->step_done[step] = true;
 		c->step_flags[step] = p[4];
-		if (p[4] & SCH_STEP_NOISE_GARBLED) {
+		if (p[4] & (SCH_STEP_NOISE_GARBLED | SCH_STEP_DATA_FILE_BAD)) {
 			noise_stream_drop(c, step);
 			return SCH_OK;
 		}
@@ -1816,6 +1821,9 @@ static enum sch_err judge(struct sch_sim_result *res, struct sch_worker *wks, si
 				o->failure = judge_text(wk, SCH_PHASE_STEP, (uint32_t)s, &nomem);
 			if (!o->failure && !nomem && c->step_done[s] && (c->step_flags[s] & SCH_STEP_NO_NOISE_PLOT))
 				o->failure = strdup("the noise analysis produced no result");
+			if (!o->failure && !nomem && c->step_done[s] && (c->step_flags[s] & SCH_STEP_DATA_FILE_BAD))
+				o->failure = strdup("the simulator's data file did not read back whole (is the temporary "
+						    "directory full?)");
 			if (!o->failure && !nomem && c->step_done[s] && (c->step_flags[s] & SCH_STEP_NOISE_GARBLED))
 				o->failure = strdup("the simulator sent noise data that does not match its vector list");
 			if (!o->failure && !nomem && !c->step_done[s])
