@@ -819,6 +819,8 @@ static bool worker_run_to_file(struct sch_worker_ctx *w, size_t s)
 		return true;
 	}
 	unlink(path);
+	/* again before each run: a deck's ".options filetype=ascii" would have changed it */
+	ngSpice_Command((char *)"set filetype=binary");
 	ngSpice_Command(cmd);
 	if (!w->gave_up)
 		worker_send_data_file(w, path);
@@ -917,10 +919,8 @@ static void worker_main(const struct sch_sim_request *req, char **deck, size_t f
 			worker_load_codemodel_named(req->code_models[k]);
 	if (req->squared_noise)
 		worker_command(&w, "set sqrnoise");
-	if (req->noise_via_file) {
-		worker_command(&w, "set filetype=binary");
+	if (req->noise_via_file)
 		worker_command(&w, "set norefvalue");
-	}
 	if (w.gave_up)
 		goto gave_up;
 	w.phase = SCH_PHASE_LOAD;
