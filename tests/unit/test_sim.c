@@ -244,43 +244,6 @@ static void test_sim__data_file_path_equals_senddata_path(void)
 	sch_sim_result_release(&file);
 }
 
-/* Two workers, an alter before each "run": each run sees its own value (4kTR for R = 1k..8k). */
-static void test_sim__data_file_runs_follow_alters_on_two_workers(void)
-{
-	static const double ohms[4] = { 1e3, 2e3, 4e3, 8e3 };
-	static const char *const alters[4] = { "alter r1 1k", "alter r1 2k", "alter r1 4k", "alter r1 8k" };
-	static const char *const lines[] = {
-		"resistor across a current source", "i1 0 out dc 0 ac 1", "r1 out 0 1k",
-		".noise v(out) i1 dec 1 10 1k 1", ".end",
-	};
-	const char *cmds[4][2];
-	struct sch_sim_step steps[4] = { { NULL, 0, NULL, 0 } };
-	struct sch_sim_request req = {
-		.lines = lines, .n_lines = N_OF(lines), .steps = steps, .n_steps = 4, .collect_noise = true,
-		.squared_noise = true, .n_workers = 2, .noise_via_file = true,
-	};
-	struct sch_sim_result res;
-	struct sch_diag d;
-
-	for (size_t i = 0; i < 4; i++) {
-		cmds[i][0] = alters[i];
-		cmds[i][1] = "run";
-		steps[i].commands = cmds[i];
-		steps[i].n_commands = 2;
-	}
-	sch_diag_init(&d, NULL, 0);
-	CHECK(sch_sim_run(&req, &res, &d) == SCH_OK);
-	assert_sane_result(&res, 4);
-	for (size_t i = 0; i < res.n_steps; i++) {
-		const struct sch_sim_vector *v = sch_sim_find_vector(&res.steps[i], "onoise_spectrum");
-
-		CHECK(v && v->n == 3);
-		if (v && v->n)
-			CHECK_REL(v->values[0], 4.0 * SI_K * T_DEFAULT_K * ohms[i], 2e-6);
-	}
-	sch_sim_result_release(&res);
-}
-
 /* A resistor without a flicker coefficient: its flicker vector is zero at every point, yet it is there. */
 static void test_sim__all_zero_vector_keeps_its_length(void)
 {
@@ -739,18 +702,22 @@ static void test_sim__simulator_warnings_become_notes(void)
 	sch_sim_result_release(&res);
 }
 
-static void test_sim__steps_split_over_two_workers_come_back_in_order(void)
+/*
+ * Four steps on two workers, an alter before each noise run: each step comes back in order with
+ * its own R and 4kTR (Johnson 1928; Nyquist 1928) for it. The noise run is the command given, or
+ * with via_file the deck's own .noise card through the simulator's data file.
+ */
+static void check_alters_on_two_workers(const char *const *lines, size_t n_lines, const char *noise, bool via_file)
 {
 	static const double ohms[4] = { 1e3, 2e3, 4e3, 8e3 };
 	static const char *const alters[4] = { "alter r1 1k", "alter r1 2k", "alter r1 4k", "alter r1 8k" };
-	static const char *const noise = "noise v(out) i1 dec 1 10 1k 1";
 	static const char *const q[] = { "@r1[resistance]" };
 	const char *cmds[4][2];
 	struct sch_sim_step steps[4] = { { NULL, 0, NULL, 0 } };
 	struct sch_sim_request req = {
-		.lines = johnson_deck, .n_lines = N_OF(johnson_deck), .steps = steps, .n_steps = 4,
-		.quantities = q, .n_quantities = 1, .collect_noise = true, .squared_noise = true,
-		.n_workers = 2,
+		.lines = lines, .n_lines = n_lines, .steps = steps, .n_steps = 4, .quantities = q,
+		.n_quantities = 1, .collect_noise = true, .squared_noise = true, .n_workers = 2,
+		.noise_via_file = via_file,
 	};
 	struct sch_sim_result res;
 	struct sch_diag d;
@@ -770,11 +737,25 @@ static void test_sim__steps_split_over_two_workers_come_back_in_order(void)
 		CHECK(res.steps[i].failure == NULL);
 		CHECK_REL(res.steps[i].quantities[0], ohms[i], 1e-12);
 		CHECK(v && v->n == 3);
-		/* 4kTR (Johnson 1928; Nyquist 1928) for this step's R. */
 		if (v && v->n > 0)
 			CHECK_REL(v->values[0], 4.0 * SI_K * T_DEFAULT_K * ohms[i], 2e-6);
 	}
 	sch_sim_result_release(&res);
+}
+
+static void test_sim__steps_split_over_two_workers_come_back_in_order(void)
+{
+	check_alters_on_two_workers(johnson_deck, N_OF(johnson_deck), "noise v(out) i1 dec 1 10 1k 1", false);
+}
+
+static void test_sim__data_file_runs_follow_alters_on_two_workers(void)
+{
+	static const char *const lines[] = {
+		"resistor across a current source", "i1 0 out dc 0 ac 1", "r1 out 0 1k",
+		".noise v(out) i1 dec 1 10 1k 1", ".end",
+	};
+
+	check_alters_on_two_workers(lines, N_OF(lines), "run", true);
 }
 
 static void test_sim__failed_step_does_not_hide_later_steps(void)
