@@ -105,10 +105,10 @@ static enum sch_err strlist_push(struct sch_arena *a, struct strlist *l, const c
 	return SCH_OK;
 }
 
-/* The noise analysis to run, resolved from the deck's .noise line and the options. */
 /* From this many resistor instances on, a report without --lump says that --lump exists. */
 #define SCH_LUMP_HINT_RESISTORS 2000
 
+/* The noise analysis to run, resolved from the deck's .noise line and the options. */
 struct noise_plan {
 	const char *output;
 	const char *input;
@@ -635,7 +635,6 @@ static int correct_bipolar(struct sch_result *res, const struct quantity_plan *q
 	return n;
 }
 
-/* Contributions of one noise outcome: scaled generators, the simulator's own, and corrections. */
 /* --lump: which resistor definitions run quiet, and the row that stands for them. */
 struct lump_plan {
 	bool *quiet;          /* deck element index -> quiet; NULL when there is no lump */
@@ -726,6 +725,7 @@ static enum sch_err add_lump_row(struct sch_result *res, const struct lump_plan 
 	return SCH_OK;
 }
 
+/* Contributions of one noise outcome: scaled generators, the simulator's own, and corrections. */
 static enum sch_err take_noise(struct sch_result *res, const struct sch_run_options *opt,
 			       const struct quantity_plan *q, const struct sch_sim_outcome *o, const struct mapping *m,
 			       const struct lump_plan *lp, const struct sch_sim_outcome *full, struct strlist *notes,
