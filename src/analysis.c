@@ -1245,6 +1245,94 @@ static enum sch_err run_simulator(const struct sch_result *res, const struct sch
 	return ret;
 }
 
+/* What turning one step's outcome into results needs. */
+struct step_run {
+	struct sch_result *res;
+	const struct sch_run_options *opt;
+	const struct vary_plan *vary;       /* NULL for a single report */
+	const struct quantity_plan *q;
+	struct mapping *m;
+	struct strlist *notes;
+	const struct lump_plan *lump;
+	const struct sch_sim_outcome *full; /* --lump: the circuit's own noise run */
+	struct sch_source *noiseless_all;   /* sweeps: the sources before any point compacted them */
+	size_t n_noiseless_all;
+	size_t n_steps, n_done;
+	struct sch_diag *d;
+};
+
+/*
+ * One step: its operating point, its rows, their band powers and, in a sweep, its point. A sweep
+ * point's rows go to an arena of their own that is freed once the point's values are taken, so a
+ * sweep's memory does not grow with its points; the result then holds no rows, only the values
+ * every point shares (band, names).
+ */
+static enum sch_err take_step(struct step_run *sr, size_t k, const struct sch_sim_outcome *o)
+{
+	struct sch_result *res = sr->res;
+	const struct sch_run_options *opt = sr->opt;
+	struct sch_arena kept = res->arena;
+	enum sch_err ret = SCH_ERR_NOMEM;
+
+	if (sr->vary) {
+		sch_arena_init(&res->arena);
+		memset(sr->notes, 0, sizeof(*sr->notes));
+		res->set.noiseless = sch_arena_alloc(&res->arena, (sr->n_noiseless_all + 1) * sizeof(*res->set.noiseless));
+		if (!res->set.noiseless)
+			goto done;
+		memcpy(res->set.noiseless, sr->noiseless_all, sr->n_noiseless_all * sizeof(*res->set.noiseless));
+		res->set.n_noiseless = sr->n_noiseless_all;
+	}
+	if ((ret = take_operating_point(res, sr->q, o, sr->d)) != SCH_OK)
+		goto done;
+	if (opt->mode == SCH_RUN_REPORT) {
+		for (size_t i = 0; i < res->set.n_instances; i++) {
+			sr->m->probe_vec[i] = -1;
+			sr->m->id_vec[i] = -1;
+			sr->m->id_row[i] = -1;
+			sr->m->ic_row[i] = -1;
+			sr->m->ib_row[i] = -1;
+		}
+		if ((ret = take_noise(res, opt, sr->q, o, sr->m, sr->lump, sr->full, sr->notes, sr->d)) != SCH_OK)
+			goto done;
+		if ((ret = integrate(res, opt, sr->d)) != SCH_OK)
+			goto done;
+	}
+	if (sr->vary) {
+		struct sch_sweep_point *p = &sr->vary->sweep->points[k];
+		p->value = sr->vary->values[k];
+		p->output_rms_v = res->output_rms_v;
+		p->input_rms = res->input_rms;
+		p->carrier_power_v2 = res->carrier_power_v2;
+		p->other_power_v2 = res->total_power_v2 - res->carrier_power_v2;
+		sr->n_done++;
+		if (opt->progress)
+			opt->progress(opt->progress_ctx, sr->n_done, sr->n_steps);
+	}
+done:
+	if (sr->vary) {
+		sch_arena_release(&res->arena);
+		res->arena = kept;
+		res->set.noiseless = sr->noiseless_all;
+		res->set.n_noiseless = sr->n_noiseless_all;
+		memset(sr->notes, 0, sizeof(*sr->notes));
+		res->contributions = NULL;
+		res->n_contributions = 0;
+		res->dominant_other = NULL;
+		res->freq_hz = res->gain2 = res->total_psd = NULL;
+		res->n_freq = 0;
+		res->spots = NULL;
+		res->n_spots = 0;
+	}
+	return ret;
+}
+
+/* The simulator session hands over each sweep point as it finishes (sim.h, on_step). */
+static enum sch_err sweep_point_done(void *ctx, size_t step, const struct sch_sim_outcome *o)
+{
+	return take_step(ctx, step, o);
+}
+
 static enum sch_err analysis_core(const char *path, const struct sch_run_options *opt, const struct vary_plan *vary,
 				  struct sch_result *res, struct sch_diag *d)
 {
@@ -1261,14 +1349,14 @@ static enum sch_err analysis_core(const char *path, const struct sch_run_options
 	const char *commands[2];
 	size_t n_commands = 1;
 	size_t n_steps = 1;
-	struct sch_source *noiseless_all = NULL;
-	size_t n_noiseless_all = 0;
+	struct step_run sr;
 	struct lump_plan lump;
 	struct sch_augmented aug_full;
 	const char *bare_commands[1];
 	enum sch_err ret;
 
 	memset(&lump, 0, sizeof(lump));
+	memset(&sr, 0, sizeof(sr));
 	memset(&one_step, 0, sizeof(one_step));
 	memset(&sim, 0, sizeof(sim));
 	memset(&m, 0, sizeof(m));
@@ -1395,54 +1483,40 @@ static enum sch_err analysis_core(const char *path, const struct sch_run_options
 	req.n_workers = vary ? opt->n_workers : 1;
 	if (vary && opt->progress)
 		opt->progress(opt->progress_ctx, 0, n_steps);
+	sr.res = res;
+	sr.opt = opt;
+	sr.vary = vary;
+	sr.q = &q;
+	sr.m = &m;
+	sr.notes = &notes;
+	sr.lump = &lump;
+	sr.n_steps = n_steps;
+	sr.d = d;
+	if (vary) {
+		/* every point starts from the full list of sources: taking the operating point compacts it */
+		ret = SCH_ERR_NOMEM;
+		sr.n_noiseless_all = res->set.n_noiseless;
+		sr.noiseless_all = sch_arena_alloc(a, (sr.n_noiseless_all + 1) * sizeof(*sr.noiseless_all));
+		if (!sr.noiseless_all)
+			goto out;
+		memcpy(sr.noiseless_all, res->set.noiseless, sr.n_noiseless_all * sizeof(*sr.noiseless_all));
+		req.on_step = sweep_point_done;
+		req.on_step_ctx = &sr;
+	}
 	if ((ret = run_simulator(res, &aug, &req, &sim, d)) != SCH_OK)
 		goto out;
 	res->sim_version = sch_arena_strdup(a, sim.version ? sim.version : "ngspice");
-	noiseless_all = res->set.noiseless;
-	n_noiseless_all = res->set.n_noiseless;
-	for (size_t k = 0; k < n_steps; k++) {
-		/* each step starts from the full list of sources: taking the operating point compacts it */
-		if (k > 0) {
-			ret = SCH_ERR_NOMEM;
-			res->set.noiseless = sch_arena_alloc(a, (n_noiseless_all + 1) * sizeof(*noiseless_all));
-			if (!res->set.noiseless)
+	if (vary) {
+		for (size_t k = 0; k < n_steps; k++) {
+			if (!sim.steps[k].consumed) {
+				ret = sch_diag_error(d, SCH_ERR_SIM, NULL, 0, "simulator: sweep point %zu gave no result", k + 1);
 				goto out;
-			memcpy(res->set.noiseless, noiseless_all, n_noiseless_all * sizeof(*noiseless_all));
-			res->set.n_noiseless = n_noiseless_all;
-			notes.n = 0;
-		} else if (vary) {
-			ret = SCH_ERR_NOMEM;
-			noiseless_all = sch_arena_alloc(a, (n_noiseless_all + 1) * sizeof(*noiseless_all));
-			if (!noiseless_all)
-				goto out;
-			memcpy(noiseless_all, res->set.noiseless, n_noiseless_all * sizeof(*noiseless_all));
-		}
-		if ((ret = take_operating_point(res, &q, &sim.steps[k], d)) != SCH_OK)
-			goto out;
-		if (opt->mode == SCH_RUN_REPORT) {
-			for (size_t i = 0; i < res->set.n_instances; i++) {
-				m.probe_vec[i] = -1;
-				m.id_vec[i] = -1;
-				m.id_row[i] = -1;
-				m.ic_row[i] = -1;
-				m.ib_row[i] = -1;
 			}
-			if ((ret = take_noise(res, opt, &q, &sim.steps[k], &m, &lump, lump.quiet ? &sim.steps[1] : NULL,
-					      &notes, d)) != SCH_OK)
-				goto out;
-			if ((ret = integrate(res, opt, d)) != SCH_OK)
-				goto out;
 		}
-		if (vary) {
-			struct sch_sweep_point *p = &vary->sweep->points[k];
-			p->value = vary->values[k];
-			p->output_rms_v = res->output_rms_v;
-			p->input_rms = res->input_rms;
-			p->carrier_power_v2 = res->carrier_power_v2;
-			p->other_power_v2 = res->total_power_v2 - res->carrier_power_v2;
-			if (opt->progress)
-				opt->progress(opt->progress_ctx, k + 1, n_steps);
-		}
+	} else {
+		sr.full = lump.quiet ? &sim.steps[1] : NULL;
+		if ((ret = take_step(&sr, 0, &sim.steps[0])) != SCH_OK)
+			goto out;
 	}
 	if (vary) {
 		vary->sweep->n_points = n_steps;

@@ -1004,7 +1004,25 @@ struct sch_collect {
 	uint8_t *step_flags;
 	struct sch_noise_stream *noise; /* per step */
 	size_t n_quantities;
+	enum sch_err hook_err;      /* what on_step returned, when not SCH_OK: the run stops with it */
 };
+
+static char *judge_text(const struct sch_worker *wk, enum sch_phase phase, uint32_t step, bool *nomem);
+
+/* Frees an outcome's vectors (their names, values and the shared zeros); quantities stay. */
+static void outcome_free_vectors(struct sch_sim_outcome *o)
+{
+	for (size_t v = 0; v < o->n_vectors; v++) {
+		free(o->vectors[v].name);
+		if (o->vectors[v].values != o->shared_zeros)
+			free(o->vectors[v].values);
+	}
+	free(o->shared_zeros);
+	free(o->vectors);
+	o->vectors = NULL;
+	o->shared_zeros = NULL;
+	o->n_vectors = 0;
+}
 
 static char *dup_mem(const void *p, size_t n)
 {
@@ -1272,10 +1290,39 @@ bad:
 	return SCH_OK;
 }
 
+/*
+ * A finished step goes to the request's on_step at once when nothing speaks against it yet: no
+ * flag, no failure in its messages (they arrive before the step's end on the same pipe). The
+ * final judgement still looks at every step; one handed over here had no failure to find.
+ */
+static enum sch_err hand_over_step(struct sch_worker *wk, struct sch_collect *c, uint32_t step)
+{
+	struct sch_sim_outcome *o = &c->res->steps[step];
+	bool nomem = false;
+	char *why;
+	enum sch_err err;
+
+	if (!c->req->on_step || c->step_flags[step])
+		return SCH_OK;
+	why = judge_text(wk, SCH_PHASE_STEP, step, &nomem);
+	if (nomem)
+		return SCH_ERR_NOMEM;
+	if (why) {
+		free(why);
+		return SCH_OK;
+	}
+	if ((err = c->req->on_step(c->req->on_step_ctx, step, o)) != SCH_OK)
+		return c->hook_err = err;
+	outcome_free_vectors(o);
+	o->consumed = true;
+	return SCH_OK;
+}
+
 static enum sch_err on_record(struct sch_worker *wk, struct sch_collect *c, unsigned kind,
 			      const unsigned char *p, size_t n)
 {
 	uint32_t step;
+	enum sch_err err;
 
 	switch (kind) {
 	case SCH_REC_MSG:
@@ -1312,7 +1359,9 @@ static enum sch_err on_record(struct sch_worker *wk, struct sch_collect *c, unsi
 			noise_stream_drop(c, step);
 			return SCH_OK;
 		}
-		return noise_stream_finish(c, step);
+		if ((err = noise_stream_finish(c, step)) != SCH_OK)
+			return err;
+		return hand_over_step(wk, c, step);
 	case SCH_REC_GAVE_UP:
 		wk->gave_up = true;
 		return SCH_OK;
@@ -2015,8 +2064,8 @@ enum sch_err sch_sim_run(const struct sch_sim_request *req, struct sch_sim_resul
 	ret = start_workers(req, decks, wks, n_wk, why, sizeof(why));
 	if (ret == SCH_OK)
 		ret = drain_workers(wks, n_wk, &c);
-	if (ret == SCH_ERR_NOMEM)
-		goto out;
+	if (c.hook_err != SCH_OK || ret == SCH_ERR_NOMEM)
+		goto out; /* the hook has said why */
 	if (ret != SCH_OK) {
 		res->failure = strdup(why[0] ? why : "lost contact with the simulator");
 		ret = SCH_ERR_SIM;
@@ -2033,10 +2082,11 @@ enum sch_err sch_sim_run(const struct sch_sim_request *req, struct sch_sim_resul
 		goto out;
 	ret = failed ? SCH_ERR_SIM : SCH_OK;
 out:
-	if (ret == SCH_ERR_SIM)
+	/* an error of the on_step hook was reported by the hook */
+	if (c.hook_err == SCH_OK && ret == SCH_ERR_SIM)
 		sch_diag_error(d, SCH_ERR_SIM, NULL, 0, "simulator: %s",
 			       res->failure ? res->failure : "the simulation failed");
-	else if (ret == SCH_ERR_NOMEM)
+	else if (c.hook_err == SCH_OK && ret == SCH_ERR_NOMEM)
 		sch_diag_error(d, SCH_ERR_NOMEM, NULL, 0, "simulator: out of memory");
 	release_workers(wks, n_wk);
 	remove_data_dir(req->n_steps);
@@ -2061,13 +2111,7 @@ void sch_sim_result_release(struct sch_sim_result *res)
 	for (size_t s = 0; s < res->n_steps; s++) {
 		struct sch_sim_outcome *o = &res->steps[s];
 
-		for (size_t v = 0; v < o->n_vectors; v++) {
-			free(o->vectors[v].name);
-			if (o->vectors[v].values != o->shared_zeros)
-				free(o->vectors[v].values);
-		}
-		free(o->shared_zeros);
-		free(o->vectors);
+		outcome_free_vectors(o);
 		free(o->quantities);
 		free(o->failure);
 	}

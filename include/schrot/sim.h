@@ -23,6 +23,8 @@ struct sch_sim_step {
 	size_t n_lines;
 };
 
+struct sch_sim_outcome;
+
 struct sch_sim_request {
 	const char *const *lines;      /* the deck: lines[0] is the title, the last line is ".end" */
 	size_t n_lines;
@@ -63,6 +65,15 @@ struct sch_sim_request {
 	 */
 	bool (*keep_vector)(void *ctx, const char *name);
 	void *keep_vector_ctx;
+	/*
+	 * Called in the tool as soon as a step's data is complete and sound (its commands left no
+	 * error, its noise plot arrived whole), in the order steps finish, not their index order.
+	 * The session then frees the step's vectors (its quantities stay) and sets its consumed flag,
+	 * so a long sweep never holds more than the steps in flight. A return other than SCH_OK stops
+	 * the run with that error. NULL: every step is kept until the run ends.
+	 */
+	enum sch_err (*on_step)(void *ctx, size_t step, const struct sch_sim_outcome *o);
+	void *on_step_ctx;
 };
 
 struct sch_sim_vector {
@@ -82,6 +93,7 @@ struct sch_sim_outcome {
 	 */
 	double *shared_zeros;
 	char *failure;                 /* NULL when the step succeeded, else the simulator's reason, one line */
+	bool consumed;                 /* on_step took it; its vectors are gone */
 };
 
 struct sch_sim_result {
