@@ -6,8 +6,10 @@ The lump's row is the circuit's own noise (a run with every resistor noisy and s
 quiet) less the simulator's rows of the per-device run, where the lumped resistors were quiet.
 Checks:
   - Thermal noise of resistors in series: the open-circuit noise density of a chain is
-    4kT(R1 + R2 + ...), because independent resistors add their noise powers (Nyquist, "Thermal
-    agitation of electric charge in conductors", Phys. Rev. 32, 110 (1928): 4kTR per resistor).
+    4kT(R1 + R2 + ...): 4kTR per resistor (CHECK-VALUES J1: J. B. Johnson, "Thermal agitation of
+    electricity in conductors", Phys. Rev. 32, 97 (1928); H. Nyquist, "Thermal agitation of
+    electric charge in conductors", Phys. Rev. 32, 110 (1928)), and independent resistors add
+    their noise powers (derived).
   - Against the straightforward path (every resistor its own row): the same total to 1e-9, the lump
     equal to the sum of the rows it replaces to 1e-9, every other row unchanged to 1e-9.
   - Bad uses exit 2 with a message: no match, a subcircuit resistor matched in only some instances,
@@ -40,7 +42,7 @@ lump = [c for c in data["contributions"] if c["device_count"] > 1] if data else 
 true("chain: one lumped row", len(lump) == 1 and lump[0]["device_count"] == 10, str(lump))
 if lump:
     # Nyquist 1928: density 4kT*R_total, flat, over 1 Hz..1 kHz
-    close("chain: lump band power = 4kT*(10*100 ohm)*(1k-1) Hz (Nyquist 1928)", lump[0]["band_power_v2"],
+    close("chain: lump band power = 4kT*(10*100 ohm)*(1k-1) Hz (J1, Johnson 1928; Nyquist 1928)", lump[0]["band_power_v2"],
           4 * K * T * 1000.0 * 999.0, 1e-9)
     close("chain: lump share = 1", lump[0]["share"], 1.0, 1e-12)
     true("chain: lump row says thermal, simulator", lump[0]["mechanism"] == "thermal" and
@@ -113,7 +115,7 @@ rc, many, _, _ = run(MANY, "report")
 true("2001 resistors: a note names --lump", many is not None and any("--lump" in n for n in many.get("notes", [])))
 rc, many, _, _ = run(MANY, "report", "--lump", "r[0-9]+")
 if many:
-    close("2001 one-ohm segments: lump = 4kT*2001 ohm*9 Hz (Nyquist 1928)", many["contributions"][0]["band_power_v2"],
+    close("2001 one-ohm segments: lump = 4kT*2001 ohm*9 Hz (J1, Johnson 1928; Nyquist 1928)", many["contributions"][0]["band_power_v2"],
           4 * K * T * 2001.0 * 9.0, 1e-9)
 
 # Bad uses: exit 2 and a message.
