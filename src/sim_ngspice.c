@@ -809,6 +809,16 @@ out:
 	fclose(f);
 }
 
+/* Runs ngspice commands in this process; returns false once the library has given up. */
+static bool worker_command(struct sch_worker_ctx *w, const char *command)
+{
+	char buf[SCH_SIM_MAX_COMMAND + 1];
+
+	snprintf(buf, sizeof(buf), "%s", command);
+	ngSpice_Command(buf);
+	return !w->gave_up;
+}
+
 /* The command "run" with the data file of step s: the deck's analyses, then its density plot read back. */
 static bool worker_run_to_file(struct sch_worker_ctx *w, size_t s)
 {
@@ -820,9 +830,7 @@ static bool worker_run_to_file(struct sch_worker_ctx *w, size_t s)
 	}
 	unlink(path);
 	/* again before each run: a deck's ".options filetype=ascii" would have changed it */
-	ngSpice_Command((char *)"set filetype=binary");
-	ngSpice_Command(cmd);
-	if (!w->gave_up)
+	if (worker_command(w, "set filetype=binary") && worker_command(w, cmd))
 		worker_send_data_file(w, path);
 	unlink(path);
 	return !w->gave_up;
@@ -841,16 +849,6 @@ static bool step_runs_noise(const struct sch_sim_step *st)
 			return true;
 	}
 	return false;
-}
-
-/* Runs ngspice commands in this process; returns false once the library has given up. */
-static bool worker_command(struct sch_worker_ctx *w, const char *command)
-{
-	char buf[SCH_SIM_MAX_COMMAND + 1];
-
-	snprintf(buf, sizeof(buf), "%s", command);
-	ngSpice_Command(buf);
-	return !w->gave_up;
 }
 
 static bool worker_run_step(struct sch_worker_ctx *w, const struct sch_sim_request *req, size_t s)
