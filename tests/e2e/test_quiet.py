@@ -91,16 +91,8 @@ rc, out, term = run_on_terminal(*SWEEP, "-q")
 true("[Q] sweep -q with stderr on a terminal: nothing at all", rc == 0 and out == "" and term == "", repr(term))
 rc, out, term = run_on_terminal(*SWEEP)
 true("[Q] sweep with stderr on a terminal: the table still goes to stdout", rc == 0 and "shot-noise-limited" in out)
-# analysis.c calls the progress callback once its sweep loop is wired to it; until then the
-# terminal sees nothing, and that is all this can check
-wired = "opt->progress" in open(os.path.join(ROOT, "src", "analysis.c")).read()
-if wired:
-    true("[Q] sweep on a terminal: progress lines count the points", "sweep 0/9 points done" in term and
-         "sweep 8/9 points done" in term, repr(term))
-    true("[Q] sweep on a terminal: the progress line is erased at the end", term.endswith("\r\x1b[K"), repr(term[-40:]))
-else:
-    print("note: src/analysis.c does not call the progress callback yet; progress lines not checked")
-    true("[Q] sweep on a terminal: nothing but progress on stderr",
-         all(not line or "points done" in line for line in term.replace("\x1b[K", "").split("\r")), repr(term))
+true("[Q] sweep on a terminal: progress lines count the points", "sweep 0/9 points done" in term and
+     "sweep 8/9 points done" in term, repr(term))
+true("[Q] sweep on a terminal: the progress line is erased at the end", term.endswith("\r\x1b[K"), repr(term[-40:]))
 shutil.rmtree(work, ignore_errors=True)
 finish()
