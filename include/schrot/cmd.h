@@ -34,11 +34,11 @@ enum sch_err sch_cmd_write_outputs(const struct sch_cli *cli, const struct sch_r
 void sch_cmd_print_help(FILE *out);
 
 /*
- * The start every command shares: parses argv into cli, prints help (with help, or the tool's
- * help when NULL) and sets *done when --help was given, and applies -q/-v to the diagnostics.
- * Returns SCH_ERR_USAGE for bad options (message printed). cli must be released in every case.
+ * The start every command shares: parses argv into cli, prints the command's own help (from the
+ * option table in cli.c) and sets *done when --help was given, and applies -q/-v to the
+ * diagnostics. Returns SCH_ERR_USAGE for bad options, options the command does not use (message
+ * printed) and SCH_ERR_NOMEM. cli must be released in every case.
  */
-enum sch_err sch_cmd_start(struct sch_cli *cli, int argc, char **argv, struct sch_ctx *ctx, void (*help)(FILE *out),
-			   bool *done);
+enum sch_err sch_cmd_start(struct sch_cli *cli, int argc, char **argv, struct sch_ctx *ctx, bool *done);
 
 #endif
