@@ -1,9 +1,11 @@
 /* SPDX-License-Identifier: BSD-3-Clause */
 /*
- * cmd.h - the subcommands. Adding a command takes three steps:
- *   1. write src/cmd_<name>.c defining int cmd_<name>(int argc, char **argv, struct sch_ctx *ctx);
+ * cmd.h - the subcommands. Adding a command takes four steps:
+ *   1. write src/cmd/<name>.c defining int cmd_<name>(int argc, char **argv, struct sch_ctx *ctx);
  *   2. declare it below;
- *   3. add a row to the commands[] table in src/main.c (and a CLI test case under tests/cli/).
+ *   3. add a row to the commands[] table in src/main.c (and a CLI test case under tests/cli/);
+ *   4. add its usage to commands[] in src/cmd/cli.c and its bit to every row of options[] there
+ *      that it honours (the others are refused, and its --help lists exactly those).
  * A command only parses its options, calls sch_analysis_run and chooses outputs.
  */
 #ifndef SCH_CMD_H
