@@ -47,11 +47,6 @@ struct reader {
 
 static enum sch_err read_source(struct reader *r, struct src *src, const char *text, size_t len);
 
-static inline bool is_blank(char c)
-{
-	return c == ' ' || c == '\t' || c == '\r' || c == '\f' || c == '\v';
-}
-
 static bool ci_prefix(const char *s, size_t n, const char *prefix)
 {
 	size_t k = strlen(prefix);
