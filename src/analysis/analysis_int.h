@@ -217,8 +217,8 @@ enum sch_err sch_analysis_take_noise(struct sch_analysis *an, const struct sch_s
 /* corrections.c */
 
 /*
- * Adds the junction (diode) and bipolar correction rows to rb->list and their notes to an.
- * Returns SCH_ERR_NOMEM on failure.
+ * With the junction correction on (the default), adds the junction (diode) and bipolar correction
+ * rows to rb->list and their notes to an; no-op otherwise. Returns SCH_ERR_NOMEM on failure.
  */
 enum sch_err sch_analysis_correct(struct sch_analysis *an, struct sch_row_build *rb);
 

@@ -192,7 +192,7 @@ enum sch_err sch_analysis_plan_report(struct sch_analysis *an)
 	return SCH_OK;
 }
 
-/* The value of "gmin=X" at p (just past "gmin"); false when p does not continue so. */
+/* The X of "gmin = X" from q, just past "gmin"; false when no "= number" follows. */
 static bool gmin_value(const char *q, double *v)
 {
 	char num[64];
