@@ -319,7 +319,7 @@ enum sch_err sch_report_sweep_merge(const char *const *paths, size_t n_paths, st
 		}
 	}
 	s->n_points = (size_t)ref.n_total;
-	s->crossover = sch_sweep_crossover(s->points, s->n_points);
+	s->crossover = sch_sweep_crossover_of(s);
 	ret = SCH_OK;
 out:
 	json_decref(ref.doc);
