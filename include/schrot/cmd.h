@@ -32,6 +32,12 @@ int cmd_merge(int argc, char **argv, struct sch_ctx *ctx);
 /* Writes every output file the options ask for (json, csv, spectrum, plot, html, depfile). */
 enum sch_err sch_cmd_write_outputs(const struct sch_cli *cli, const struct sch_result *res, struct sch_diag *d);
 
+/*
+ * Writes cli->depfile_path: every output file cli names (not '-') depends on every file res's
+ * netlist read. SCH_ERR_USAGE when cli names no output file; errors of sch_report_depfile.
+ */
+enum sch_err sch_cmd_write_depfile(const struct sch_cli *cli, const struct sch_result *res, struct sch_diag *d);
+
 /* Prints the help text of the whole tool to out. */
 void sch_cmd_print_help(FILE *out);
 

@@ -95,8 +95,9 @@ static enum sch_err set_seed(struct sch_cli *, const struct cli_option *, char *
 /*
  * Which command honours what was read from src/cmd and src/analysis: an operating-point run
  * (carriers, augment, arrivals) reads only the carrier rules; augment's deck takes the noise run's
- * output, input and range but no junction probes; a sweep reports band rms only (no spots, NEP,
- * SNR or budget); only report and carriers and augment write the shared output files.
+ * output, input and range but no junction probes; a sweep reports band rms only (no spots, NEP or
+ * SNR) and gates --budget on its worst point; a sweep writes JSON and CSV, arrivals JSON, CSV and
+ * a plot, and every command a depfile naming what it wrote; neither has an HTML page.
  */
 static const struct cli_option options[] = {
 	{ "--out", "-o", "FILE", CMD_AUGMENT, TEXT(out_path), "the augmented netlist ('-': the standard output)" },
@@ -142,8 +143,8 @@ static const struct cli_option options[] = {
 	  NUMBER(run.responsivity_a_per_w, CHECK_POSITIVE, "a positive value in A/W"), "detector responsivity, for NEP" },
 	{ "--signal", NULL, "VALUE", CMD_REPORT, NUMBER(run.signal, CHECK_ANY, "a number in the input's unit"),
 	  "signal in the input's unit, for SNR over the band" },
-	{ "--budget", NULL, "VRMS", CMD_REPORT, NUMBER(budget_v, CHECK_POSITIVE, "a positive rms voltage"),
-	  "exit 1 when the band's output rms exceeds it (SI suffixes: 50u)" },
+	{ "--budget", NULL, "VRMS", CMD_REPORT | CMD_SWEEP, NUMBER(budget_v, CHECK_POSITIVE, "a positive rms voltage"),
+	  "exit 1 when the band's output rms exceeds it (SI suffixes: 50u);\na sweep: at its worst point" },
 	{ "--output", NULL, "EXPR", CMD_REPORT | CMD_AUGMENT | CMD_SWEEP | CMD_ARRIVALS, TEXT(run.output_expr),
 	  "v(node) or v(node,ref) when the netlist has no .noise line" },
 	{ "--input", NULL, "SRC", CMD_REPORT | CMD_AUGMENT | CMD_SWEEP, TEXT(run.input_src),
@@ -151,7 +152,8 @@ static const struct cli_option options[] = {
 	{ "--freq", NULL, "F1:F2[:PPD]", CMD_REPORT | CMD_AUGMENT | CMD_SWEEP, OWN(set_freq, NULL),
 	  "noise run range in Hz and points per decade (default 20)\nwhen the netlist has no .noise line" },
 	{ "--json", NULL, "FILE", CMD_ALL, TEXT(json_path), "the result as JSON ('-': the standard output, no table)" },
-	{ "--csv", NULL, "FILE", CMD_REPORT, TEXT(csv_path), "one row per contribution" },
+	{ "--csv", NULL, "FILE", CMD_REPORT | CMD_SWEEP | CMD_ARRIVALS, TEXT(csv_path),
+	  "one row per contribution (sweep: per point; arrivals: per window)" },
 	{ "--spectrum", NULL, "FILE.csv", CMD_REPORT, TEXT(spectrum_path),
 	  "output noise density per frequency: total, the --top largest\ncontributions, the rest" },
 	{ "--top", NULL, "N", CMD_REPORT, set_whole_int, AT(top_n), CHECK_WHOLE, 1, 100, "a whole number 1..100",
@@ -159,7 +161,7 @@ static const struct cli_option options[] = {
 	{ "--plot", NULL, "FILE.svg|png", CMD_REPORT | CMD_ARRIVALS, TEXT(plot_path), "a plot, SVG or PNG by the name" },
 	{ "--html", NULL, "FILE", CMD_REPORT | CMD_CARRIERS | CMD_AUGMENT, TEXT(html_path),
 	  "a self-contained review page" },
-	{ "--depfile", NULL, "FILE", CMD_REPORT | CMD_CARRIERS | CMD_AUGMENT, TEXT(depfile_path),
+	{ "--depfile", NULL, "FILE", CMD_NETLIST, TEXT(depfile_path),
 	  "make dependency file: the output files depend on the netlist\nand its includes" },
 	{ "--quiet", "-q", NULL, CMD_ALL, OWN(set_flag, NULL), "only errors" },
 	{ "--verbose", "-v", NULL, CMD_ALL, OWN(set_flag, NULL), "notes and simulator messages too" },

@@ -176,6 +176,46 @@ static json_t *hist_json(const struct hist *h)
 	return o;
 }
 
+/* A CSV header field: "NAME count", quoted when the name holds a comma or a quote. */
+static void put_count_head(FILE *fp, const char *name)
+{
+	if (!strpbrk(name, ",\"\r\n")) {
+		fprintf(fp, ",%s count", name);
+		return;
+	}
+	fputs(",\"", fp);
+	for (const char *p = name; *p; p++) {
+		if (*p == '"')
+			fputc('"', fp);
+		fputc(*p, fp);
+	}
+	fputs(" count\"", fp);
+}
+
+enum sch_err sch_report_arrivals_csv(const struct sch_arrivals *a, const char *path, struct sch_diag *d)
+{
+	struct sch_outfile o;
+	enum sch_err ret = sch_outfile_open(&o, path, d);
+
+	if (ret != SCH_OK)
+		return ret;
+	fputs("window,end_s,output_v", o.fp);
+	for (size_t c = 0; c < a->n_counts; c++)
+		put_count_head(o.fp, a->counts[c].carrier);
+	fputc('\n', o.fp);
+	for (size_t w = 0; w < a->n_windows; w++) {
+		fprintf(o.fp, "%zu,%.12g,%.12g", w + 1, a->settle_s + (double)(w + 1) * a->window_s, a->output_v[w]);
+		for (size_t c = 0; c < a->n_counts; c++)
+			fprintf(o.fp, ",%lu", a->counts[c].per_window ? (unsigned long)a->counts[c].per_window[w] : 0UL);
+		fputc('\n', o.fp);
+	}
+	if (ferror(o.fp)) {
+		sch_outfile_abort(&o);
+		return sch_diag_error(d, SCH_ERR_IO, path, 0, "cannot write the arrivals CSV");
+	}
+	return sch_outfile_commit(&o, d);
+}
+
 enum sch_err sch_report_arrivals_json(const struct sch_arrivals *a, const char *path, struct sch_diag *d)
 {
 	struct sch_outfile o;
