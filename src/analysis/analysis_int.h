@@ -107,6 +107,9 @@ struct sch_analysis {
 	struct sch_source *noiseless_all;   /* sweeps: the sources before any point compacted them */
 	size_t n_noiseless_all;
 	size_t n_done;                      /* sweeps: points taken so far */
+	long junction_note;                 /* index in notes of the junction correction's note, -1: none */
+	int n_junction_rows;                /* junction correction rows made (before small ones are dropped) */
+	double gmin;                        /* the deck's GMIN, for that note */
 };
 
 /* One noise outcome being turned into rows: what the parts of sch_analysis_take_noise share. */
@@ -237,6 +240,12 @@ enum sch_err sch_analysis_integrate(struct sch_result *res, const struct sch_run
  * ranked by band power. Returns SCH_ERR_NOMEM on failure.
  */
 enum sch_err sch_analysis_verdict(struct sch_result *res);
+
+/*
+ * After integration: when the table dropped junction correction rows too small to matter, the
+ * junction note says how many (so its count matches the rows). SCH_ERR_NOMEM.
+ */
+enum sch_err sch_analysis_junction_note_recount(struct sch_analysis *an);
 
 /* The notes that close a run (resistor count, noiseless sources, the constants). SCH_ERR_NOMEM. */
 enum sch_err sch_analysis_closing_notes(struct sch_analysis *an);

@@ -258,9 +258,10 @@ enum sch_err sch_analysis_take_step(struct sch_analysis *an, const struct sch_si
 		return ret;
 	if (an->opt->mode != SCH_RUN_REPORT)
 		return SCH_OK;
-	if ((ret = sch_analysis_take_noise(an, o)) != SCH_OK)
+	if ((ret = sch_analysis_take_noise(an, o)) != SCH_OK ||
+	    (ret = sch_analysis_integrate(an->res, an->opt, an->d)) != SCH_OK)
 		return ret;
-	return sch_analysis_integrate(an->res, an->opt, an->d);
+	return sch_analysis_junction_note_recount(an);
 }
 
 enum sch_err sch_analysis_take_outcome(struct sch_analysis *an)

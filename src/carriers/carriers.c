@@ -7,6 +7,7 @@
 #include <string.h>
 #include "schrot/carriers.h"
 #include "schrot/physics.h"
+#include "schrot/si.h"
 #include "schrot/strmap.h"
 
 /* True for elements that force a current: I; G; F; B with i=. */
@@ -21,6 +22,42 @@ static bool is_current_element(const struct sch_element *e)
 		}
 	}
 	return false;
+}
+
+/* True when token t starts a time-dependent source function: pulse(...), sin(...), ... */
+static bool is_time_function(const char *t)
+{
+	static const char *const fns[] = { "pulse", "sin", "exp", "pwl", "sffm", "am", "trrandom", "trnoise" };
+	for (size_t k = 0; k < sizeof(fns) / sizeof(fns[0]); k++) {
+		size_t n = strlen(fns[k]);
+		if (strncmp(t, fns[k], n) == 0 && (t[n] == '\0' || t[n] == '('))
+			return true;
+	}
+	return false;
+}
+
+/*
+ * True for an I element whose netlist value carries no DC current: no value, "dc 0", a bare 0, or
+ * only an AC value ("itest 0 in ac 1"), and no time function (PULSE, SIN, ...: their DC value is
+ * the function's value at the operating point). An expression ("{ip}") may be anything: false.
+ */
+static bool without_dc(const struct sch_element *e)
+{
+	const char *const *t = e->tok + 2;
+	int n = e->n_tok - 2, k = 0;
+	double v = 0;
+
+	if (e->letter != 'i')
+		return false;
+	for (int j = 0; j < n; j++) {
+		if (is_time_function(t[j]))
+			return false;
+	}
+	if (n > 0 && strcmp(t[0], "dc") == 0)
+		k = 1;
+	if (k >= n || strcmp(t[k], "ac") == 0 || strncmp(t[k], "ac=", 3) == 0)
+		return true;
+	return sch_si_parse(t[k], &v) == SCH_OK && v == 0;
 }
 
 static const char *leaf_name(const char *path)
@@ -103,6 +140,7 @@ struct elem_info {
 	const struct sch_element *diode;
 	bool name_rule;
 	bool current;
+	bool without_dc;  /* an I element whose netlist value has no DC current */
 };
 
 /* Most --avalanche and --fano rules one run takes, each. */
@@ -164,6 +202,7 @@ static struct elem_info *classify_elements(const struct sch_deck *deck, struct s
 		if (!info[k].current)
 			continue;
 		info[k].diode = paired_diode(deck, arena, pairs, e);
+		info[k].without_dc = without_dc(e);
 		info[k].name_rule = sch_pattern_match(ru->name_rule, e->name, strlen(e->name));
 	}
 	return info;
@@ -213,6 +252,9 @@ static unsigned instance_why(const struct rules *ru, const struct elem_info *ei,
 		why |= SCH_WHY_AVALANCHE;
 	if (*fano)
 		why |= SCH_WHY_FANO;
+	/* a source with no DC current (an AC test source across a diode) carries no shot noise unless named */
+	if (ei->without_dc && !(ru->opt && ru->opt->swept && strcmp(ru->opt->swept, path) == 0))
+		why &= ~(unsigned)(SCH_WHY_DIODE | SCH_WHY_NAME);
 	if (ru->ignore && sch_pattern_match(ru->ignore, path, plen))
 		why = 0;
 	return why;
