@@ -110,6 +110,8 @@ struct sch_arrivals {
 	const char *output;       /* "v(out)" or "v(a,b)" */
 	double *output_v;         /* output at the end of each window, n_windows values */
 	double output_mean_v, output_std_v, output_skewness;
+	double output_lag1_correlation; /* of each window's output with the next one's; NaN without spread */
+	double shortest_rc_s;     /* the circuit's shortest RC estimated from the deck; NaN: none found */
 	struct sch_arrival_counts *counts;
 	size_t n_counts;
 	size_t n_bins;            /* source points per carrier */

@@ -55,6 +55,8 @@ struct sch_carrier {
 	double gain_m;           /* 1 unless --avalanche */
 	double excess_f;         /* McIntyre F(M) for avalanche, the Fano factor for --fano, else 1 */
 	double dc_current_a;     /* terminal current from the operating point; NaN until simulated */
+	const char *time_function; /* "PULSE", "SIN", ... when the netlist value is one (sized at its
+				      operating-point value); NULL otherwise */
 };
 
 /* A DC current element that is not a carrier (noiseless in the simulator). */

@@ -247,6 +247,20 @@ enum sch_err sch_analysis_verdict(struct sch_result *res);
  */
 enum sch_err sch_analysis_junction_note_recount(struct sch_analysis *an);
 
+/*
+ * After integration: a note per carrier with a --fano rule (2q|I|F holds well below its electron
+ * rate |I|/q) and, outside sweeps, a warning when the band reaches within a decade of that rate.
+ * SCH_ERR_NOMEM.
+ */
+enum sch_err sch_analysis_fano_notes(struct sch_analysis *an);
+
+/*
+ * After the operating point: a note per carrier whose netlist value is a time function (PULSE,
+ * SIN, ...) naming the DC operating-point current its generator is sized from and, outside
+ * sweeps, a warning when that current is zero. SCH_ERR_NOMEM.
+ */
+enum sch_err sch_analysis_time_source_notes(struct sch_analysis *an);
+
 /* The notes that close a run (resistor count, noiseless sources, the constants). SCH_ERR_NOMEM. */
 enum sch_err sch_analysis_closing_notes(struct sch_analysis *an);
 

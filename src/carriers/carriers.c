@@ -24,16 +24,33 @@ static bool is_current_element(const struct sch_element *e)
 	return false;
 }
 
-/* True when token t starts a time-dependent source function: pulse(...), sin(...), ... */
-static bool is_time_function(const char *t)
+/* The time-dependent source function token t starts ("pulse(...)", "sin", ...), upper case; NULL for none. */
+static const char *time_function(const char *t)
 {
 	static const char *const fns[] = { "pulse", "sin", "exp", "pwl", "sffm", "am", "trrandom", "trnoise" };
+	static const char *const names[] = { "PULSE", "SIN", "EXP", "PWL", "SFFM", "AM", "TRRANDOM", "TRNOISE" };
 	for (size_t k = 0; k < sizeof(fns) / sizeof(fns[0]); k++) {
 		size_t n = strlen(fns[k]);
 		if (strncmp(t, fns[k], n) == 0 && (t[n] == '\0' || t[n] == '('))
-			return true;
+			return names[k];
 	}
-	return false;
+	return NULL;
+}
+
+static bool is_time_function(const char *t)
+{
+	return time_function(t) != NULL;
+}
+
+/* The time function of an I element's value, NULL when it has none. */
+static const char *element_time_function(const struct sch_element *e)
+{
+	for (int j = 2; e->letter == 'i' && j < e->n_tok; j++) {
+		const char *fn = time_function(e->tok[j]);
+		if (fn)
+			return fn;
+	}
+	return NULL;
 }
 
 /*
@@ -319,6 +336,7 @@ static enum sch_err sort_instance(struct sch_carrier_set *set, struct sch_arena 
 	c->gain_m = aval ? aval->gain_m : 1.0;
 	c->excess_f = (aval ? sch_mcintyre_f(aval->gain_m, aval->k_ratio) : 1.0) * (fano ? fano->fano : 1.0);
 	c->dc_current_a = NAN;
+	c->time_function = element_time_function(ei->self);
 	return c->reason ? SCH_OK : SCH_ERR_NOMEM;
 }
 

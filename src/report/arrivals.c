@@ -112,7 +112,9 @@ enum sch_err sch_report_arrivals_table(const struct sch_arrivals *a, FILE *out)
 	fprintf(out, "output at the end of each window\n");
 	fprintf(out, "  mean       %s\n", sch_si_format(s1, sizeof(s1), a->output_mean_v, 5, "V"));
 	fprintf(out, "  std        %s rms\n", sch_si_format(s1, sizeof(s1), a->output_std_v, 4, "V"));
-	fprintf(out, "  skewness   %.4f   (a Gaussian of the same mean and variance: 0)\n\n", a->output_skewness);
+	fprintf(out, "  skewness   %.4f   (a Gaussian of the same mean and variance: 0)\n", a->output_skewness);
+	fprintf(out, "  lag-1      %.4f   (correlation with the next window; independent windows: 0)\n\n",
+		a->output_lag1_correlation);
 	fprintf(out, "counts per window         %10s %10s %10s %8s %8s %10s %10s\n", "expected N", "mean", "variance",
 		"skewness", "P(0)", "Poisson", "Gaussian");
 	for (size_t k = 0; k < a->n_counts; k++) {
@@ -240,6 +242,8 @@ enum sch_err sch_report_arrivals_json(const struct sch_arrivals *a, const char *
 	json_object_set_new(doc, "output_mean_v", real_or_null(a->output_mean_v));
 	json_object_set_new(doc, "output_std_v", real_or_null(a->output_std_v));
 	json_object_set_new(doc, "output_skewness", real_or_null(a->output_skewness));
+	json_object_set_new(doc, "output_lag1_correlation", real_or_null(a->output_lag1_correlation));
+	json_object_set_new(doc, "shortest_rc_s", real_or_null(a->shortest_rc_s));
 	output_hist(a, h);
 	json_object_set_new(doc, "output_histogram", hist_json(h));
 	for (size_t k = 0; k < a->n_counts; k++) {
