@@ -96,8 +96,8 @@ static enum sch_err set_seed(struct sch_cli *, const struct cli_option *, char *
  * Which command honours what was read from src/cmd and src/analysis: an operating-point run
  * (carriers, augment, arrivals) reads only the carrier rules; augment's deck takes the noise run's
  * output, input and range but no junction probes; a sweep reports band rms only (no spots, NEP or
- * SNR) and gates --budget on its worst point; a sweep writes JSON and CSV, arrivals JSON, CSV and
- * a plot, and every command a depfile naming what it wrote; neither has an HTML page.
+ * SNR) and gates --budget on its worst point; sweep and arrivals write JSON, CSV and a plot, and
+ * every command a depfile naming what it wrote; neither has an HTML page.
  */
 static const struct cli_option options[] = {
 	{ "--out", "-o", "FILE", CMD_AUGMENT, TEXT(out_path), "the augmented netlist ('-': the standard output)" },
@@ -158,7 +158,8 @@ static const struct cli_option options[] = {
 	  "output noise density per frequency: total, the --top largest\ncontributions, the rest" },
 	{ "--top", NULL, "N", CMD_REPORT, set_whole_int, AT(top_n), CHECK_WHOLE, 1, 100, "a whole number 1..100",
 	  "contributions with their own --spectrum column (default 8)" },
-	{ "--plot", NULL, "FILE.svg|png", CMD_REPORT | CMD_ARRIVALS, TEXT(plot_path), "a plot, SVG or PNG by the name" },
+	{ "--plot", NULL, "FILE.svg|png", CMD_REPORT | CMD_SWEEP | CMD_ARRIVALS, TEXT(plot_path),
+	  "a plot, SVG or PNG by the name" },
 	{ "--html", NULL, "FILE", CMD_REPORT | CMD_CARRIERS | CMD_AUGMENT, TEXT(html_path),
 	  "a self-contained review page" },
 	{ "--depfile", NULL, "FILE", CMD_NETLIST, TEXT(depfile_path),

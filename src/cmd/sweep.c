@@ -136,7 +136,7 @@ static enum sch_err budget_breach(const struct sch_cli *cli, const struct sch_re
 			      100.0 * (worst->output_rms_v - cli->budget_v) / cli->budget_v);
 }
 
-/* JSON, CSV and the depfile naming them, all or none. */
+/* JSON, CSV, plot and the depfile naming them, all or none. */
 static enum sch_err write_outputs(const struct sch_cli *cli, const struct sch_result *res, const struct sch_sweep *s,
 				  struct sch_diag *d)
 {
@@ -147,6 +147,8 @@ static enum sch_err write_outputs(const struct sch_cli *cli, const struct sch_re
 		ret = sch_report_sweep_json(res, s, cli->json_path, d);
 	if (ret == SCH_OK && cli->csv_path)
 		ret = sch_report_sweep_csv(res, s, cli->csv_path, d);
+	if (ret == SCH_OK && cli->plot_path)
+		ret = sch_report_sweep_plot(s, cli->plot_path, d);
 	if (ret == SCH_OK && cli->depfile_path)
 		ret = sch_cmd_write_depfile(cli, res, d);
 	end = sch_outfile_batch_end(ret == SCH_OK, d);

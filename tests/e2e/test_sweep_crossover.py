@@ -92,6 +92,13 @@ if proc.returncode == 0:
     t_k = 1.602176634e-19 * 51.704e-9 * 1e6 / (2 * 1.380649e-23)
     close("[X2] temperature crossover qIR/(2k), interpolated in kelvin", json.loads(proc.stdout)["crossover"]["value"]
           + 273.15, t_k, 1e-5)
+# The sweep's plot: an SVG and a PNG of the same sweep, written beside its CSV.
+for ext, magic in ((".svg", b"<?xml"), (".png", b"\x89PNG")):
+    plot = os.path.join(d, "sweep" + ext)
+    proc = subprocess.run([SCHROT, "sweep", path, "--vary", "temp=10:60:2", "--plot", plot, "--csv",
+                           os.path.join(d, "sweep.csv"), "-q"], capture_output=True, text=True, timeout=300)
+    true("[X2] sweep --plot writes a %s file" % ext, proc.returncode == 0 and os.path.exists(plot) and
+         open(plot, "rb").read(5)[:len(magic)] == magic, proc.stderr)
 proc = subprocess.run([SCHROT, "sweep", path, "--vary", "nosuch=1:2:3"], capture_output=True, text=True)
 true("[X1] an unknown sweep name is exit 2", proc.returncode == 2 and "--vary 'nosuch'" in proc.stderr, proc.stderr)
 finish()
