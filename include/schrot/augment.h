@@ -81,6 +81,16 @@ const char *sch_augment_probe_sim_name(struct sch_arena *arena, const struct sch
 #define SCH_PROBE_OFF_OHMS 1e-30
 
 /*
+ * The simulator's flat names of the first two nodes of deck element `element` in its instance at
+ * path ("x1.x2.iph"): a port is the node its X line connects it to, one level up at a time; an
+ * internal node is "x1.x2.node"; ground and .global nodes stay. Strings come from arena. Returns
+ * SCH_ERR_INPUT when the path does not follow the deck's hierarchy or the element has fewer than
+ * two nodes (out of memory reads as that too); the outputs are then unspecified.
+ */
+enum sch_err sch_augment_flat_nodes(struct sch_arena *arena, const struct sch_deck *deck, int element,
+				    const char *path, const char **n_plus, const char **n_minus);
+
+/*
  * Writes aug (built from deck with opt->plain) to out as a plain deck: its cards, then one
  * generator per carrier instance of set at the top level, across the instance's flat node names
  * ("x1.x2.k"), its resistor a literal value sized for 2q|I|G with the operating-point current at

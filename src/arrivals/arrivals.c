@@ -239,99 +239,6 @@ static bool parse_output(const char *expr, char *a, char *b, size_t size)
 	return sch_sim_name_is_safe(a) && (!b[0] || sch_sim_name_is_safe(b));
 }
 
-static bool is_global(const struct sch_deck *deck, const char *node)
-{
-	for (size_t c = 0; c < deck->n_cards; c++) {
-		const char *kw = deck->cards[c].keyword, *p;
-		size_t n = strlen(node);
-		if (!kw || strcmp(kw, ".global") != 0)
-			continue;
-		p = deck->cards[c].text + 7;
-		while (*p) {
-			size_t len;
-			while (isspace((unsigned char)*p))
-				p++;
-			len = strcspn(p, " \t");
-			if (len == n && strncasecmp(p, node, n) == 0)
-				return true;
-			p += len;
-		}
-	}
-	return false;
-}
-
-/* The simulator's flat name of a node of the definition one level down a hierarchical path. */
-struct level {
-	int def;                  /* -1 top level */
-	const char *prefix;       /* "x1.x2", NULL at top */
-	const char **port_flat;   /* the definition's ports as flat names */
-};
-
-static const char *flatten(struct sch_arena *ar, const struct sch_deck *deck, const struct level *lv, const char *node)
-{
-	if (is_ground(node) || is_global(deck, node) || lv->def < 0)
-		return node;
-	for (int p = 0; p < deck->subckts[lv->def].n_ports; p++)
-		if (strcmp(deck->subckts[lv->def].ports[p], node) == 0)
-			return lv->port_flat[p];
-	return sch_arena_printf(ar, "%s.%s", lv->prefix, node);
-}
-
-/*
- * The flat names of the first two nodes of the carrier instance at path ("x1.x2.iph"), walking
- * the X instances from the top so ports map to their parents' nodes. SCH_ERR_INPUT when the path
- * does not resolve.
- */
-static enum sch_err instance_nodes(struct sch_arena *ar, const struct sch_deck *deck, const char *path,
-				   const char **n_plus, const char **n_minus)
-{
-	struct level lv = { -1, NULL, NULL };
-	const char *p = path;
-	const char *dot;
-
-	while ((dot = strchr(p, '.')) != NULL) {
-		const struct sch_element *x = NULL;
-		const char *const *ports;
-		int n_ports, def;
-		struct level next;
-		char name[256];
-
-		snprintf(name, sizeof(name), "%.*s", (int)(dot - p), p);
-		for (size_t k = 0; k < deck->n_elements; k++)
-			if (deck->elements[k].letter == 'x' && deck->elements[k].subckt == lv.def &&
-			    strcmp(deck->elements[k].name, name) == 0)
-				x = &deck->elements[k];
-		if (!x)
-			return SCH_ERR_INPUT;
-		def = sch_deck_find_subckt(deck, sch_deck_x_subckt(deck, x));
-		n_ports = sch_deck_element_nodes(deck, x, &ports);
-		if (def < 0 || n_ports != deck->subckts[def].n_ports)
-			return SCH_ERR_INPUT;
-		next.def = def;
-		next.prefix = lv.prefix ? sch_arena_printf(ar, "%s.%s", lv.prefix, name) : sch_arena_strdup(ar, name);
-		next.port_flat = sch_arena_alloc(ar, ((size_t)n_ports + 1) * sizeof(*next.port_flat));
-		if (!next.prefix || !next.port_flat)
-			return SCH_ERR_NOMEM;
-		for (int i = 0; i < n_ports; i++)
-			if (!(next.port_flat[i] = flatten(ar, deck, &lv, ports[i])))
-				return SCH_ERR_NOMEM;
-		lv = next;
-		p = dot + 1;
-	}
-	for (size_t k = 0; k < deck->n_elements; k++) {
-		const struct sch_element *e = &deck->elements[k];
-		const char *const *nodes;
-		if (e->subckt != lv.def || strcmp(e->name, p) != 0)
-			continue;
-		if (sch_deck_element_nodes(deck, e, &nodes) < 2)
-			return SCH_ERR_INPUT;
-		*n_plus = flatten(ar, deck, &lv, nodes[0]);
-		*n_minus = flatten(ar, deck, &lv, nodes[1]);
-		return *n_plus && *n_minus ? SCH_OK : SCH_ERR_NOMEM;
-	}
-	return SCH_ERR_INPUT;
-}
-
 /* Private directory for the source files; removed with everything in it by scratch_remove. */
 struct scratch {
 	char dir[512];
@@ -439,7 +346,7 @@ static enum sch_err build_lines(struct sch_arrivals *a, const struct scratch *s,
 		const struct sch_carrier *c = &a->op.set.carriers[k];
 		const char *np, *nm;
 		char file[600];
-		if ((ret = instance_nodes(ar, deck, c->name, &np, &nm)) != SCH_OK) {
+		if ((ret = sch_augment_flat_nodes(ar, deck, c->element, c->name, &np, &nm)) != SCH_OK) {
 			if (ret == SCH_ERR_NOMEM)
 				return ret;
 			return sch_diag_error(d, SCH_ERR_INPUT, deck->path, 0, "cannot find the nodes of carrier '%s'", c->name);

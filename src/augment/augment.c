@@ -382,17 +382,26 @@ static double probe_ohms(const struct sch_carrier *c, double temp_k)
 	return s / (4.0 * SCH_SIM_K * temp_k);
 }
 
+enum sch_err sch_augment_flat_nodes(struct sch_arena *arena, const struct sch_deck *deck, int element,
+				    const char *path, const char **n_plus, const char **n_minus)
+{
+	const char *const *nodes;
+
+	if (sch_deck_element_nodes(deck, &deck->elements[element], &nodes) < 2)
+		return SCH_ERR_INPUT;
+	*n_plus = flat_node(deck, arena, path, nodes[0]);
+	*n_minus = flat_node(deck, arena, path, nodes[1]);
+	return *n_plus && *n_minus ? SCH_OK : SCH_ERR_INPUT;
+}
+
 /* Carrier k's generator at the top level, across its instance's flat nodes, sized as a literal. */
 static enum sch_err write_generator(const struct sch_deck *deck, const struct sch_carrier *c, size_t k, double temp_k,
 				    struct sch_arena *arena, FILE *out, struct sch_diag *d)
 {
-	const struct sch_element *e = &deck->elements[c->element];
-	const struct sch_card *card = &deck->cards[e->card];
-	const char *const *nodes;
+	const struct sch_card *card = &deck->cards[deck->elements[c->element].card];
 	const char *a, *b;
 
-	if (sch_deck_element_nodes(deck, e, &nodes) < 2 || !(a = flat_node(deck, arena, c->name, nodes[0])) ||
-	    !(b = flat_node(deck, arena, c->name, nodes[1])))
+	if (sch_augment_flat_nodes(arena, deck, c->element, c->name, &a, &b) != SCH_OK)
 		return sch_diag_error(d, SCH_ERR_INPUT, card->file, card->line,
 				      "cannot name the nodes of '%s' at the top level of the augmented deck", c->name);
 	fprintf(out, "* schrot: %s carries %.9g A, gain %.9g: 2q|I|G = %.9g A^2/Hz\n", c->name, c->dc_current_a,
