@@ -38,6 +38,15 @@ enum sch_err sch_cmd_write_outputs(const struct sch_cli *cli, const struct sch_r
  */
 enum sch_err sch_cmd_write_depfile(const struct sch_cli *cli, const struct sch_result *res, struct sch_diag *d);
 
+/*
+ * The end of a whole sweep (sweep, and merge of its shards): unless a point's output rms exceeds
+ * cli->budget_v, the JSON, CSV, plot and depfile cli asks for (all or none); the table unless
+ * quiet or JSON on stdout; SCH_ERR_CHECK naming the worst point when over the budget, else the
+ * writers' errors.
+ */
+enum sch_err sch_cmd_sweep_finish(const struct sch_cli *cli, const struct sch_result *res, const struct sch_sweep *s,
+				  struct sch_diag *d);
+
 /* Prints the help text of the whole tool to out. */
 void sch_cmd_print_help(FILE *out);
 

@@ -96,8 +96,9 @@ static enum sch_err set_seed(struct sch_cli *, const struct cli_option *, char *
  * Which command honours what was read from src/cmd and src/analysis: an operating-point run
  * (carriers, augment, arrivals) reads only the carrier rules; augment's deck takes the noise run's
  * output, input and range but no junction probes; a sweep reports band rms only (no spots, NEP or
- * SNR) and gates --budget on its worst point; sweep and arrivals write JSON, CSV and a plot, and
- * every command a depfile naming what it wrote; neither has an HTML page.
+ * SNR) and gates --budget on its worst point (merge likewise on the joined sweep); sweep, merge
+ * and arrivals write JSON, CSV and a plot (a shard only its JSON), and every command that reads a
+ * netlist a depfile naming what it wrote; none of them has an HTML page.
  */
 static const struct cli_option options[] = {
 	{ "--out", "-o", "FILE", CMD_AUGMENT, TEXT(out_path), "the augmented netlist ('-': the standard output)" },
@@ -143,7 +144,7 @@ static const struct cli_option options[] = {
 	  NUMBER(run.responsivity_a_per_w, CHECK_POSITIVE, "a positive value in A/W"), "detector responsivity, for NEP" },
 	{ "--signal", NULL, "VALUE", CMD_REPORT, NUMBER(run.signal, CHECK_ANY, "a number in the input's unit"),
 	  "signal in the input's unit, for SNR over the band" },
-	{ "--budget", NULL, "VRMS", CMD_REPORT | CMD_SWEEP, NUMBER(budget_v, CHECK_POSITIVE, "a positive rms voltage"),
+	{ "--budget", NULL, "VRMS", CMD_REPORT | CMD_SWEEP | CMD_MERGE, NUMBER(budget_v, CHECK_POSITIVE, "a positive rms voltage"),
 	  "exit 1 when the band's output rms exceeds it (SI suffixes: 50u);\na sweep: at its worst point" },
 	{ "--output", NULL, "EXPR", CMD_REPORT | CMD_AUGMENT | CMD_SWEEP | CMD_ARRIVALS, TEXT(run.output_expr),
 	  "v(node) or v(node,ref) when the netlist has no .noise line" },
@@ -152,13 +153,13 @@ static const struct cli_option options[] = {
 	{ "--freq", NULL, "F1:F2[:PPD]", CMD_REPORT | CMD_AUGMENT | CMD_SWEEP, OWN(set_freq, NULL),
 	  "noise run range in Hz and points per decade (default 20)\nwhen the netlist has no .noise line" },
 	{ "--json", NULL, "FILE", CMD_ALL, TEXT(json_path), "the result as JSON ('-': the standard output, no table)" },
-	{ "--csv", NULL, "FILE", CMD_REPORT | CMD_SWEEP | CMD_ARRIVALS, TEXT(csv_path),
-	  "one row per contribution (sweep: per point; arrivals: per window)" },
+	{ "--csv", NULL, "FILE", CMD_REPORT | CMD_SWEEP | CMD_ARRIVALS | CMD_MERGE, TEXT(csv_path),
+	  "one row per contribution (sweep, merge: per point; arrivals: per window)" },
 	{ "--spectrum", NULL, "FILE.csv", CMD_REPORT, TEXT(spectrum_path),
 	  "output noise density per frequency: total, the --top largest\ncontributions, the rest" },
 	{ "--top", NULL, "N", CMD_REPORT, set_whole_int, AT(top_n), CHECK_WHOLE, 1, 100, "a whole number 1..100",
 	  "contributions with their own --spectrum column (default 8)" },
-	{ "--plot", NULL, "FILE.svg|png", CMD_REPORT | CMD_SWEEP | CMD_ARRIVALS, TEXT(plot_path),
+	{ "--plot", NULL, "FILE.svg|png", CMD_REPORT | CMD_SWEEP | CMD_ARRIVALS | CMD_MERGE, TEXT(plot_path),
 	  "a plot, SVG or PNG by the name" },
 	{ "--html", NULL, "FILE", CMD_REPORT | CMD_CARRIERS | CMD_AUGMENT, TEXT(html_path),
 	  "a self-contained review page" },

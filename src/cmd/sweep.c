@@ -155,6 +155,37 @@ static enum sch_err write_outputs(const struct sch_cli *cli, const struct sch_re
 	return ret != SCH_OK ? ret : end;
 }
 
+/* A shard's partial JSON and the depfile naming it, both or neither. */
+static enum sch_err write_shard(const struct sch_cli *cli, const struct sch_result *res, const struct sch_sweep *s,
+				const struct sch_sweep_shard *shard, struct sch_diag *d)
+{
+	enum sch_err ret, end;
+
+	sch_outfile_batch_begin();
+	ret = sch_report_sweep_partial_json(res, s, shard, cli->json_path, d);
+	if (ret == SCH_OK && cli->depfile_path)
+		ret = sch_cmd_write_depfile(cli, res, d);
+	end = sch_outfile_batch_end(ret == SCH_OK, d);
+	return ret != SCH_OK ? ret : end;
+}
+
+enum sch_err sch_cmd_sweep_finish(const struct sch_cli *cli, const struct sch_result *res, const struct sch_sweep *s,
+				  struct sch_diag *d)
+{
+	const struct sch_sweep_point *worst = worst_point(s);
+	bool over = !isnan(cli->budget_v) && worst && worst->output_rms_v > cli->budget_v;
+	enum sch_err ret = SCH_OK;
+
+	/* as in report: a breach writes no output file, so make reruns the check next time */
+	if (!over && (ret = write_outputs(cli, res, s, d)) != SCH_OK)
+		return ret;
+	if (cli->verbosity >= 0 && !(cli->json_path && strcmp(cli->json_path, "-") == 0))
+		ret = sch_report_sweep_table(res, s, stdout);
+	if (over)
+		ret = budget_breach(cli, res, s, worst, d);
+	return ret;
+}
+
 int cmd_sweep(int argc, char **argv, struct sch_ctx *ctx)
 {
 	struct sch_sweep_shard shard = { 0, 0, 0, 0 };
@@ -165,7 +196,7 @@ int cmd_sweep(int argc, char **argv, struct sch_ctx *ctx)
 	size_t n = 0;
 	char name[256];
 	const struct sch_sweep_point *worst;
-	bool jobs_given = false, over;
+	bool jobs_given = false;
 	bool done;
 	enum sch_err ret;
 
@@ -184,6 +215,11 @@ int cmd_sweep(int argc, char **argv, struct sch_ctx *ctx)
 	if (!jobs_given)
 		cli.run.n_workers = 2; /* both cores */
 	cli.run.mode = SCH_RUN_REPORT;
+	if (cli.shard_n && (cli.csv_path || cli.plot_path)) {
+		ret = sch_diag_error(&ctx->diag, SCH_ERR_USAGE, NULL, 0,
+				     "--csv and --plot show the whole sweep: give them to 'schrot merge', not to a shard");
+		goto out;
+	}
 	if (cli.shard_n && (ret = take_shard(&cli, &values, &n, &shard, &ctx->diag)) != SCH_OK)
 		goto out;
 	if (cli.verbosity >= 0 && isatty(STDERR_FILENO))
@@ -200,18 +236,10 @@ int cmd_sweep(int argc, char **argv, struct sch_ctx *ctx)
 		if (!isnan(cli.budget_v) && worst && worst->output_rms_v > cli.budget_v)
 			ret = budget_breach(&cli, &res, &sweep, worst, &ctx->diag);
 		else
-			ret = sch_report_sweep_partial_json(&res, &sweep, &shard, cli.json_path, &ctx->diag);
+			ret = write_shard(&cli, &res, &sweep, &shard, &ctx->diag);
 		goto out;
 	}
-	worst = worst_point(&sweep);
-	over = !isnan(cli.budget_v) && worst && worst->output_rms_v > cli.budget_v;
-	/* as in report: a breach writes no output file, so make reruns the check next time */
-	if (!over && (ret = write_outputs(&cli, &res, &sweep, &ctx->diag)) != SCH_OK)
-		goto out;
-	if (cli.verbosity >= 0 && !(cli.json_path && strcmp(cli.json_path, "-") == 0))
-		ret = sch_report_sweep_table(&res, &sweep, stdout);
-	if (over)
-		ret = budget_breach(&cli, &res, &sweep, worst, &ctx->diag);
+	ret = sch_cmd_sweep_finish(&cli, &res, &sweep, &ctx->diag);
 out:
 	free(values);
 	sch_result_release(&res);
