@@ -69,9 +69,9 @@ static bool without_dc(const struct sch_element *e)
 	for (int j = 0; j < n; j++) {
 		if (is_time_function(t[j]))
 			return false;
+		if (strcmp(t[j], "dc") == 0)
+			k = j + 1; /* "ac 1 dc 2n": the DC value may come anywhere */
 	}
-	if (n > 0 && strcmp(t[0], "dc") == 0)
-		k = 1;
 	if (k >= n || strcmp(t[k], "ac") == 0 || strncmp(t[k], "ac=", 3) == 0)
 		return true;
 	return sch_si_parse(t[k], &v) == SCH_OK && v == 0;
