@@ -157,11 +157,15 @@ static const char *const johnson_card_deck[] = {
 	".noise v(out) i1 dec 5 10 100k 1", ".end",
 };
 
-static size_t data_dirs_in_tmp(void)
+/* How many entries dir holds besides "." and "..". */
+static size_t entries_in(const char *dir)
 {
 	size_t n = 0;
-	FILE *p = popen("ls -d /tmp/schrot-data-* 2>/dev/null | wc -l", "r");
+	char cmd[128];
+	FILE *p;
 
+	snprintf(cmd, sizeof(cmd), "ls -A '%s' | wc -l", dir);
+	p = popen(cmd, "r");
 	if (p) {
 		if (fscanf(p, "%zu", &n) != 1)
 			n = 0;
@@ -182,15 +186,26 @@ static void test_sim__data_file_path_equals_senddata_path(void)
 	};
 	struct sch_sim_result mem, file;
 	struct sch_diag d;
-	size_t dirs_before = data_dirs_in_tmp();
+	struct scratch tmp;
+	const char *old_tmpdir = getenv("TMPDIR");
+	char *saved_tmpdir = old_tmpdir ? strdup(old_tmpdir) : NULL;
 	/* R = 1k || 3k = 750 ohm: S_V = 4kTR */
 	double expected = 4.0 * SI_K * T_DEFAULT_K * 750.0;
 
 	CHECK(run_deck(johnson_card_deck, N_OF(johnson_card_deck), mem_step, 1, NULL, 0, true, &mem, &d) == SCH_OK);
+	/* a private TMPDIR: the run's data-file directory must be gone afterwards, whatever else runs */
+	scratch_init(&tmp);
+	setenv("TMPDIR", tmp.dir, 1);
 	sch_diag_init(&d, NULL, 0);
 	CHECK(sch_sim_run(&req, &file, &d) == SCH_OK);
 	assert_sane_result(&file, 1);
-	CHECK(data_dirs_in_tmp() == dirs_before);
+	CHECK(entries_in(tmp.dir) == 0);
+	if (saved_tmpdir)
+		setenv("TMPDIR", saved_tmpdir, 1);
+	else
+		unsetenv("TMPDIR");
+	free(saved_tmpdir);
+	scratch_release(&tmp);
 	if (mem.n_steps == 1 && file.n_steps == 1) {
 		const struct sch_sim_vector *total = sch_sim_find_vector(&file.steps[0], "onoise_spectrum");
 		size_t compared = 0;
