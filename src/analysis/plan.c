@@ -179,6 +179,10 @@ enum sch_err sch_analysis_plan_report(struct sch_analysis *an)
 	res->input_unit = plan->letter == 'i' ? "A" : "V";
 	res->run_lo_hz = plan->f_start;
 	res->run_hi_hz = plan->f_stop;
+	for (size_t i = 0; i < res->deck.n_notes; i++) {
+		if ((ret = sch_analysis_note(an, res->deck.notes[i])) != SCH_OK)
+			return ret;
+	}
 	if (plan->needs_ac) {
 		an->aopt.ac_source = plan->input;
 		ret = sch_analysis_note(an, sch_arena_printf(&res->arena, "input source '%s' has no AC value: AC 1 supplied "
