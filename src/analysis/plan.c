@@ -133,9 +133,10 @@ enum sch_err sch_analysis_plan_noise(const struct sch_deck *deck, const struct s
 	} else if ((ret = card_sweep(deck, plan, &n_points, &sweep, d)) != SCH_OK) {
 		return ret;
 	}
-	if (!(plan->f_stop > plan->f_start) || n_points < 1)
+	/* start == stop is a spot run: one frequency, no band (the simulator then makes no noise2 plot) */
+	if (!(plan->f_stop >= plan->f_start) || n_points < 1)
 		return sch_diag_error(d, SCH_ERR_INPUT, opt->have_freq ? NULL : where_file, where_line,
-				      "noise sweep needs a stop frequency above its start and at least one point");
+				      "noise sweep needs a stop frequency at or above its start and at least one point");
 	plan->output = sch_arena_strdup(a, out_norm);
 	plan->input = sch_arena_strdup(a, in_lower);
 	plan->letter = src->letter;
