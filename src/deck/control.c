@@ -56,9 +56,16 @@ static bool number(const char *tok, char *buf, size_t size)
 {
 	double v;
 
+	double back;
+
 	if (!tok || sch_si_parse(tok, &v) != SCH_OK)
 		return false;
-	snprintf(buf, size, "%.17g", v);
+	/* the shortest of %.15g..%.17g that reads back as the same double */
+	for (int digits = 15; digits <= 17; digits++) {
+		snprintf(buf, size, "%.*g", digits, v);
+		if (sch_si_parse(buf, &back) == SCH_OK && back == v)
+			break;
+	}
 	return true;
 }
 
