@@ -175,6 +175,10 @@ enum sch_err sch_analysis_plan_report(struct sch_analysis *an)
 		return SCH_OK;
 	if ((ret = sch_analysis_plan_noise(&res->deck, an->opt, &res->arena, plan, an->d)) != SCH_OK)
 		return ret;
+	if (an->vary && plan->f_start == plan->f_stop)
+		return sch_diag_error(an->d, SCH_ERR_USAGE, res->deck.path, 0,
+				      "a sweep needs a band: the noise run is a single-frequency spot run at %g Hz",
+				      plan->f_start);
 	res->output = plan->output;
 	res->input = plan->input;
 	res->input_unit = plan->letter == 'i' ? "A" : "V";

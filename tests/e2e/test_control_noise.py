@@ -3,7 +3,7 @@
 """A noise analysis stated inside .control (read as data, never run) reports exactly as the same deck
 with a .noise card; a single-frequency run is a spot analysis checked against closed forms."""
 import math
-from schrot_check import run, close, true, contribution, finish, Q, K
+from schrot_check import run, close, true, contribution, finish, Q, K, SCHROT as SCHROT_BIN
 
 CIRCUIT = """range-finder receiver front end (invented values)
 iph 0 pd dc 2u
@@ -98,5 +98,22 @@ rc, swept, out, err = run(SPOT.replace("dec 1 1k 1k", "dec 10 10 100k"), "report
 if data and swept:
     close("[C3] the spot run equals the swept run's spot at 1 kHz", data["spot"][0]["output_v_per_rthz"],
           swept["spot"][0]["output_v_per_rthz"], 1e-6)
+
+# The augmented deck of a spot run: plain ngspice runs it (exit 0, no noise2 totals needed) and its one
+# density equals schrot's spot (the same generators, sized from the same operating point).
+if data:
+    import os, re, subprocess, tempfile
+    d = tempfile.mkdtemp(prefix="schrot-e2e-")
+    src, aug = os.path.join(d, "spot.cir"), os.path.join(d, "spot.aug.cir")
+    with open(src, "w") as f:
+        f.write(SPOT)
+    subprocess.run([SCHROT_BIN, "augment", src, "-o", aug], capture_output=True, timeout=300)
+    proc = subprocess.run(["ngspice", "-b", aug], capture_output=True, text=True, timeout=300, cwd=d)
+    m = re.search(r"^onoise_spectrum\s*=\s*(\S+)", proc.stdout, re.M)
+    true("[C4] plain ngspice runs the augmented spot deck and exits 0", proc.returncode == 0 and m is not None,
+         proc.stdout[-2000:] + proc.stderr[-2000:])
+    if m:
+        close("[C4] plain ngspice's density of the augmented spot deck = schrot's spot", float(m.group(1)),
+              data["spot"][0]["output_v_per_rthz"], 1e-5)
 
 finish()
