@@ -4,6 +4,7 @@
 #define SCH_CLI_H
 
 #include <stdbool.h>
+#include <stdio.h>
 #include "schrot/analysis.h"
 #include "schrot/diag.h"
 
@@ -12,7 +13,9 @@
 
 struct sch_cli {
 	const char *command;           /* "report", "carriers", ... */
-	const char *netlist;
+	const char *netlist;           /* merge: the first of files */
+	const char **files;            /* merge: every positional argument, n_files of them; owned */
+	size_t n_files;
 	struct sch_run_options run;
 	const char *json_path, *csv_path, *spectrum_path, *plot_path, *html_path, *depfile_path, *out_path;
 	double budget_v;               /* NaN: no budget */
@@ -36,14 +39,22 @@ struct sch_cli {
 
 /*
  * Parses argv (argv[0] is the command name). Returns SCH_ERR_USAGE with a one-line message for
- * unknown options, missing values, malformed numbers, M < 1, K outside [0, 1], F < 0.
+ * unknown options, options the command does not use (an unknown command name takes them all),
+ * missing values, malformed numbers, M < 1, K outside [0, 1], F < 0; SCH_ERR_NOMEM. On failure cli
+ * holds nothing to release; on success release it with sch_cli_release.
  */
 enum sch_err sch_cli_parse(struct sch_cli *cli, int argc, char **argv, struct sch_diag *d);
+
+/*
+ * Prints command's own help to out: its usage line, what it does and every option it accepts,
+ * from the same table sch_cli_parse reads. Returns false (printing nothing) for an unknown command.
+ */
+bool sch_cli_print_help(const char *command, FILE *out);
 
 /* Parses "F1:F2" (SI suffixes) into lo < hi. SCH_ERR_USAGE when malformed. */
 enum sch_err sch_cli_parse_range(const char *text, double *lo, double *hi);
 
-/* Frees compiled rule patterns. */
+/* Frees what sch_cli_parse allocated (the file list); cli may be released twice. */
 void sch_cli_release(struct sch_cli *cli);
 
 #endif

@@ -1,9 +1,11 @@
 /* SPDX-License-Identifier: BSD-3-Clause */
 /*
- * cmd.h - the subcommands. Adding a command takes three steps:
- *   1. write src/cmd_<name>.c defining int cmd_<name>(int argc, char **argv, struct sch_ctx *ctx);
+ * cmd.h - the subcommands. Adding a command takes four steps:
+ *   1. write src/cmd/<name>.c defining int cmd_<name>(int argc, char **argv, struct sch_ctx *ctx);
  *   2. declare it below;
- *   3. add a row to the commands[] table in src/main.c (and a CLI test case under tests/cli/).
+ *   3. add a row to the commands[] table in src/main.c (and a CLI test case under tests/cli/);
+ *   4. add its usage to commands[] in src/cmd/cli.c and its bit to every row of options[] there
+ *      that it honours (the others are refused, and its --help lists exactly those).
  * A command only parses its options, calls sch_analysis_run and chooses outputs.
  */
 #ifndef SCH_CMD_H
@@ -34,11 +36,11 @@ enum sch_err sch_cmd_write_outputs(const struct sch_cli *cli, const struct sch_r
 void sch_cmd_print_help(FILE *out);
 
 /*
- * The start every command shares: parses argv into cli, prints help (with help, or the tool's
- * help when NULL) and sets *done when --help was given, and applies -q/-v to the diagnostics.
- * Returns SCH_ERR_USAGE for bad options (message printed). cli must be released in every case.
+ * The start every command shares: parses argv into cli, prints the command's own help (from the
+ * option table in cli.c) and sets *done when --help was given, and applies -q/-v to the
+ * diagnostics. Returns SCH_ERR_USAGE for bad options, options the command does not use (message
+ * printed) and SCH_ERR_NOMEM. cli must be released in every case.
  */
-enum sch_err sch_cmd_start(struct sch_cli *cli, int argc, char **argv, struct sch_ctx *ctx, void (*help)(FILE *out),
-			   bool *done);
+enum sch_err sch_cmd_start(struct sch_cli *cli, int argc, char **argv, struct sch_ctx *ctx, bool *done);
 
 #endif

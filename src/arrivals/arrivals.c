@@ -578,108 +578,106 @@ static enum sch_err take_output(struct sch_arrivals *a, const struct sch_sim_out
 	return SCH_OK;
 }
 
-enum sch_err sch_arrivals_run(const char *path, const struct sch_run_options *run,
-			      const struct sch_arrivals_options *opt, struct sch_arrivals *a, struct sch_diag *d)
+/*
+ * The node names of the output (from --output, else the deck's .noise line) into na and nb (nb ""
+ * for a single node) and a->output ("v(a)" or "v(a,b)"; NULL when out of memory, which the caller
+ * checks). SCH_ERR_USAGE when there is no output or it is no plain node voltage.
+ */
+static enum sch_err pick_output(struct sch_arrivals *a, const char *path, const struct sch_run_options *run,
+				char *na, char *nb, size_t size, struct sch_diag *d)
 {
-	struct sch_run_options op = *run;
-	struct scratch s = { "", 0, false };
-	struct sch_sim_request req;
-	struct sch_sim_result sim;
-	struct sch_sim_step step;
-	const char *cmds[1], *vecs[2], *models[1] = { "analog.cm" };
-	const char **lines = NULL;
-	size_t n_lines = 0, bpw = 0, settle_bins = 0;
-	char na[256], nb[256], tran[256];
-	const char *expr;
 	struct sch_arena *ar = &a->op.arena;
-	enum sch_err ret;
+	const char *expr = run->output_expr ? run->output_expr : a->op.deck.noise.present ? a->op.deck.noise.output : NULL;
 
-	memset(&sim, 0, sizeof(sim));
-	if ((ret = plan_grid(a, opt, &bpw, &settle_bins, d)) != SCH_OK)
-		goto out;
-	if ((ret = refuse_code_models(path, d)) != SCH_OK)
-		goto out;
-	op.mode = SCH_RUN_OP;
-	if ((ret = sch_analysis_run(path, &op, &a->op, d)) != SCH_OK)
-		goto out;
-	expr = run->output_expr ? run->output_expr : a->op.deck.noise.present ? a->op.deck.noise.output : NULL;
-	if (!expr) {
-		ret = sch_diag_error(d, SCH_ERR_USAGE, path, 0, "arrivals needs an output: give --output v(node) or a '.noise' line");
-		goto out;
-	}
-	if (!parse_output(expr, na, nb, sizeof(na))) {
-		ret = sch_diag_error(d, SCH_ERR_USAGE, run->output_expr ? NULL : path, 0,
-				     "output must be v(node) or v(node,ref) with plain node names, not '%s'", expr);
-		goto out;
-	}
+	if (!expr)
+		return sch_diag_error(d, SCH_ERR_USAGE, path, 0,
+				      "arrivals needs an output: give --output v(node) or a '.noise' line");
+	if (!parse_output(expr, na, nb, size))
+		return sch_diag_error(d, SCH_ERR_USAGE, run->output_expr ? NULL : path, 0,
+				      "output must be v(node) or v(node,ref) with plain node names, not '%s'", expr);
 	a->output = nb[0] ? sch_arena_printf(ar, "v(%s,%s)", na, nb) : sch_arena_printf(ar, "v(%s)", na);
-	if (a->op.set.n_carriers == 0) {
-		ret = sch_diag_error(d, SCH_ERR_USAGE, path, 0, "no shot-noise carriers found: nothing arrives (name them with --carrier)");
-		goto out;
-	}
+	return SCH_OK;
+}
+
+/* SCH_ERR_USAGE when there are no carriers or their source tables together exceed the limit. */
+static enum sch_err check_carriers(struct sch_arrivals *a, const char *path, struct sch_diag *d)
+{
+	if (a->op.set.n_carriers == 0)
+		return sch_diag_error(d, SCH_ERR_USAGE, path, 0,
+				      "no shot-noise carriers found: nothing arrives (name them with --carrier)");
 	a->n_counts = a->op.set.n_carriers;
 	/* each file source holds its whole table in the simulator (16 bytes a point): bound the sum */
-	if ((double)a->n_bins * (double)a->n_counts > SCH_ARRIVALS_MAX_BINS) {
-		ret = sch_diag_error(d, SCH_ERR_USAGE, NULL, 0,
-				     "%zu carriers of %zu source steps each exceed the limit of %d steps in all: use fewer "
-				     "windows or a longer --step",
-				     a->n_counts, a->n_bins, SCH_ARRIVALS_MAX_BINS);
-		goto out;
-	}
-	a->counts = sch_arena_alloc(ar, (a->n_counts + 1) * sizeof(*a->counts));
-	if (!a->output || !a->counts) {
-		ret = SCH_ERR_NOMEM;
-		goto out;
-	}
-	if ((ret = make_scratch(&s, d)) != SCH_OK)
-		goto out;
-	for (size_t k = 0; k < a->n_counts; k++) {
-		const struct sch_carrier *c = &a->op.set.carriers[k];
-		struct sch_arrival_counts *ct = &a->counts[k];
-		struct sch_arrival_source src;
-		struct sch_moments electrons;
-		char file[600];
-		bool avalanche = (c->why & SCH_WHY_AVALANCHE) != 0;
+	if ((double)a->n_bins * (double)a->n_counts > SCH_ARRIVALS_MAX_BINS)
+		return sch_diag_error(d, SCH_ERR_USAGE, NULL, 0,
+				      "%zu carriers of %zu source steps each exceed the limit of %d steps in all: use fewer "
+				      "windows or a longer --step",
+				      a->n_counts, a->n_bins, SCH_ARRIVALS_MAX_BINS);
+	return SCH_OK;
+}
 
-		if (!isfinite(c->dc_current_a)) {
-			ret = sch_diag_error(d, SCH_ERR_SIM, path, 0, "no operating-point current for carrier '%s'", c->name);
-			goto out;
-		}
-		if (sch_arrival_source_init(&src, c->dc_current_a, c->gain_m, c->excess_f, avalanche, opt->seed, k) != SCH_OK) {
-			ret = sch_diag_error(d, SCH_ERR_USAGE, NULL, 0,
-					     "carrier '%s': an avalanche gain cannot have an excess noise factor below 1 (%g)",
-					     c->name, c->excess_f);
-			goto out;
-		}
-		if (src.kind == SCH_ARRIVAL_RENEWAL && src.rate_hz * (double)a->n_bins * a->step_s > 2e9) {
-			ret = sch_diag_error(d, SCH_ERR_USAGE, NULL, 0,
-					     "carrier '%s': %.3g events are too many to draw one by one for its Fano factor: "
-					     "use fewer windows",
-					     c->name, src.rate_hz * (double)a->n_bins * a->step_s);
-			goto out;
-		}
-		ct->carrier = c->name;
-		ct->kind = src.kind;
-		ct->current_a = c->dc_current_a;
-		ct->gain_m = src.gain_m;
-		ct->excess_f = c->excess_f;
-		ct->rate_hz = src.rate_hz;
-		ct->expected_count = src.rate_hz * a->window_s;
-		ct->per_window = sch_arena_alloc(ar, (a->n_windows + 1) * sizeof(uint32_t));
-		if (!ct->per_window) {
-			ret = SCH_ERR_NOMEM;
-			goto out;
-		}
-		scratch_file(&s, k, file, sizeof(file));
-		s.n_files = k + 1;
-		sch_moments_init(&electrons);
-		if ((ret = write_source(file, &src, a->step_s, settle_bins, bpw, a->n_windows, ct, &electrons, d)) != SCH_OK)
-			goto out;
-		ct->mean_electrons = sch_moments_mean(&electrons);
-		ct->var_electrons = sch_moments_var(&electrons);
-	}
-	if ((ret = build_lines(a, &s, &lines, &n_lines, d)) != SCH_OK)
-		goto out;
+/* Sets up carrier k's arrival source; SCH_ERR_SIM or SCH_ERR_USAGE with a message when it cannot be drawn. */
+static enum sch_err carrier_source(const struct sch_arrivals *a, const struct sch_arrivals_options *opt, size_t k,
+				   const char *path, struct sch_arrival_source *src, struct sch_diag *d)
+{
+	const struct sch_carrier *c = &a->op.set.carriers[k];
+	bool avalanche = (c->why & SCH_WHY_AVALANCHE) != 0;
+
+	if (!isfinite(c->dc_current_a))
+		return sch_diag_error(d, SCH_ERR_SIM, path, 0, "no operating-point current for carrier '%s'", c->name);
+	if (sch_arrival_source_init(src, c->dc_current_a, c->gain_m, c->excess_f, avalanche, opt->seed, k) != SCH_OK)
+		return sch_diag_error(d, SCH_ERR_USAGE, NULL, 0,
+				      "carrier '%s': an avalanche gain cannot have an excess noise factor below 1 (%g)",
+				      c->name, c->excess_f);
+	if (src->kind == SCH_ARRIVAL_RENEWAL && src->rate_hz * (double)a->n_bins * a->step_s > 2e9)
+		return sch_diag_error(d, SCH_ERR_USAGE, NULL, 0,
+				      "carrier '%s': %.3g events are too many to draw one by one for its Fano factor: "
+				      "use fewer windows",
+				      c->name, src->rate_hz * (double)a->n_bins * a->step_s);
+	return SCH_OK;
+}
+
+/* Draws carrier k's arrivals into its scratch file and fills a->counts[k]. */
+static enum sch_err draw_carrier(struct sch_arrivals *a, const struct sch_arrivals_options *opt, struct scratch *s,
+				 size_t k, size_t settle_bins, size_t bpw, const char *path, struct sch_diag *d)
+{
+	const struct sch_carrier *c = &a->op.set.carriers[k];
+	struct sch_arrival_counts *ct = &a->counts[k];
+	struct sch_arrival_source src;
+	struct sch_moments electrons;
+	char file[600];
+	enum sch_err ret;
+
+	if ((ret = carrier_source(a, opt, k, path, &src, d)) != SCH_OK)
+		return ret;
+	ct->carrier = c->name;
+	ct->kind = src.kind;
+	ct->current_a = c->dc_current_a;
+	ct->gain_m = src.gain_m;
+	ct->excess_f = c->excess_f;
+	ct->rate_hz = src.rate_hz;
+	ct->expected_count = src.rate_hz * a->window_s;
+	ct->per_window = sch_arena_alloc(&a->op.arena, (a->n_windows + 1) * sizeof(uint32_t));
+	if (!ct->per_window)
+		return SCH_ERR_NOMEM;
+	scratch_file(s, k, file, sizeof(file));
+	s->n_files = k + 1;
+	sch_moments_init(&electrons);
+	if ((ret = write_source(file, &src, a->step_s, settle_bins, bpw, a->n_windows, ct, &electrons, d)) != SCH_OK)
+		return ret;
+	ct->mean_electrons = sch_moments_mean(&electrons);
+	ct->var_electrons = sch_moments_var(&electrons);
+	return SCH_OK;
+}
+
+/* One transient run of the deck with the file sources, sampling the output at each window's end. */
+static enum sch_err simulate(const struct sch_arrivals *a, const char **lines, size_t n_lines, const char *na,
+			     const char *nb, struct sch_sim_result *sim, struct sch_diag *d)
+{
+	struct sch_sim_request req;
+	struct sch_sim_step step;
+	const char *cmds[1], *vecs[2], *models[1] = { "analog.cm" };
+	char tran[256];
+
 	snprintf(tran, sizeof(tran), "tran %.12g %.15g 0 %.12g", a->step_s, ((double)a->n_bins + 0.5) * a->step_s,
 		 a->step_s);
 	cmds[0] = tran;
@@ -701,7 +699,44 @@ enum sch_err sch_arrivals_run(const char *path, const struct sch_run_options *ru
 	req.tran_n_samples = a->n_windows;
 	req.code_models = models;
 	req.n_code_models = 1;
-	if ((ret = sch_sim_run(&req, &sim, d)) != SCH_OK)
+	return sch_sim_run(&req, sim, d);
+}
+
+enum sch_err sch_arrivals_run(const char *path, const struct sch_run_options *run,
+			      const struct sch_arrivals_options *opt, struct sch_arrivals *a, struct sch_diag *d)
+{
+	struct sch_run_options op = *run;
+	struct scratch s = { "", 0, false };
+	struct sch_sim_result sim;
+	const char **lines = NULL;
+	size_t n_lines = 0, bpw = 0, settle_bins = 0;
+	char na[256], nb[256];
+	enum sch_err ret;
+
+	memset(&sim, 0, sizeof(sim));
+	if ((ret = plan_grid(a, opt, &bpw, &settle_bins, d)) != SCH_OK)
+		goto out;
+	if ((ret = refuse_code_models(path, d)) != SCH_OK)
+		goto out;
+	op.mode = SCH_RUN_OP;
+	if ((ret = sch_analysis_run(path, &op, &a->op, d)) != SCH_OK ||
+	    (ret = pick_output(a, path, run, na, nb, sizeof(na), d)) != SCH_OK ||
+	    (ret = check_carriers(a, path, d)) != SCH_OK)
+		goto out;
+	a->counts = sch_arena_alloc(&a->op.arena, (a->n_counts + 1) * sizeof(*a->counts));
+	if (!a->output || !a->counts) {
+		ret = SCH_ERR_NOMEM;
+		goto out;
+	}
+	if ((ret = make_scratch(&s, d)) != SCH_OK)
+		goto out;
+	for (size_t k = 0; k < a->n_counts; k++) {
+		if ((ret = draw_carrier(a, opt, &s, k, settle_bins, bpw, path, d)) != SCH_OK)
+			goto out;
+	}
+	if ((ret = build_lines(a, &s, &lines, &n_lines, d)) != SCH_OK)
+		goto out;
+	if ((ret = simulate(a, lines, n_lines, na, nb, &sim, d)) != SCH_OK)
 		goto out;
 	if ((ret = take_output(a, &sim.steps[0], na, nb, d)) != SCH_OK)
 		goto out;

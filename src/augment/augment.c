@@ -124,106 +124,157 @@ static int paired_carrier_probe(const struct sch_deck *deck, const struct sch_au
 	return -1;
 }
 
-enum sch_err sch_augment_build(const struct sch_deck *deck, const struct sch_carrier_set *set,
-			       const struct sch_augment_options *opt, struct sch_arena *arena,
-			       struct sch_augmented *aug, struct sch_diag *d)
+/* SCH_ERR_INPUT, located at the card, when an element takes a name schrot's generators use. */
+static enum sch_err refuse_reserved_names(const struct sch_deck *deck, struct sch_diag *d)
 {
-	struct line_list l = { NULL, 0, 0, arena, NULL, -1, opt && opt->quiet_probes };
-	enum sch_err ret = SCH_ERR_NOMEM;
-
-	memset(aug, 0, sizeof(*aug));
 	for (size_t k = 0; k < deck->n_elements; k++) {
 		if (strncmp(deck->elements[k].name + 1, "schg", 4) == 0 || strcmp(deck->elements[k].name, "rschtemp") == 0)
 			return sch_diag_error(d, SCH_ERR_INPUT, deck->cards[deck->elements[k].card].file,
 					      deck->cards[deck->elements[k].card].line,
 					      "element name '%s' is reserved for schrot's generators", deck->elements[k].name);
 	}
+	return SCH_OK;
+}
+
+/* Gives element e the next probe, of this kind. SCH_ERR_NOMEM on failure. */
+static enum sch_err add_probe(struct sch_augmented *aug, struct sch_arena *arena, enum sch_probe_kind kind, int e)
+{
+	struct sch_probe *p = &aug->probes[aug->n_probes];
+
+	p->kind = kind;
+	p->element = e;
+	p->res_name = sch_arena_printf(arena, "rschg%zu", aug->n_probes);
+	if (!p->res_name)
+		return SCH_ERR_NOMEM;
+	aug->probe_of_element[e] = (int)aug->n_probes++;
+	return SCH_OK;
+}
+
+/*
+ * One probe per definition element that is a carrier in at least one instance, then (when asked)
+ * one per other diode, or the paired carrier's probe when junctions share it. SCH_ERR_NOMEM on failure.
+ */
+static enum sch_err assign_probes(const struct sch_deck *deck, const struct sch_carrier_set *set,
+				  const struct sch_augment_options *opt, struct sch_arena *arena,
+				  struct sch_augmented *aug)
+{
 	aug->probe_of_element = sch_arena_alloc(arena, (deck->n_elements + 1) * sizeof(int));
 	aug->probes = sch_arena_alloc(arena, (deck->n_elements + 1) * sizeof(*aug->probes));
 	if (!aug->probe_of_element || !aug->probes)
-		goto out;
+		return SCH_ERR_NOMEM;
 	for (size_t k = 0; k < deck->n_elements; k++)
 		aug->probe_of_element[k] = -1;
-	/* one probe per definition element that is a carrier in at least one instance */
 	for (size_t k = 0; k < set->n_carriers; k++) {
 		int e = set->carriers[k].element;
-		if (aug->probe_of_element[e] < 0) {
-			struct sch_probe *p = &aug->probes[aug->n_probes];
-			p->kind = SCH_PROBE_CARRIER;
-			p->element = e;
-			p->res_name = sch_arena_printf(arena, "rschg%zu", aug->n_probes);
-			if (!p->res_name)
-				goto out;
-			aug->probe_of_element[e] = (int)aug->n_probes++;
-		}
+		if (aug->probe_of_element[e] < 0 && add_probe(aug, arena, SCH_PROBE_CARRIER, e) != SCH_OK)
+			return SCH_ERR_NOMEM;
 	}
-	if (opt && opt->junction_probes) {
-		for (size_t k = 0; k < deck->n_elements; k++) {
-			int shared;
-			if (deck->elements[k].letter != 'd' || aug->probe_of_element[k] >= 0)
-				continue;
-			if (opt->share_paired_junctions && (shared = paired_carrier_probe(deck, aug, (int)k)) >= 0) {
-				aug->probe_of_element[k] = shared;
-				continue;
-			}
-			struct sch_probe *p = &aug->probes[aug->n_probes];
-			p->kind = SCH_PROBE_JUNCTION;
-			p->element = (int)k;
-			p->res_name = sch_arena_printf(arena, "rschg%zu", aug->n_probes);
-			if (!p->res_name)
-				goto out;
-			aug->probe_of_element[k] = (int)aug->n_probes++;
+	if (!(opt && opt->junction_probes))
+		return SCH_OK;
+	for (size_t k = 0; k < deck->n_elements; k++) {
+		int shared;
+		if (deck->elements[k].letter != 'd' || aug->probe_of_element[k] >= 0)
+			continue;
+		if (opt->share_paired_junctions && (shared = paired_carrier_probe(deck, aug, (int)k)) >= 0) {
+			aug->probe_of_element[k] = shared;
+			continue;
 		}
+		if (add_probe(aug, arena, SCH_PROBE_JUNCTION, (int)k) != SCH_OK)
+			return SCH_ERR_NOMEM;
 	}
+	return SCH_OK;
+}
 
-	if ((ret = push(&l, "* schrot augmented deck")) != SCH_OK)
-		goto out;
+/* Whether the augmented deck leaves this card out (analyses and control cards, unless kept). */
+static bool card_dropped(const struct sch_card *card, const struct sch_augment_options *opt)
+{
+	return card->keyword && !(opt && opt->keep_analyses && strcmp(card->keyword, ".end") != 0 &&
+				  strcmp(card->keyword, ".endl") != 0) &&
+	       dropped_keyword(card->keyword);
+}
+
+/*
+ * The card's text as the augmented deck holds it (" ac 1" on the AC source, " noisy=0" on quiet
+ * elements); NULL when out of memory.
+ */
+static const char *card_text(const struct sch_deck *deck, const struct sch_card *card,
+			     const struct sch_augment_options *opt, struct sch_arena *arena)
+{
+	const char *text = card->text;
+
+	if (card->element >= 0 && opt && opt->ac_source && card->subckt < 0 &&
+	    strcmp(deck->elements[card->element].name, opt->ac_source) == 0 &&
+	    !has_ac_value(&deck->elements[card->element]))
+		text = sch_arena_printf(arena, "%s ac 1", text);
+	if (card->element >= 0 && opt && opt->quiet_elements && opt->quiet_elements[card->element])
+		text = sch_arena_printf(arena, "%s noisy=0", text);
+	return text;
+}
+
+/* The deck's cards in order, each .subckt followed by the probes inside that definition. */
+static enum sch_err push_cards(struct line_list *l, const struct sch_deck *deck, const struct sch_augmented *aug,
+			       const struct sch_augment_options *opt)
+{
+	enum sch_err ret;
+
 	for (size_t c = 0; c < deck->n_cards; c++) {
 		const struct sch_card *card = &deck->cards[c];
-		const char *text = card->text;
-		if (card->keyword && !(opt && opt->keep_analyses && strcmp(card->keyword, ".end") != 0 &&
-				       strcmp(card->keyword, ".endl") != 0) &&
-		    dropped_keyword(card->keyword))
+		const char *text;
+		if (card_dropped(card, opt))
 			continue;
-		if (card->element >= 0 && opt && opt->ac_source && card->subckt < 0 &&
-		    strcmp(deck->elements[card->element].name, opt->ac_source) == 0 &&
-		    !has_ac_value(&deck->elements[card->element]))
-			text = sch_arena_printf(arena, "%s ac 1", text);
-		if (card->element >= 0 && opt && opt->quiet_elements && opt->quiet_elements[card->element])
-			text = sch_arena_printf(arena, "%s noisy=0", text);
-		if (!text) {
-			ret = SCH_ERR_NOMEM;
-			goto out;
-		}
-		l.cur_card = (int)c;
-		ret = push(&l, text);
-		l.cur_card = -1;
+		if (!(text = card_text(deck, card, opt, l->arena)))
+			return SCH_ERR_NOMEM;
+		l->cur_card = (int)c;
+		ret = push(l, text);
+		l->cur_card = -1;
 		if (ret != SCH_OK)
-			goto out;
-		if (card->keyword && strcmp(card->keyword, ".subckt") == 0) {
-			for (size_t s = 0; s < deck->n_subckts; s++) {
-				if (deck->subckts[s].card_begin == (int)c &&
-				    (ret = push_probes_of(&l, deck, aug, (int)s)) != SCH_OK)
-					goto out;
-			}
+			return ret;
+		if (!card->keyword || strcmp(card->keyword, ".subckt") != 0)
+			continue;
+		for (size_t s = 0; s < deck->n_subckts; s++) {
+			if (deck->subckts[s].card_begin == (int)c && (ret = push_probes_of(l, deck, aug, (int)s)) != SCH_OK)
+				return ret;
 		}
 	}
-	if ((ret = push_probes_of(&l, deck, aug, -1)) != SCH_OK)
-		goto out;
-	if ((ret = push(&l, "* schrot: reads the circuit temperature")) != SCH_OK ||
-	    (ret = push(&l, "rschtemp nschtemp 0 1 noisy=0")) != SCH_OK)
-		goto out;
-	if (opt && opt->analysis_card && (ret = push(&l, opt->analysis_card)) != SCH_OK)
-		goto out;
-	if ((ret = push(&l, ".end")) != SCH_OK)
-		goto out;
+	return SCH_OK;
+}
+
+/* After the cards: the top-level probes, the temperature reader, the analysis card and .end. */
+static enum sch_err push_tail(struct line_list *l, const struct sch_deck *deck, const struct sch_augmented *aug,
+			      const struct sch_augment_options *opt)
+{
+	enum sch_err ret;
+
+	if ((ret = push_probes_of(l, deck, aug, -1)) != SCH_OK)
+		return ret;
+	if ((ret = push(l, "* schrot: reads the circuit temperature")) != SCH_OK ||
+	    (ret = push(l, "rschtemp nschtemp 0 1 noisy=0")) != SCH_OK)
+		return ret;
+	if (opt && opt->analysis_card && (ret = push(l, opt->analysis_card)) != SCH_OK)
+		return ret;
+	return push(l, ".end");
+}
+
+enum sch_err sch_augment_build(const struct sch_deck *deck, const struct sch_carrier_set *set,
+			       const struct sch_augment_options *opt, struct sch_arena *arena,
+			       struct sch_augmented *aug, struct sch_diag *d)
+{
+	struct line_list l = { NULL, 0, 0, arena, NULL, -1, opt && opt->quiet_probes };
+	enum sch_err ret;
+
+	memset(aug, 0, sizeof(*aug));
+	if ((ret = refuse_reserved_names(deck, d)) != SCH_OK)
+		return ret;
+	if ((ret = assign_probes(deck, set, opt, arena, aug)) != SCH_OK ||
+	    (ret = push(&l, "* schrot augmented deck")) != SCH_OK ||
+	    (ret = push_cards(&l, deck, aug, opt)) != SCH_OK ||
+	    (ret = push_tail(&l, deck, aug, opt)) != SCH_OK)
+		return ret;
 	aug->lines = l.v;
 	aug->line_card = l.card;
 	aug->n_lines = l.n;
 	aug->temp_quantity = "@rschtemp[temp]";
-	ret = SCH_OK;
-out:
-	return ret;
+	return SCH_OK;
 }
 
 /*

@@ -102,146 +102,207 @@ struct elem_info {
 	bool current;
 };
 
-enum sch_err sch_carriers_find(const struct sch_deck *deck, const struct sch_carrier_options *opt,
-			       struct sch_arena *arena, struct sch_carrier_set *set, struct sch_diag *d)
+/* Most --avalanche and --fano rules one run takes, each. */
+#define MAX_GAIN_RULES 64
+
+/* The compiled rules of one sch_carriers_find call; every pattern NULL until compiled. */
+struct rules {
+	const struct sch_carrier_options *opt;
+	struct sch_pattern *name_rule, *add, *ignore;
+	struct sch_pattern *aval[MAX_GAIN_RULES], *fano[MAX_GAIN_RULES];
+	size_t n_aval, n_fano;
+};
+
+/* Compiles the default name rule and the user's regexes, in the order their errors are reported. */
+static enum sch_err rules_compile(struct rules *ru, const struct sch_carrier_options *opt, struct sch_diag *d)
 {
 	enum sch_err ret;
-	struct sch_pattern *name_rule = NULL, *add = NULL, *ignore = NULL;
-	struct elem_info *info = NULL;
-	struct sch_strmap pairs;
-	struct sch_pattern *aval_pat[64] = { NULL }, *fano_pat[64] = { NULL };
-	size_t n_aval = opt ? opt->n_avalanche : 0, n_fano = opt ? opt->n_fano : 0;
-	size_t n_cur = 0;
 
-	memset(set, 0, sizeof(*set));
-	sch_strmap_init(&pairs);
-	ret = sch_pattern_compile(&name_rule, SCH_DEFAULT_CARRIER_REGEX, SCH_PAT_CASELESS | SCH_PAT_WHOLE,
+	memset(ru, 0, sizeof(*ru));
+	ru->opt = opt;
+	ru->n_aval = opt ? opt->n_avalanche : 0;
+	ru->n_fano = opt ? opt->n_fano : 0;
+	ret = sch_pattern_compile(&ru->name_rule, SCH_DEFAULT_CARRIER_REGEX, SCH_PAT_CASELESS | SCH_PAT_WHOLE,
 				  "default carrier rule", d);
-	if (ret != SCH_OK)
-		goto out;
-	if (opt && opt->carrier_regex) {
-		ret = sch_pattern_compile(&add, opt->carrier_regex, SCH_PAT_CASELESS | SCH_PAT_WHOLE, "--carrier", d);
-		if (ret != SCH_OK)
-			goto out;
-	}
-	if (opt && opt->ignore_regex) {
-		ret = sch_pattern_compile(&ignore, opt->ignore_regex, SCH_PAT_CASELESS | SCH_PAT_WHOLE, "--ignore", d);
-		if (ret != SCH_OK)
-			goto out;
-	}
-	if (n_aval > 64 || n_fano > 64) {
+	if (ret == SCH_OK && opt && opt->carrier_regex)
+		ret = sch_pattern_compile(&ru->add, opt->carrier_regex, SCH_PAT_CASELESS | SCH_PAT_WHOLE, "--carrier", d);
+	if (ret == SCH_OK && opt && opt->ignore_regex)
+		ret = sch_pattern_compile(&ru->ignore, opt->ignore_regex, SCH_PAT_CASELESS | SCH_PAT_WHOLE, "--ignore", d);
+	if (ret == SCH_OK && (ru->n_aval > MAX_GAIN_RULES || ru->n_fano > MAX_GAIN_RULES))
 		ret = sch_diag_error(d, SCH_ERR_USAGE, NULL, 0, "too many --avalanche or --fano rules");
-		goto out;
-	}
-	if ((ret = compile_rules(opt ? opt->avalanche : NULL, n_aval, aval_pat, "--avalanche", d)) != SCH_OK ||
-	    (ret = compile_rules(opt ? opt->fano : NULL, n_fano, fano_pat, "--fano", d)) != SCH_OK)
-		goto out;
-	ret = sch_deck_instances(deck, arena, &set->instances, &set->n_instances, d);
-	if (ret != SCH_OK)
-		goto out;
+	if (ret == SCH_OK)
+		ret = compile_rules(opt ? opt->avalanche : NULL, ru->n_aval, ru->aval, "--avalanche", d);
+	if (ret == SCH_OK)
+		ret = compile_rules(opt ? opt->fano : NULL, ru->n_fano, ru->fano, "--fano", d);
+	return ret;
+}
 
-	ret = SCH_ERR_NOMEM;
-	info = sch_arena_alloc(arena, (deck->n_elements + 1) * sizeof(*info));
-	if (!info)
-		goto out;
-	if (index_diodes(deck, arena, &pairs) != SCH_OK)
-		goto out;
+static void rules_release(struct rules *ru)
+{
+	free_rules(ru->aval, ru->n_aval <= MAX_GAIN_RULES ? ru->n_aval : 0);
+	free_rules(ru->fano, ru->n_fano <= MAX_GAIN_RULES ? ru->n_fano : 0);
+	sch_pattern_free(ru->name_rule);
+	sch_pattern_free(ru->add);
+	sch_pattern_free(ru->ignore);
+}
+
+/* Per element: whether it forces a current, its paired diode, the name rule's verdict. NULL when out of memory. */
+static struct elem_info *classify_elements(const struct sch_deck *deck, struct sch_arena *arena,
+					   const struct rules *ru, struct sch_strmap *pairs)
+{
+	struct elem_info *info = sch_arena_alloc(arena, (deck->n_elements + 1) * sizeof(*info));
+
+	if (!info || index_diodes(deck, arena, pairs) != SCH_OK)
+		return NULL;
 	for (size_t k = 0; k < deck->n_elements; k++) {
 		const struct sch_element *e = &deck->elements[k];
 		info[k].current = is_current_element(e);
 		if (!info[k].current)
 			continue;
-		info[k].diode = paired_diode(deck, arena, &pairs, e);
-		info[k].name_rule = sch_pattern_match(name_rule, e->name, strlen(e->name));
+		info[k].diode = paired_diode(deck, arena, pairs, e);
+		info[k].name_rule = sch_pattern_match(ru->name_rule, e->name, strlen(e->name));
 	}
+	return info;
+}
+
+/* Room for every current-forcing instance in both lists. SCH_ERR_NOMEM on failure. */
+static enum sch_err alloc_lists(struct sch_carrier_set *set, const struct elem_info *info, struct sch_arena *arena)
+{
+	size_t n_cur = 0;
+
 	for (size_t k = 0; k < set->n_instances; k++) {
 		if (info[set->instances[k].element].current)
 			n_cur++;
 	}
 	set->carriers = sch_arena_alloc(arena, (n_cur + 1) * sizeof(*set->carriers));
 	set->noiseless = sch_arena_alloc(arena, (n_cur + 1) * sizeof(*set->noiseless));
-	if (!set->carriers || !set->noiseless)
+	return set->carriers && set->noiseless ? SCH_OK : SCH_ERR_NOMEM;
+}
+
+/* The first gain rule whose regex matches path, or NULL. */
+static const struct sch_gain_rule *first_rule(struct sch_pattern *const *pats, const struct sch_gain_rule *rules,
+					      size_t n, const char *path, size_t plen)
+{
+	for (size_t r = 0; r < n; r++) {
+		if (sch_pattern_match(pats[r], path, plen))
+			return &rules[r];
+	}
+	return NULL;
+}
+
+/* Why an instance is a carrier (SCH_WHY_* bits, 0 when it is none or --ignore names it); the gain rules it takes. */
+static unsigned instance_why(const struct rules *ru, const struct elem_info *ei, const char *path,
+			     const struct sch_gain_rule **aval, const struct sch_gain_rule **fano)
+{
+	size_t plen = strlen(path);
+	unsigned why = 0;
+
+	if (ei->diode)
+		why |= SCH_WHY_DIODE;
+	if (ei->name_rule)
+		why |= SCH_WHY_NAME;
+	if (ru->add && sch_pattern_match(ru->add, path, plen))
+		why |= SCH_WHY_OPTION;
+	*aval = first_rule(ru->aval, ru->n_aval ? ru->opt->avalanche : NULL, ru->n_aval, path, plen);
+	*fano = first_rule(ru->fano, ru->n_fano ? ru->opt->fano : NULL, ru->n_fano, path, plen);
+	if (*aval)
+		why |= SCH_WHY_AVALANCHE;
+	if (*fano)
+		why |= SCH_WHY_FANO;
+	if (ru->ignore && sch_pattern_match(ru->ignore, path, plen))
+		why = 0;
+	return why;
+}
+
+/* The reason text of a carrier: one clause per bit of why, "; " between them. */
+static void write_reason(char *reason, size_t size, unsigned why, const struct sch_instance *in,
+			 const struct elem_info *ei, const struct rules *ru, const struct sch_gain_rule *aval,
+			 const struct sch_gain_rule *fano)
+{
+	if (why & SCH_WHY_DIODE) {
+		/* the diode's hierarchical name: this instance's prefix plus the diode's own name */
+		const char *dot = strrchr(in->path, '.');
+		snprintf(reason + strlen(reason), size - strlen(reason), "%sacross diode %.*s%s%s",
+			 *reason ? "; " : "", dot ? (int)(dot - in->path) : 0, in->path, dot ? "." : "",
+			 ei->diode->name);
+	}
+	if (why & SCH_WHY_NAME)
+		snprintf(reason + strlen(reason), size - strlen(reason), "%sname '%s' reads as a detector current",
+			 *reason ? "; " : "", leaf_name(in->path));
+	if (why & SCH_WHY_OPTION)
+		snprintf(reason + strlen(reason), size - strlen(reason), "%s--carrier '%s'",
+			 *reason ? "; " : "", ru->opt->carrier_regex);
+	if (why & SCH_WHY_AVALANCHE)
+		snprintf(reason + strlen(reason), size - strlen(reason), "%s--avalanche '%s'",
+			 *reason ? "; " : "", aval->regex);
+	if (why & SCH_WHY_FANO)
+		snprintf(reason + strlen(reason), size - strlen(reason), "%s--fano '%s'",
+			 *reason ? "; " : "", fano->regex);
+}
+
+/* Files instance k as a carrier or as noiseless (current-forcing instances only). SCH_ERR_NOMEM on failure. */
+static enum sch_err sort_instance(struct sch_carrier_set *set, struct sch_arena *arena, const struct rules *ru,
+				  const struct elem_info *info, size_t k)
+{
+	const struct sch_instance *in = &set->instances[k];
+	const struct elem_info *ei = &info[in->element];
+	const struct sch_gain_rule *aval, *fano;
+	char reason[512] = "";
+	struct sch_carrier *c;
+	unsigned why;
+
+	if (!ei->current)
+		return SCH_OK;
+	why = instance_why(ru, ei, in->path, &aval, &fano);
+	if (!why) {
+		struct sch_source *s = &set->noiseless[set->n_noiseless++];
+		s->name = in->path;
+		s->sim_name = in->sim_name;
+		s->element = in->element;
+		s->dc_current_a = NAN;
+		return SCH_OK;
+	}
+	write_reason(reason, sizeof(reason), why, in, ei, ru, aval, fano);
+	c = &set->carriers[set->n_carriers++];
+	c->name = in->path;
+	c->sim_name = in->sim_name;
+	c->element = in->element;
+	c->instance = (int)k;
+	c->why = why;
+	c->reason = sch_arena_strdup(arena, reason);
+	c->gain_m = aval ? aval->gain_m : 1.0;
+	c->excess_f = (aval ? sch_mcintyre_f(aval->gain_m, aval->k_ratio) : 1.0) * (fano ? fano->fano : 1.0);
+	c->dc_current_a = NAN;
+	return c->reason ? SCH_OK : SCH_ERR_NOMEM;
+}
+
+enum sch_err sch_carriers_find(const struct sch_deck *deck, const struct sch_carrier_options *opt,
+			       struct sch_arena *arena, struct sch_carrier_set *set, struct sch_diag *d)
+{
+	enum sch_err ret;
+	struct rules ru;
+	struct elem_info *info;
+	struct sch_strmap pairs;
+
+	memset(set, 0, sizeof(*set));
+	sch_strmap_init(&pairs);
+	ret = rules_compile(&ru, opt, d);
+	if (ret != SCH_OK)
 		goto out;
-
+	ret = sch_deck_instances(deck, arena, &set->instances, &set->n_instances, d);
+	if (ret != SCH_OK)
+		goto out;
+	ret = SCH_ERR_NOMEM;
+	info = classify_elements(deck, arena, &ru, &pairs);
+	if (!info || alloc_lists(set, info, arena) != SCH_OK)
+		goto out;
 	for (size_t k = 0; k < set->n_instances; k++) {
-		const struct sch_instance *in = &set->instances[k];
-		const struct elem_info *ei = &info[in->element];
-		size_t plen = strlen(in->path);
-		unsigned why = 0;
-		char reason[512] = "";
-		const struct sch_gain_rule *aval = NULL, *fano = NULL;
-
-		if (!ei->current)
-			continue;
-		if (ei->diode)
-			why |= SCH_WHY_DIODE;
-		if (ei->name_rule)
-			why |= SCH_WHY_NAME;
-		if (add && sch_pattern_match(add, in->path, plen))
-			why |= SCH_WHY_OPTION;
-		for (size_t r = 0; r < n_aval && !aval; r++) {
-			if (sch_pattern_match(aval_pat[r], in->path, plen))
-				aval = &opt->avalanche[r];
-		}
-		for (size_t r = 0; r < n_fano && !fano; r++) {
-			if (sch_pattern_match(fano_pat[r], in->path, plen))
-				fano = &opt->fano[r];
-		}
-		if (aval)
-			why |= SCH_WHY_AVALANCHE;
-		if (fano)
-			why |= SCH_WHY_FANO;
-		if (ignore && sch_pattern_match(ignore, in->path, plen))
-			why = 0;
-		if (!why) {
-			struct sch_source *s = &set->noiseless[set->n_noiseless++];
-			s->name = in->path;
-			s->sim_name = in->sim_name;
-			s->element = in->element;
-			s->dc_current_a = NAN;
-			continue;
-		}
-		if (why & SCH_WHY_DIODE) {
-			/* the diode's hierarchical name: this instance's prefix plus the diode's own name */
-			const char *dot = strrchr(in->path, '.');
-			snprintf(reason + strlen(reason), sizeof(reason) - strlen(reason), "%sacross diode %.*s%s%s",
-				 *reason ? "; " : "", dot ? (int)(dot - in->path) : 0, in->path, dot ? "." : "",
-				 ei->diode->name);
-		}
-		if (why & SCH_WHY_NAME)
-			snprintf(reason + strlen(reason), sizeof(reason) - strlen(reason), "%sname '%s' reads as a detector current",
-				 *reason ? "; " : "", leaf_name(in->path));
-		if (why & SCH_WHY_OPTION)
-			snprintf(reason + strlen(reason), sizeof(reason) - strlen(reason), "%s--carrier '%s'",
-				 *reason ? "; " : "", opt->carrier_regex);
-		if (why & SCH_WHY_AVALANCHE)
-			snprintf(reason + strlen(reason), sizeof(reason) - strlen(reason), "%s--avalanche '%s'",
-				 *reason ? "; " : "", aval->regex);
-		if (why & SCH_WHY_FANO)
-			snprintf(reason + strlen(reason), sizeof(reason) - strlen(reason), "%s--fano '%s'",
-				 *reason ? "; " : "", fano->regex);
-		{
-			struct sch_carrier *c = &set->carriers[set->n_carriers++];
-			c->name = in->path;
-			c->sim_name = in->sim_name;
-			c->element = in->element;
-			c->instance = (int)k;
-			c->why = why;
-			c->reason = sch_arena_strdup(arena, reason);
-			c->gain_m = aval ? aval->gain_m : 1.0;
-			c->excess_f = (aval ? sch_mcintyre_f(aval->gain_m, aval->k_ratio) : 1.0) * (fano ? fano->fano : 1.0);
-			c->dc_current_a = NAN;
-			if (!c->reason)
-				goto out;
-		}
+		if (sort_instance(set, arena, &ru, info, k) != SCH_OK)
+			goto out;
 	}
 	ret = SCH_OK;
 out:
 	sch_strmap_release(&pairs);
-	free_rules(aval_pat, n_aval <= 64 ? n_aval : 0);
-	free_rules(fano_pat, n_fano <= 64 ? n_fano : 0);
-	sch_pattern_free(name_rule);
-	sch_pattern_free(add);
-	sch_pattern_free(ignore);
+	rules_release(&ru);
 	return ret;
 }

@@ -6,27 +6,6 @@
 #include "schrot/arrivals.h"
 #include "schrot/cmd.h"
 
-static void print_help(FILE *out)
-{
-	fputs("usage: schrot arrivals NETLIST --window T (--duration D | --windows N) [options]\n"
-	      "\n"
-	      "Realises each carrier's electrons as a random arrival process (Poisson at |I|/q; with --avalanche\n"
-	      "a random gain of mean M and excess noise factor F per primary; with --fano F a renewal process),\n"
-	      "runs one transient with it and samples the output at the end of every window.\n"
-	      "\n"
-	      "  --window T      observation window (s, SI suffixes: 10u)\n"
-	      "  --duration D    total observed time (s); or --windows N, the number of windows\n"
-	      "  --step DT       resolution of the arrival sources and largest simulator step (default T/50);\n"
-	      "                  keep it below a fiftieth of the fastest time constant that matters (a single pole's\n"
-	      "                  output variance came out about 2 % low at tau/50 in our tests, less at finer steps)\n"
-	      "  --settle TS     simulated before the first window, so the output forgets its start (default 0)\n"
-	      "  --seed S        seed of the xoshiro256** generator (default 1); same seed, same run\n"
-	      "  --output EXPR   v(node) or v(node,ref) when the netlist has no .noise line\n"
-	      "  --carrier --ignore --avalanche --fano   as for 'schrot report'\n"
-	      "  --json FILE ('-': stdout)  --plot FILE.svg|png   -q  -v\n",
-	      out);
-}
-
 int cmd_arrivals(int argc, char **argv, struct sch_ctx *ctx)
 {
 	struct sch_cli cli;
@@ -36,7 +15,7 @@ int cmd_arrivals(int argc, char **argv, struct sch_ctx *ctx)
 	enum sch_err ret;
 
 	sch_arrivals_init(&res);
-	ret = sch_cmd_start(&cli, argc, argv, ctx, print_help, &done);
+	ret = sch_cmd_start(&cli, argc, argv, ctx, &done);
 	if (ret != SCH_OK || done)
 		goto out;
 	if (isnan(cli.window_s)) {

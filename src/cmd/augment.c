@@ -92,7 +92,7 @@ int cmd_augment(int argc, char **argv, struct sch_ctx *ctx)
 	enum sch_err ret;
 
 	sch_result_init(&res);
-	ret = sch_cmd_start(&cli, argc, argv, ctx, NULL, &done);
+	ret = sch_cmd_start(&cli, argc, argv, ctx, &done);
 	if (ret != SCH_OK || done)
 		goto out;
 	if (!cli.out_path) {

@@ -1,12 +1,173 @@
 /* SPDX-License-Identifier: BSD-3-Clause */
-/* cli.c - parsing of the options shared by every command (DESIGN.md section 4). */
+/*
+ * cli.c - option parsing for every command (DESIGN.md section 4): one table row per option says
+ * which commands take it and where its value goes; the per-command help is printed from it.
+ */
 #include <errno.h>
 #include <math.h>
+#include <stddef.h>
 #include <stdio.h>
 #include <stdlib.h>
 #include <string.h>
 #include "schrot/cli.h"
 #include "schrot/si.h"
+
+/* The commands, one bit each, for the option table's "accepted by" column. */
+enum {
+	CMD_REPORT = 1 << 0,
+	CMD_CARRIERS = 1 << 1,
+	CMD_AUGMENT = 1 << 2,
+	CMD_SWEEP = 1 << 3,
+	CMD_ARRIVALS = 1 << 4,
+	CMD_MERGE = 1 << 5,
+	CMD_NETLIST = CMD_REPORT | CMD_CARRIERS | CMD_AUGMENT | CMD_SWEEP | CMD_ARRIVALS, /* the commands reading a deck */
+	CMD_ALL = CMD_NETLIST | CMD_MERGE,
+};
+
+struct cli_command {
+	const char *name;
+	unsigned bit;
+	bool many_files; /* positional arguments are files (cli->files), not one netlist */
+	const char *usage;
+	const char *about;
+};
+
+static const struct cli_command commands[] = {
+	{ "report", CMD_REPORT, false, "usage: schrot report NETLIST [options]",
+	  "Finds the operating point, sizes a shot-noise generator for every carrier, runs the noise\n"
+	  "analysis and prints each device's share of the output noise, ranked, with input-referred noise,\n"
+	  "NEP and SNR when asked.\n" },
+	{ "carriers", CMD_CARRIERS, false, "usage: schrot carriers NETLIST [options]",
+	  "Lists the shot-noise carriers (and why each was chosen), the noiseless DC sources and the\n"
+	  "operating-point currents. No noise run.\n" },
+	{ "augment", CMD_AUGMENT, false, "usage: schrot augment NETLIST -o FILE [options]",
+	  "Writes the netlist with a sized shot-noise generator for every carrier instance, runnable by\n"
+	  "plain ngspice.\n" },
+	{ "sweep", CMD_SWEEP, false, "usage: schrot sweep NETLIST --vary NAME=START:STOP:N[:lin] [options]",
+	  "Repeats the noise run over a level (a current source, a top-level .param or temp) and finds\n"
+	  "where the added shot noise crosses the rest.\n" },
+	{ "arrivals", CMD_ARRIVALS, false, "usage: schrot arrivals NETLIST --window T (--duration D | --windows N) [options]",
+	  "Realises each carrier's electrons as a random arrival process (Poisson at |I|/q; with --avalanche\n"
+	  "a random gain of mean M and excess noise factor F per primary; with --fano F a renewal process),\n"
+	  "runs one transient with it and samples the output at the end of every window.\n" },
+	{ "merge", CMD_MERGE, true, "usage: schrot merge PART.json... [--json OUT] [options]",
+	  "Joins the partial results of 'schrot sweep --shard K/N' runs into one sweep.\n" },
+};
+
+/* How a number option's value is checked; the message says "NAME needs NEED, not 'VALUE'". */
+enum cli_check { CHECK_ANY, CHECK_POSITIVE, CHECK_POSITIVE_FINITE, CHECK_NOT_NEGATIVE_FINITE, CHECK_WHOLE };
+
+/*
+ * One option. metavar NULL: a flag (no value). set stores the value at offset into struct sch_cli
+ * (set_text, set_number, set_whole_int) or does the option's own parsing. lo/hi bound CHECK_WHOLE.
+ */
+struct cli_option {
+	const char *name;
+	const char *short_name; /* NULL: none */
+	const char *metavar;
+	unsigned commands;
+	enum sch_err (*set)(struct sch_cli *cli, const struct cli_option *o, char *val, struct sch_diag *d);
+	size_t offset;
+	enum cli_check check;
+	double lo, hi;
+	const char *need;       /* for the value's error message */
+	const char *help;       /* '\n' starts a continuation line */
+};
+
+static enum sch_err set_text(struct sch_cli *, const struct cli_option *, char *, struct sch_diag *);
+static enum sch_err set_number(struct sch_cli *, const struct cli_option *, char *, struct sch_diag *);
+static enum sch_err set_whole_int(struct sch_cli *, const struct cli_option *, char *, struct sch_diag *);
+static enum sch_err set_flag(struct sch_cli *, const struct cli_option *, char *, struct sch_diag *);
+static enum sch_err set_band(struct sch_cli *, const struct cli_option *, char *, struct sch_diag *);
+static enum sch_err set_freq(struct sch_cli *, const struct cli_option *, char *, struct sch_diag *);
+static enum sch_err set_spot(struct sch_cli *, const struct cli_option *, char *, struct sch_diag *);
+static enum sch_err set_lump(struct sch_cli *, const struct cli_option *, char *, struct sch_diag *);
+static enum sch_err set_avalanche(struct sch_cli *, const struct cli_option *, char *, struct sch_diag *);
+static enum sch_err set_fano(struct sch_cli *, const struct cli_option *, char *, struct sch_diag *);
+static enum sch_err set_shard(struct sch_cli *, const struct cli_option *, char *, struct sch_diag *);
+static enum sch_err set_seed(struct sch_cli *, const struct cli_option *, char *, struct sch_diag *);
+
+#define AT(field) offsetof(struct sch_cli, field)
+#define TEXT(field) set_text, AT(field), CHECK_ANY, 0, 0, NULL
+#define NUMBER(field, check, need) set_number, AT(field), check, 0, 0, need
+#define OWN(fn, need) fn, 0, CHECK_ANY, 0, 0, need
+
+/*
+ * Which command honours what was read from src/cmd and src/analysis: an operating-point run
+ * (carriers, augment, arrivals) reads only the carrier rules; augment's deck takes the noise run's
+ * output, input and range but no junction probes; a sweep reports band rms only (no spots, NEP,
+ * SNR or budget); only report and carriers and augment write the shared output files.
+ */
+static const struct cli_option options[] = {
+	{ "--out", "-o", "FILE", CMD_AUGMENT, TEXT(out_path), "the augmented netlist ('-': the standard output)" },
+	{ "--vary", NULL, "NAME=START:STOP:N[:lin]", CMD_SWEEP, TEXT(vary),
+	  "a current source, a top-level .param or temp, N points from 2 to 10000\n"
+	  "(log spacing over more than a decade unless :lin)" },
+	{ "--jobs", NULL, "N", CMD_SWEEP, set_whole_int, AT(run.n_workers), CHECK_WHOLE, 1, 64, "a whole number 1..64",
+	  "worker processes (default 2)" },
+	{ "--shard", NULL, "K/N", CMD_SWEEP, OWN(set_shard, "K/N with 1 <= K <= N <= 10000"),
+	  "compute only share K of N of the points (needs --json;\njoin the parts with 'schrot merge')" },
+	{ "--window", NULL, "T", CMD_ARRIVALS, NUMBER(window_s, CHECK_POSITIVE_FINITE, "a positive time in seconds"),
+	  "observation window (s, SI suffixes: 10u)" },
+	{ "--duration", NULL, "D", CMD_ARRIVALS, NUMBER(duration_s, CHECK_POSITIVE_FINITE, "a positive time in seconds"),
+	  "total observed time (s); or --windows N" },
+	{ "--windows", NULL, "N", CMD_ARRIVALS, set_number, AT(n_windows), CHECK_WHOLE, 2, 1e7,
+	  "a whole number 2..10000000", "the number of windows; or --duration D" },
+	{ "--step", NULL, "DT", CMD_ARRIVALS, NUMBER(step_s, CHECK_POSITIVE_FINITE, "a positive time in seconds"),
+	  "resolution of the arrival sources and largest simulator step\n"
+	  "(default T/50); keep it below a fiftieth of the fastest time constant\n"
+	  "that matters (a single pole's output variance came out about 2 % low\n"
+	  "at tau/50 in our tests, less at finer steps)" },
+	{ "--settle", NULL, "TS", CMD_ARRIVALS,
+	  NUMBER(settle_s, CHECK_NOT_NEGATIVE_FINITE, "a time in seconds that is not negative"),
+	  "simulated before the first window, so the output forgets its start\n(default 0)" },
+	{ "--seed", NULL, "S", CMD_ARRIVALS, OWN(set_seed, "a whole number 0..18446744073709551615"),
+	  "seed of the xoshiro256** generator (default 1); same seed, same run" },
+	{ "--band", NULL, "F1:F2", CMD_REPORT | CMD_SWEEP, OWN(set_band, "F1:F2 in Hz with 0 < F1 < F2"),
+	  "integration band in Hz (SI suffixes: 10:1meg);\ndefault: the noise run's range" },
+	{ "--spot", NULL, "F", CMD_REPORT, OWN(set_spot, "a positive frequency in Hz"),
+	  "spot frequency in Hz (repeatable, at most 32)" },
+	{ "--carrier", NULL, "REGEX", CMD_NETLIST, TEXT(run.carriers.carrier_regex),
+	  "also treat matching current elements as carriers\n(whole hierarchical name)" },
+	{ "--ignore", NULL, "REGEX", CMD_NETLIST, TEXT(run.carriers.ignore_regex),
+	  "never treat matching elements as carriers" },
+	{ "--lump", NULL, "REGEX", CMD_REPORT, OWN(set_lump, NULL),
+	  "matching resistors as one row (extracted parasitics; much faster)" },
+	{ "--avalanche", NULL, "REGEX=M:K", CMD_NETLIST, OWN(set_avalanche, "REGEX=M:K"),
+	  "avalanche gain M >= 1 and ionisation ratio k in [0,1]\n(McIntyre excess noise)" },
+	{ "--fano", NULL, "REGEX=F", CMD_NETLIST, OWN(set_fano, "REGEX=F"), "shot noise scaled by the Fano factor F >= 0" },
+	{ "--no-junction-correction", NULL, NULL, CMD_REPORT | CMD_SWEEP, OWN(set_flag, NULL),
+	  "keep the simulator's own 2q|I_D| diode noise" },
+	{ "--responsivity", NULL, "A_PER_W", CMD_REPORT,
+	  NUMBER(run.responsivity_a_per_w, CHECK_POSITIVE, "a positive value in A/W"), "detector responsivity, for NEP" },
+	{ "--signal", NULL, "VALUE", CMD_REPORT, NUMBER(run.signal, CHECK_ANY, "a number in the input's unit"),
+	  "signal in the input's unit, for SNR over the band" },
+	{ "--budget", NULL, "VRMS", CMD_REPORT, NUMBER(budget_v, CHECK_POSITIVE, "a positive rms voltage"),
+	  "exit 1 when the band's output rms exceeds it (SI suffixes: 50u)" },
+	{ "--output", NULL, "EXPR", CMD_REPORT | CMD_AUGMENT | CMD_SWEEP | CMD_ARRIVALS, TEXT(run.output_expr),
+	  "v(node) or v(node,ref) when the netlist has no .noise line" },
+	{ "--input", NULL, "SRC", CMD_REPORT | CMD_AUGMENT | CMD_SWEEP, TEXT(run.input_src),
+	  "noise input source when the netlist has no .noise line" },
+	{ "--freq", NULL, "F1:F2[:PPD]", CMD_REPORT | CMD_AUGMENT | CMD_SWEEP, OWN(set_freq, NULL),
+	  "noise run range in Hz and points per decade (default 20)\nwhen the netlist has no .noise line" },
+	{ "--json", NULL, "FILE", CMD_ALL, TEXT(json_path), "the result as JSON ('-': the standard output, no table)" },
+	{ "--csv", NULL, "FILE", CMD_REPORT, TEXT(csv_path), "one row per contribution" },
+	{ "--spectrum", NULL, "FILE.csv", CMD_REPORT, TEXT(spectrum_path),
+	  "output noise density per frequency: total, the --top largest\ncontributions, the rest" },
+	{ "--top", NULL, "N", CMD_REPORT, set_whole_int, AT(top_n), CHECK_WHOLE, 1, 100, "a whole number 1..100",
+	  "contributions with their own --spectrum column (default 8)" },
+	{ "--plot", NULL, "FILE.svg|png", CMD_REPORT | CMD_ARRIVALS, TEXT(plot_path), "a plot, SVG or PNG by the name" },
+	{ "--html", NULL, "FILE", CMD_REPORT | CMD_CARRIERS | CMD_AUGMENT, TEXT(html_path),
+	  "a self-contained review page" },
+	{ "--depfile", NULL, "FILE", CMD_REPORT | CMD_CARRIERS | CMD_AUGMENT, TEXT(depfile_path),
+	  "make dependency file: the output files depend on the netlist\nand its includes" },
+	{ "--quiet", "-q", NULL, CMD_ALL, OWN(set_flag, NULL), "only errors" },
+	{ "--verbose", "-v", NULL, CMD_ALL, OWN(set_flag, NULL), "notes and simulator messages too" },
+	{ "--help", "-h", NULL, CMD_ALL, OWN(set_flag, NULL), "this help" },
+};
+
+#define N_OPTIONS (sizeof(options) / sizeof(options[0]))
+#define N_COMMANDS (sizeof(commands) / sizeof(commands[0]))
 
 static enum sch_err usage(struct sch_diag *d, const char *fmt, const char *arg)
 {
@@ -15,9 +176,21 @@ static enum sch_err usage(struct sch_diag *d, const char *fmt, const char *arg)
 	return sch_diag_error(d, SCH_ERR_USAGE, NULL, 0, "%s (try 'schrot --help')", msg);
 }
 
+/* "--band needs F1:F2 in Hz with 0 < F1 < F2, not '1k'" */
+static enum sch_err bad_value(const struct cli_option *o, const char *val, struct sch_diag *d)
+{
+	return sch_diag_error(d, SCH_ERR_USAGE, NULL, 0, "%s needs %s, not '%s' (try 'schrot --help')", o->name, o->need,
+			      val);
+}
+
 static enum sch_err parse_number(const char *text, double *v)
 {
 	return text && sch_si_parse(text, v) == SCH_OK ? SCH_OK : SCH_ERR_USAGE;
+}
+
+static void *field(struct sch_cli *cli, const struct cli_option *o)
+{
+	return (char *)cli + o->offset;
 }
 
 enum sch_err sch_cli_parse_range(const char *text, double *lo, double *hi)
@@ -54,24 +227,263 @@ static int parse_rule(char *text, const char **regex, double *nums, int n)
 	return got;
 }
 
-static bool takes_value(const char *name)
+static enum sch_err set_text(struct sch_cli *cli, const struct cli_option *o, char *val, struct sch_diag *d)
 {
-	static const char *const names[] = { "--json", "--csv", "--spectrum", "--plot", "--html", "--depfile", "-o",
-					     "--out", "--band", "--freq", "--spot", "--carrier", "--ignore", "--lump", "--avalanche",
-					     "--fano", "--responsivity", "--signal", "--budget", "--output", "--input",
-					     "--top", "--vary", "--jobs", "--shard", "--window", "--duration", "--windows", "--seed",
-					     "--step", "--settle" };
-	for (size_t k = 0; k < sizeof(names) / sizeof(names[0]); k++) {
-		if (strcmp(name, names[k]) == 0)
-			return true;
-	}
-	return false;
+	(void)d;
+	*(const char **)field(cli, o) = val;
+	return SCH_OK;
 }
 
-enum sch_err sch_cli_parse(struct sch_cli *cli, int argc, char **argv, struct sch_diag *d)
+static bool number_ok(const struct cli_option *o, double v)
 {
-	size_t n_spots = 0;
+	switch (o->check) {
+	case CHECK_POSITIVE:
+		return v > 0;
+	case CHECK_POSITIVE_FINITE:
+		return v > 0 && isfinite(v);
+	case CHECK_NOT_NEGATIVE_FINITE:
+		return v >= 0 && isfinite(v);
+	case CHECK_WHOLE:
+		return v >= o->lo && v <= o->hi && v == floor(v);
+	case CHECK_ANY:
+		break;
+	}
+	return true;
+}
 
+static enum sch_err set_number(struct sch_cli *cli, const struct cli_option *o, char *val, struct sch_diag *d)
+{
+	double *v = field(cli, o);
+	if (parse_number(val, v) != SCH_OK || !number_ok(o, *v))
+		return bad_value(o, val, d);
+	return SCH_OK;
+}
+
+static enum sch_err set_whole_int(struct sch_cli *cli, const struct cli_option *o, char *val, struct sch_diag *d)
+{
+	double v;
+	if (parse_number(val, &v) != SCH_OK || !number_ok(o, v))
+		return bad_value(o, val, d);
+	*(int *)field(cli, o) = (int)v;
+	return SCH_OK;
+}
+
+static enum sch_err set_flag(struct sch_cli *cli, const struct cli_option *o, char *val, struct sch_diag *d)
+{
+	(void)val;
+	(void)d;
+	if (strcmp(o->name, "--quiet") == 0)
+		cli->verbosity = -1;
+	else if (strcmp(o->name, "--verbose") == 0)
+		cli->verbosity = 1;
+	else if (strcmp(o->name, "--help") == 0)
+		cli->help = true;
+	else
+		cli->run.junction_correction = false;
+	return SCH_OK;
+}
+
+static enum sch_err set_band(struct sch_cli *cli, const struct cli_option *o, char *val, struct sch_diag *d)
+{
+	if (sch_cli_parse_range(val, &cli->run.band_lo_hz, &cli->run.band_hi_hz) != SCH_OK)
+		return bad_value(o, val, d);
+	return SCH_OK;
+}
+
+static enum sch_err set_freq(struct sch_cli *cli, const struct cli_option *o, char *val, struct sch_diag *d)
+{
+	char buf[256];
+	char *last;
+	double ppd = 20;
+
+	(void)o;
+	snprintf(buf, sizeof(buf), "%s", val);
+	last = strrchr(buf, ':');
+	if (last && strchr(buf, ':') != last) {
+		*last = '\0';
+		if (parse_number(last + 1, &ppd) != SCH_OK || ppd < 1 || ppd > 1000 || ppd != floor(ppd))
+			return usage(d, "--freq points per decade must be a whole number 1..1000 in '%s'", val);
+	}
+	if (sch_cli_parse_range(buf, &cli->run.freq.f_start, &cli->run.freq.f_stop) != SCH_OK)
+		return usage(d, "--freq needs F1:F2[:PPD] in Hz with 0 < F1 < F2, not '%s'", val);
+	cli->run.freq.points_per_decade = (int)ppd;
+	cli->run.have_freq = true;
+	return SCH_OK;
+}
+
+static enum sch_err set_spot(struct sch_cli *cli, const struct cli_option *o, char *val, struct sch_diag *d)
+{
+	double *spot = &cli->spots[cli->run.n_spots];
+	if (cli->run.n_spots >= SCH_MAX_SPOTS)
+		return usage(d, "too many --spot frequencies (at most 32): '%s'", val);
+	if (parse_number(val, spot) != SCH_OK || !(*spot > 0))
+		return bad_value(o, val, d);
+	cli->run.n_spots++;
+	return SCH_OK;
+}
+
+static enum sch_err set_lump(struct sch_cli *cli, const struct cli_option *o, char *val, struct sch_diag *d)
+{
+	(void)o;
+	if (cli->run.lump_regex)
+		return usage(d, "--lump given twice ('%s'): join the patterns with '|' into one", val);
+	cli->run.lump_regex = val;
+	return SCH_OK;
+}
+
+static enum sch_err set_avalanche(struct sch_cli *cli, const struct cli_option *o, char *val, struct sch_diag *d)
+{
+	double nums[2];
+	char shown[256];
+	struct sch_gain_rule *r = &cli->avalanche[cli->run.carriers.n_avalanche];
+
+	snprintf(shown, sizeof(shown), "%s", val);
+	if (cli->run.carriers.n_avalanche >= SCH_MAX_RULES)
+		return usage(d, "too many --avalanche rules: '%s'", val);
+	if (parse_rule(val, &r->regex, nums, 2) != 2)
+		return bad_value(o, shown, d);
+	if (!(nums[0] >= 1))
+		return usage(d, "--avalanche gain M must be at least 1 in '%s'", shown);
+	if (!(nums[1] >= 0 && nums[1] <= 1))
+		return usage(d, "--avalanche ionisation ratio K must lie in [0, 1] in '%s'", shown);
+	r->gain_m = nums[0];
+	r->k_ratio = nums[1];
+	r->fano = 1;
+	cli->run.carriers.n_avalanche++;
+	return SCH_OK;
+}
+
+static enum sch_err set_fano(struct sch_cli *cli, const struct cli_option *o, char *val, struct sch_diag *d)
+{
+	double num;
+	char shown[256];
+	struct sch_gain_rule *r = &cli->fano[cli->run.carriers.n_fano];
+
+	snprintf(shown, sizeof(shown), "%s", val);
+	if (cli->run.carriers.n_fano >= SCH_MAX_RULES)
+		return usage(d, "too many --fano rules: '%s'", val);
+	if (parse_rule(val, &r->regex, &num, 1) != 1)
+		return bad_value(o, shown, d);
+	if (!(num >= 0))
+		return usage(d, "--fano factor F must not be negative in '%s'", shown);
+	r->fano = num;
+	r->gain_m = 1;
+	cli->run.carriers.n_fano++;
+	return SCH_OK;
+}
+
+static enum sch_err set_shard(struct sch_cli *cli, const struct cli_option *o, char *val, struct sch_diag *d)
+{
+	int k = 0, n = 0, used = 0;
+	if (sscanf(val, "%d/%d%n", &k, &n, &used) != 2 || val[used] != '\0' || n < 1 || n > 10000 || k < 1 || k > n)
+		return bad_value(o, val, d);
+	cli->shard_k = k;
+	cli->shard_n = n;
+	return SCH_OK;
+}
+
+static enum sch_err set_seed(struct sch_cli *cli, const struct cli_option *o, char *val, struct sch_diag *d)
+{
+	char *end = NULL;
+	errno = 0;
+	cli->seed = strtoull(val, &end, 10);
+	if (!val[0] || val[0] == '-' || !end || *end || errno)
+		return bad_value(o, val, d);
+	cli->seed_given = true;
+	return SCH_OK;
+}
+
+static const struct cli_command *find_command(const char *name)
+{
+	for (size_t k = 0; name && k < N_COMMANDS; k++) {
+		if (strcmp(name, commands[k].name) == 0)
+			return &commands[k];
+	}
+	return NULL;
+}
+
+/* The row whose long name is arg's first len characters, or whose short name is arg; NULL: none. */
+static const struct cli_option *find_option(const char *arg, size_t len)
+{
+	for (size_t k = 0; k < N_OPTIONS; k++) {
+		const struct cli_option *o = &options[k];
+		if ((strncmp(arg, o->name, len) == 0 && o->name[len] == '\0') ||
+		    (o->short_name && strlen(o->short_name) == len && strncmp(arg, o->short_name, len) == 0))
+			return o;
+	}
+	return NULL;
+}
+
+/* A positional argument: the netlist, or one more file for a command that takes many. */
+static enum sch_err take_positional(struct sch_cli *cli, const struct cli_command *cmd, char *arg, struct sch_diag *d)
+{
+	if (cmd && cmd->many_files) {
+		cli->files[cli->n_files++] = arg;
+		if (!cli->netlist)
+			cli->netlist = arg;
+		return SCH_OK;
+	}
+	if (cli->netlist)
+		return usage(d, "more than one netlist given: '%s'", arg);
+	cli->netlist = arg;
+	return SCH_OK;
+}
+
+/*
+ * "option '--lump' does not apply to 'schrot sweep', only to report (try 'schrot sweep --help')";
+ * the option is quoted as typed, its first len characters.
+ */
+static enum sch_err refuse(const struct cli_option *o, const char *typed, size_t len, const struct cli_command *cmd,
+			   struct sch_diag *d)
+{
+	char takers[128] = "";
+	size_t n = 0, n_takers = 0;
+
+	for (size_t k = 0; k < N_COMMANDS; k++)
+		n_takers += (o->commands & commands[k].bit) != 0;
+	for (size_t k = 0; k < N_COMMANDS; k++) {
+		size_t used = strlen(takers);
+		if (!(o->commands & commands[k].bit))
+			continue;
+		n++;
+		snprintf(takers + used, sizeof(takers) - used, "%s%s", n == 1 ? "" : n == n_takers ? " and " : ", ",
+			 commands[k].name);
+	}
+	return sch_diag_error(d, SCH_ERR_USAGE, NULL, 0,
+			      "option '%.*s' does not apply to 'schrot %s', only to %s (try 'schrot %s --help')", (int)len,
+			      typed, cmd->name, takers, cmd->name);
+}
+
+/*
+ * Parses the option at argv[*i] (and its value, advancing *i past it). A known option that cmd
+ * does not honour is refused; an unknown command (not in commands[]) takes every option.
+ */
+static enum sch_err take_option(struct sch_cli *cli, const struct cli_command *cmd, int argc, char **argv, int *i,
+				struct sch_diag *d)
+{
+	char *arg = argv[*i];
+	char *eq = strncmp(arg, "--", 2) == 0 ? strchr(arg, '=') : NULL;
+	size_t len = eq ? (size_t)(eq - arg) : strlen(arg);
+	const struct cli_option *o = find_option(arg, len);
+	char *val = NULL;
+
+	if (!o || (eq && !o->metavar))
+		return usage(d, "unknown option '%s'", arg);
+	if (cmd && !(o->commands & cmd->bit))
+		return refuse(o, arg, len, cmd, d);
+	if (o->metavar) {
+		if (eq)
+			val = eq + 1;
+		else if (*i + 1 < argc)
+			val = argv[++*i];
+		else
+			return usage(d, "option '%s' needs a value", arg);
+	}
+	return o->set(cli, o, val, d);
+}
+
+static void cli_init(struct sch_cli *cli, const char *command)
+{
 	memset(cli, 0, sizeof(*cli));
 	sch_run_options_init(&cli->run);
 	cli->budget_v = NAN;
@@ -79,197 +491,74 @@ enum sch_err sch_cli_parse(struct sch_cli *cli, int argc, char **argv, struct sc
 	cli->window_s = NAN;
 	cli->duration_s = NAN;
 	cli->step_s = NAN;
-	cli->command = argv[0];
+	cli->command = command;
 	cli->run.spots_hz = cli->spots;
 	cli->run.carriers.avalanche = cli->avalanche;
 	cli->run.carriers.fano = cli->fano;
-	for (int i = 1; i < argc; i++) {
-		char *arg = argv[i];
-		char *val = NULL;
-		char *eq;
-		char name[64];
+}
 
-		if (strcmp(arg, "-q") == 0 || strcmp(arg, "--quiet") == 0) {
-			cli->verbosity = -1;
-			continue;
-		}
-		if (strcmp(arg, "-v") == 0 || strcmp(arg, "--verbose") == 0) {
-			cli->verbosity = 1;
-			continue;
-		}
-		if (strcmp(arg, "-h") == 0 || strcmp(arg, "--help") == 0) {
-			cli->help = true;
-			continue;
-		}
-		if (strcmp(arg, "--no-junction-correction") == 0) {
-			cli->run.junction_correction = false;
-			continue;
-		}
-		if (arg[0] != '-' || strcmp(arg, "-") == 0) {
-			if (cli->netlist)
-				return usage(d, "more than one netlist given: '%s'", arg);
-			cli->netlist = arg;
-			continue;
-		}
-		snprintf(name, sizeof(name), "%s", arg);
-		eq = strchr(name, '=');
-		if (eq)
-			*eq = '\0';
-		if (!takes_value(name))
-			return usage(d, "unknown option '%s'", arg);
-		if (eq)
-			*eq = '=';
-		if (eq && strncmp(name, "--", 2) == 0) {
-			*eq = '\0';
-			val = strchr(arg, '=') + 1;
-		} else if (i + 1 < argc) {
-			val = argv[++i];
-		} else {
-			return usage(d, "option '%s' needs a value", arg);
-		}
-		if (strcmp(name, "--json") == 0) {
-			cli->json_path = val;
-		} else if (strcmp(name, "--csv") == 0) {
-			cli->csv_path = val;
-		} else if (strcmp(name, "--spectrum") == 0) {
-			cli->spectrum_path = val;
-		} else if (strcmp(name, "--plot") == 0) {
-			cli->plot_path = val;
-		} else if (strcmp(name, "--html") == 0) {
-			cli->html_path = val;
-		} else if (strcmp(name, "--depfile") == 0) {
-			cli->depfile_path = val;
-		} else if (strcmp(name, "-o") == 0 || strcmp(name, "--out") == 0) {
-			cli->out_path = val;
-		} else if (strcmp(name, "--band") == 0) {
-			if (sch_cli_parse_range(val, &cli->run.band_lo_hz, &cli->run.band_hi_hz) != SCH_OK)
-				return usage(d, "--band needs F1:F2 in Hz with 0 < F1 < F2, not '%s'", val);
-		} else if (strcmp(name, "--freq") == 0) {
-			char buf[256];
-			char *last;
-			double ppd = 20;
-			snprintf(buf, sizeof(buf), "%s", val);
-			last = strrchr(buf, ':');
-			if (last && strchr(buf, ':') != last) {
-				*last = '\0';
-				if (parse_number(last + 1, &ppd) != SCH_OK || ppd < 1 || ppd > 1000 || ppd != floor(ppd))
-					return usage(d, "--freq points per decade must be a whole number 1..1000 in '%s'", val);
-			}
-			if (sch_cli_parse_range(buf, &cli->run.freq.f_start, &cli->run.freq.f_stop) != SCH_OK)
-				return usage(d, "--freq needs F1:F2[:PPD] in Hz with 0 < F1 < F2, not '%s'", val);
-			cli->run.freq.points_per_decade = (int)ppd;
-			cli->run.have_freq = true;
-		} else if (strcmp(name, "--spot") == 0) {
-			if (n_spots >= SCH_MAX_SPOTS)
-				return usage(d, "too many --spot frequencies (at most 32): '%s'", val);
-			if (parse_number(val, &cli->spots[n_spots]) != SCH_OK || !(cli->spots[n_spots] > 0))
-				return usage(d, "--spot needs a positive frequency in Hz, not '%s'", val);
-			n_spots++;
-		} else if (strcmp(name, "--carrier") == 0) {
-			cli->run.carriers.carrier_regex = val;
-		} else if (strcmp(name, "--ignore") == 0) {
-			cli->run.carriers.ignore_regex = val;
-		} else if (strcmp(name, "--lump") == 0) {
-			if (cli->run.lump_regex)
-				return usage(d, "--lump given twice ('%s'): join the patterns with '|' into one", val);
-			cli->run.lump_regex = val;
-		} else if (strcmp(name, "--avalanche") == 0) {
-			double nums[2];
-			char shown[256];
-			snprintf(shown, sizeof(shown), "%s", val);
-			struct sch_gain_rule *r = &cli->avalanche[cli->run.carriers.n_avalanche];
-			if (cli->run.carriers.n_avalanche >= SCH_MAX_RULES)
-				return usage(d, "too many --avalanche rules: '%s'", val);
-			if (parse_rule(val, &r->regex, nums, 2) != 2)
-				return usage(d, "--avalanche needs REGEX=M:K, not '%s'", shown);
-			if (!(nums[0] >= 1))
-				return usage(d, "--avalanche gain M must be at least 1 in '%s'", shown);
-			if (!(nums[1] >= 0 && nums[1] <= 1))
-				return usage(d, "--avalanche ionisation ratio K must lie in [0, 1] in '%s'", shown);
-			r->gain_m = nums[0];
-			r->k_ratio = nums[1];
-			r->fano = 1;
-			cli->run.carriers.n_avalanche++;
-		} else if (strcmp(name, "--fano") == 0) {
-			double num;
-			char shown[256];
-			snprintf(shown, sizeof(shown), "%s", val);
-			struct sch_gain_rule *r = &cli->fano[cli->run.carriers.n_fano];
-			if (cli->run.carriers.n_fano >= SCH_MAX_RULES)
-				return usage(d, "too many --fano rules: '%s'", val);
-			if (parse_rule(val, &r->regex, &num, 1) != 1)
-				return usage(d, "--fano needs REGEX=F, not '%s'", shown);
-			if (!(num >= 0))
-				return usage(d, "--fano factor F must not be negative in '%s'", shown);
-			r->fano = num;
-			r->gain_m = 1;
-			cli->run.carriers.n_fano++;
-		} else if (strcmp(name, "--responsivity") == 0) {
-			if (parse_number(val, &cli->run.responsivity_a_per_w) != SCH_OK || !(cli->run.responsivity_a_per_w > 0))
-				return usage(d, "--responsivity needs a positive value in A/W, not '%s'", val);
-		} else if (strcmp(name, "--signal") == 0) {
-			if (parse_number(val, &cli->run.signal) != SCH_OK)
-				return usage(d, "--signal needs a number in the input's unit, not '%s'", val);
-		} else if (strcmp(name, "--budget") == 0) {
-			if (parse_number(val, &cli->budget_v) != SCH_OK || !(cli->budget_v > 0))
-				return usage(d, "--budget needs a positive rms voltage, not '%s'", val);
-		} else if (strcmp(name, "--output") == 0) {
-			cli->run.output_expr = val;
-		} else if (strcmp(name, "--input") == 0) {
-			cli->run.input_src = val;
-		} else if (strcmp(name, "--top") == 0) {
-			double v;
-			if (parse_number(val, &v) != SCH_OK || v < 1 || v > 100 || v != floor(v))
-				return usage(d, "--top needs a whole number 1..100, not '%s'", val);
-			cli->top_n = (int)v;
-		} else if (strcmp(name, "--vary") == 0) {
-			cli->vary = val;
-		} else if (strcmp(name, "--shard") == 0) {
-			int k = 0, n = 0, used = 0;
-			if (sscanf(val, "%d/%d%n", &k, &n, &used) != 2 || val[used] != '\0' || n < 1 || n > 10000 || k < 1 ||
-			    k > n)
-				return usage(d, "--shard needs K/N with 1 <= K <= N <= 10000, not '%s'", val);
-			cli->shard_k = k;
-			cli->shard_n = n;
-		} else if (strcmp(name, "--jobs") == 0) {
-			double v;
-			if (parse_number(val, &v) != SCH_OK || v < 1 || v > 64 || v != floor(v))
-				return usage(d, "--jobs needs a whole number 1..64, not '%s'", val);
-			cli->run.n_workers = (int)v;
-		} else if (strcmp(name, "--window") == 0) {
-			if (parse_number(val, &cli->window_s) != SCH_OK || !(cli->window_s > 0) || !isfinite(cli->window_s))
-				return usage(d, "--window needs a positive time in seconds, not '%s'", val);
-		} else if (strcmp(name, "--duration") == 0) {
-			if (parse_number(val, &cli->duration_s) != SCH_OK || !(cli->duration_s > 0) || !isfinite(cli->duration_s))
-				return usage(d, "--duration needs a positive time in seconds, not '%s'", val);
-		} else if (strcmp(name, "--windows") == 0) {
-			if (parse_number(val, &cli->n_windows) != SCH_OK || cli->n_windows < 2 || cli->n_windows > 1e7 ||
-			    cli->n_windows != floor(cli->n_windows))
-				return usage(d, "--windows needs a whole number 2..10000000, not '%s'", val);
-		} else if (strcmp(name, "--step") == 0) {
-			if (parse_number(val, &cli->step_s) != SCH_OK || !(cli->step_s > 0) || !isfinite(cli->step_s))
-				return usage(d, "--step needs a positive time in seconds, not '%s'", val);
-		} else if (strcmp(name, "--settle") == 0) {
-			if (parse_number(val, &cli->settle_s) != SCH_OK || !(cli->settle_s >= 0) || !isfinite(cli->settle_s))
-				return usage(d, "--settle needs a time in seconds that is not negative, not '%s'", val);
-		} else if (strcmp(name, "--seed") == 0) {
-			char *end = NULL;
-			errno = 0;
-			cli->seed = strtoull(val, &end, 10);
-			if (!val[0] || val[0] == '-' || !end || *end || errno)
-				return usage(d, "--seed needs a whole number 0..18446744073709551615, not '%s'", val);
-			cli->seed_given = true;
-		} else {
-			return usage(d, "unknown option '%s'", arg);
-		}
+enum sch_err sch_cli_parse(struct sch_cli *cli, int argc, char **argv, struct sch_diag *d)
+{
+	const struct cli_command *cmd = find_command(argv[0]);
+	enum sch_err ret = SCH_OK;
+
+	cli_init(cli, argv[0]);
+	if (cmd && cmd->many_files && !(cli->files = calloc((size_t)argc + 1, sizeof(*cli->files))))
+		return SCH_ERR_NOMEM;
+	for (int i = 1; i < argc && ret == SCH_OK; i++) {
+		char *arg = argv[i];
+		if (arg[0] != '-' || strcmp(arg, "-") == 0)
+			ret = take_positional(cli, cmd, arg, d);
+		else
+			ret = take_option(cli, cmd, argc, argv, &i, d);
 	}
-	cli->run.n_spots = n_spots;
-	if (!cli->help && !cli->netlist)
-		return usage(d, "no netlist given%s", "");
-	return SCH_OK;
+	if (ret == SCH_OK && !cli->help && !cli->netlist && !(cmd && cmd->many_files))
+		ret = usage(d, "no netlist given%s", "");
+	if (ret != SCH_OK)
+		sch_cli_release(cli);
+	return ret;
+}
+
+/* "  --band F1:F2" padded to the help column, then the help text, continuation lines indented. */
+static void print_option(const struct cli_option *o, FILE *out)
+{
+	char left[64];
+	const char *line = o->help;
+
+	snprintf(left, sizeof(left), "%s%s%s%s%s", o->short_name ? o->short_name : "", o->short_name ? ", " : "",
+		 o->name, o->metavar ? " " : "", o->metavar ? o->metavar : "");
+	fprintf(out, "  %-22s", left);
+	if (strlen(left) >= 22)
+		fprintf(out, "\n%24s", "");
+	for (;;) {
+		const char *nl = strchr(line, '\n');
+		int len = nl ? (int)(nl - line) : (int)strlen(line);
+		fprintf(out, " %.*s\n", len, line);
+		if (!nl)
+			break;
+		line = nl + 1;
+		fprintf(out, "%24s", "");
+	}
+}
+
+bool sch_cli_print_help(const char *command, FILE *out)
+{
+	const struct cli_command *cmd = find_command(command);
+
+	if (!cmd)
+		return false;
+	fprintf(out, "%s\n\n%s\noptions:\n", cmd->usage, cmd->about);
+	for (size_t k = 0; k < N_OPTIONS; k++) {
+		if (options[k].commands & cmd->bit)
+			print_option(&options[k], out);
+	}
+	fputs("\nexit codes: 0 ok, 1 a check failed, 2 bad input, 3 the simulation failed\n", out);
+	return true;
 }
 
 void sch_cli_release(struct sch_cli *cli)
 {
-	(void)cli; /* nothing owned yet; kept so commands release what they parse */
+	free(cli->files);
+	cli->files = NULL;
+	cli->n_files = 0;
 }

@@ -47,18 +47,16 @@ void sch_cmd_print_help(FILE *out)
 static enum sch_err write_outputs(const struct sch_cli *cli, const struct sch_result *res, struct sch_diag *d);
 
 /* All or nothing: a later output that fails leaves the earlier ones' targets untouched too. */
-enum sch_err sch_cmd_start(struct sch_cli *cli, int argc, char **argv, struct sch_ctx *ctx, void (*help)(FILE *out),
-			   bool *done)
+enum sch_err sch_cmd_start(struct sch_cli *cli, int argc, char **argv, struct sch_ctx *ctx, bool *done)
 {
 	enum sch_err ret = sch_cli_parse(cli, argc, argv, &ctx->diag);
 
 	*done = false;
 	if (ret != SCH_OK)
 		return ret;
-	if (cli->run.lump_regex && !cli->help && (!cli->command || strcmp(cli->command, "report") != 0))
-		return sch_diag_error(&ctx->diag, SCH_ERR_USAGE, NULL, 0, "--lump works with 'schrot report' only");
 	if (cli->help) {
-		(help ? help : sch_cmd_print_help)(stdout);
+		if (!sch_cli_print_help(cli->command, stdout))
+			sch_cmd_print_help(stdout);
 		*done = true;
 	}
 	ctx->diag.verbosity = cli->verbosity;

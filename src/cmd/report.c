@@ -15,7 +15,7 @@ int cmd_report(int argc, char **argv, struct sch_ctx *ctx)
 	enum sch_err ret;
 
 	sch_result_init(&res);
-	ret = sch_cmd_start(&cli, argc, argv, ctx, NULL, &done);
+	ret = sch_cmd_start(&cli, argc, argv, ctx, &done);
 	if (ret != SCH_OK || done)
 		goto out;
 	cli.run.mode = SCH_RUN_REPORT;

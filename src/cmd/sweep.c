@@ -117,7 +117,7 @@ int cmd_sweep(int argc, char **argv, struct sch_ctx *ctx)
 	sch_result_init(&res);
 	for (int i = 1; i < argc; i++)
 		jobs_given |= strncmp(argv[i], "--jobs", 6) == 0;
-	ret = sch_cmd_start(&cli, argc, argv, ctx, NULL, &done);
+	ret = sch_cmd_start(&cli, argc, argv, ctx, &done);
 	if (ret != SCH_OK || done)
 		goto out;
 	if (!cli.vary) {

@@ -47,11 +47,6 @@ struct reader {
 
 static enum sch_err read_source(struct reader *r, struct src *src, const char *text, size_t len);
 
-static inline bool is_blank(char c)
-{
-	return c == ' ' || c == '\t' || c == '\r' || c == '\f' || c == '\v';
-}
-
 static bool ci_prefix(const char *s, size_t n, const char *prefix)
 {
 	size_t k = strlen(prefix);
@@ -486,149 +481,178 @@ static enum sch_err take_title(struct reader *r, struct src *src, const char *s,
 	return SCH_OK;
 }
 
+/* Where read_source stands in one file: the line being read and the card being joined. */
+struct lines {
+	struct sch_buf card; /* the pending card, continuation lines joined with one blank */
+	long card_line;      /* line the pending card started on */
+	bool pending;        /* card holds a card not yet handed on */
+	bool need_title;     /* the next line is the top file's title */
+	bool title_blank;    /* the title was blank and the first line after it is still to come */
+	long lineno;
+};
+
+/* SCH_ERR_INPUT, located at the line of the first NUL byte, when text holds one. */
+static enum sch_err refuse_binary(struct reader *r, const struct src *src, const char *text, size_t len)
+{
+	const char *nul = memchr(text, '\0', len);
+	long at = 1;
+
+	if (!nul)
+		return SCH_OK;
+	for (const char *p = text; p < nul; p++)
+		at += *p == '\n';
+	return sch_diag_error(r->ld.d, SCH_ERR_INPUT, src->path, at, "binary file");
+}
+
+static enum sch_err title_line(struct reader *r, struct src *src, struct lines *ls, const char *s, size_t n)
+{
+	enum sch_err ret = take_title(r, src, s, n);
+
+	ls->need_title = false;
+	if (ret == SCH_OK)
+		ls->title_blank = r->ld.deck->title[strspn(r->ld.deck->title, " \t\r\f\v")] == '\0';
+	return ret;
+}
+
+/* A '+' line: its text joins the pending card. */
+static enum sch_err continuation_line(struct reader *r, struct src *src, struct lines *ls, const char *s, size_t n)
+{
+	size_t kept;
+	bool odd;
+
+	if (src->state != ST_CARDS)
+		return SCH_OK;
+	s++;
+	n--;
+	while (n && is_blank(*s))
+		s++, n--;
+	kept = strip_inline(s, n, &odd);
+	if (!kept)
+		return SCH_OK;
+	if (odd && check_text(r, src, ls->lineno, s, kept) != SCH_OK)
+		return SCH_ERR_INPUT;
+	if (!ls->pending) {
+		sch_diag_report(r->ld.d, SCH_WARNING, src->path, ls->lineno,
+				"continuation line with no card to continue: ignored");
+		return SCH_OK;
+	}
+	if (ls->card.len + 1 + kept > SCH_MAX_LINE)
+		return sch_diag_error(r->ld.d, SCH_ERR_INPUT, src->path, ls->card_line, "line longer than %zu bytes",
+				      SCH_MAX_LINE);
+	if (sch_buf_add(&ls->card, " ", 1) != SCH_OK || sch_buf_add(&ls->card, s, kept) != SCH_OK)
+		return SCH_ERR_NOMEM;
+	return SCH_OK;
+}
+
+/* Whether the file's state takes this line (inside .control, a skipped .lib section, or outside it). */
+static bool taken_by_state(struct reader *r, struct src *src, const char *s, size_t kept)
+{
+	if (src->state == ST_CONTROL) {
+		if (ci_prefix(s, kept, ".endc"))
+			src->state = ST_CARDS;
+		return true;
+	}
+	if (src->state == ST_DEF_SKIP) {
+		if (ci_prefix(s, kept, ".endl"))
+			src->state = ST_CARDS;
+		return true;
+	}
+	if (src->state == ST_OUTSIDE) {
+		if (opens_section(r, src, s, kept)) {
+			src->state = ST_CARDS;
+			src->found = true;
+		}
+		return true;
+	}
+	return false;
+}
+
+/* A line that is no comment and no continuation: hands on the pending card, then holds this one. */
+static enum sch_err card_start(struct reader *r, struct src *src, struct lines *ls, const char *s, size_t n)
+{
+	bool odd;
+	size_t kept = strip_inline(s, n, &odd);
+	enum sch_err ret;
+
+	if (!kept)
+		return SCH_OK; /* a line holding only an inline comment does not end the card above */
+	if (ls->pending) {
+		ls->pending = false;
+		ret = flush_card(r, src, ls->card_line, ls->card.data, ls->card.len);
+		if (ret != SCH_OK || src->stop)
+			return ret;
+	}
+	if (taken_by_state(r, src, s, kept))
+		return SCH_OK;
+	if (s[0] == '.' && sch_pattern_match(r->ld.re_control, s, kept)) {
+		src->state = ST_CONTROL;
+		warn_dropped(r, src, ls->lineno, true);
+		return SCH_OK;
+	}
+	if (odd && check_text(r, src, ls->lineno, s, kept) != SCH_OK)
+		return SCH_ERR_INPUT;
+	if (kept > SCH_MAX_LINE)
+		return sch_diag_error(r->ld.d, SCH_ERR_INPUT, src->path, ls->lineno, "line longer than %zu bytes",
+				      SCH_MAX_LINE);
+	sch_buf_reset(&ls->card);
+	if (sch_buf_add(&ls->card, s, kept) != SCH_OK)
+		return SCH_ERR_NOMEM;
+	ls->card_line = ls->lineno;
+	ls->pending = true;
+	return SCH_OK;
+}
+
+/* One physical line s[0..n), without its newline and carriage return. */
+static enum sch_err read_line(struct reader *r, struct src *src, struct lines *ls, const char *s, size_t n)
+{
+	size_t b = 0;
+
+	if (ls->need_title)
+		return title_line(r, src, ls, s, n);
+	while (b < n && is_blank(s[b]))
+		b++;
+	if (b == n)
+		return SCH_OK;
+	if (ls->title_blank) {
+		/* ngspice looks for the script marker past a blank first line too. */
+		ls->title_blank = false;
+		if (ci_prefix(s + b, n - b, "*ng_script"))
+			sch_diag_report(r->ld.d, SCH_WARNING, src->path, ls->lineno,
+					"'*ng_script' after a blank title is a comment here and never run");
+	}
+	s += b;
+	n -= b;
+	if (s[0] == '*') {
+		if (n > 1 && s[1] == '#' && src->state == ST_CARDS)
+			warn_dropped(r, src, ls->lineno, false);
+		return SCH_OK;
+	}
+	if (s[0] == '+')
+		return continuation_line(r, src, ls, s, n);
+	return card_start(r, src, ls, s, n);
+}
+
 static enum sch_err read_source(struct reader *r, struct src *src, const char *text, size_t len)
 {
-	enum sch_err ret = SCH_ERR_NOMEM;
-	struct sch_buf card;
-	long card_line = 0;
-	bool pending = false;
-	bool need_title = src->mode == SRC_TOP;
-	bool title_blank = false;
-	const char *nul = memchr(text, '\0', len);
+	struct lines ls = { .need_title = src->mode == SRC_TOP };
+	enum sch_err ret = refuse_binary(r, src, text, len);
 	size_t pos = 0;
-	long lineno = 0;
 
-	sch_buf_init(&card, SCH_MAX_LINE);
-	if (nul) {
-		long at = 1;
-		for (const char *p = text; p < nul; p++)
-			at += *p == '\n';
-		ret = sch_diag_error(r->ld.d, SCH_ERR_INPUT, src->path, at, "binary file");
-		goto out;
-	}
-	while (pos < len && !src->stop) {
+	sch_buf_init(&ls.card, SCH_MAX_LINE);
+	while (ret == SCH_OK && pos < len && !src->stop) {
 		const char *s = text + pos;
 		const char *nl = memchr(s, '\n', len - pos);
 		size_t n = nl ? (size_t)(nl - s) : len - pos;
-		size_t b = 0, kept;
-		bool odd;
 
 		pos += n + 1;
-		lineno++;
+		ls.lineno++;
 		if (n && s[n - 1] == '\r')
 			n--;
-		if (need_title) {
-			need_title = false;
-			ret = take_title(r, src, s, n);
-			if (ret != SCH_OK)
-				goto out;
-			ret = SCH_ERR_NOMEM;
-			title_blank = r->ld.deck->title[strspn(r->ld.deck->title, " \t\r\f\v")] == '\0';
-			continue;
-		}
-		while (b < n && is_blank(s[b]))
-			b++;
-		if (b == n)
-			continue;
-		if (title_blank) {
-			/* ngspice looks for the script marker past a blank first line too. */
-			title_blank = false;
-			if (ci_prefix(s + b, n - b, "*ng_script"))
-				sch_diag_report(r->ld.d, SCH_WARNING, src->path, lineno,
-						"'*ng_script' after a blank title is a comment here and never run");
-		}
-		s += b;
-		n -= b;
-		if (s[0] == '*') {
-			if (n > 1 && s[1] == '#' && src->state == ST_CARDS)
-				warn_dropped(r, src, lineno, false);
-			continue;
-		}
-		if (s[0] == '+') {
-			if (src->state != ST_CARDS)
-				continue;
-			s++;
-			n--;
-			while (n && is_blank(*s))
-				s++, n--;
-			kept = strip_inline(s, n, &odd);
-			if (!kept)
-				continue;
-			if (odd && check_text(r, src, lineno, s, kept) != SCH_OK) {
-				ret = SCH_ERR_INPUT;
-				goto out;
-			}
-			if (!pending) {
-				sch_diag_report(r->ld.d, SCH_WARNING, src->path, lineno,
-						"continuation line with no card to continue: ignored");
-				continue;
-			}
-			if (card.len + 1 + kept > SCH_MAX_LINE) {
-				ret = sch_diag_error(r->ld.d, SCH_ERR_INPUT, src->path, card_line,
-						     "line longer than %zu bytes", SCH_MAX_LINE);
-				goto out;
-			}
-			if (sch_buf_add(&card, " ", 1) != SCH_OK || sch_buf_add(&card, s, kept) != SCH_OK)
-				goto out;
-			continue;
-		}
-		kept = strip_inline(s, n, &odd);
-		if (!kept)
-			continue; /* a line holding only an inline comment does not end the card above */
-		if (pending) {
-			pending = false;
-			ret = flush_card(r, src, card_line, card.data, card.len);
-			if (ret != SCH_OK)
-				goto out;
-			ret = SCH_ERR_NOMEM;
-			if (src->stop)
-				break;
-		}
-		if (src->state == ST_CONTROL) {
-			if (ci_prefix(s, kept, ".endc"))
-				src->state = ST_CARDS;
-			continue;
-		}
-		if (src->state == ST_DEF_SKIP) {
-			if (ci_prefix(s, kept, ".endl"))
-				src->state = ST_CARDS;
-			continue;
-		}
-		if (src->state == ST_OUTSIDE) {
-			if (opens_section(r, src, s, kept)) {
-				src->state = ST_CARDS;
-				src->found = true;
-			}
-			continue;
-		}
-		if (s[0] == '.' && sch_pattern_match(r->ld.re_control, s, kept)) {
-			src->state = ST_CONTROL;
-			warn_dropped(r, src, lineno, true);
-			continue;
-		}
-		if (odd && check_text(r, src, lineno, s, kept) != SCH_OK) {
-			ret = SCH_ERR_INPUT;
-			goto out;
-		}
-		if (kept > SCH_MAX_LINE) {
-			ret = sch_diag_error(r->ld.d, SCH_ERR_INPUT, src->path, lineno, "line longer than %zu bytes",
-					     SCH_MAX_LINE);
-			goto out;
-		}
-		sch_buf_reset(&card);
-		if (sch_buf_add(&card, s, kept) != SCH_OK)
-			goto out;
-		card_line = lineno;
-		pending = true;
+		ret = read_line(r, src, &ls, s, n);
 	}
-	if (pending && !src->stop) {
-		ret = flush_card(r, src, card_line, card.data, card.len);
-		if (ret != SCH_OK)
-			goto out;
-	}
-	ret = SCH_OK;
-out:
-	sch_buf_release(&card);
+	if (ret == SCH_OK && ls.pending && !src->stop)
+		ret = flush_card(r, src, ls.card_line, ls.card.data, ls.card.len);
+	sch_buf_release(&ls.card);
 	return ret;
 }
 

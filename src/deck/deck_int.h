@@ -1,13 +1,15 @@
 /* SPDX-License-Identifier: BSD-3-Clause */
 /*
  * deck_int.h - internals shared by the deck reader's files: the load state that deck.c (files,
- * lines, includes) fills through deck_cards.c (tokens, cards), and a small name index.
+ * lines, includes) fills through cards.c (tokens.c below it; checks.c, dcpaths.c at the end),
+ * and the name index of lookup.c.
  */
 #ifndef SCH_DECK_INT_H
 #define SCH_DECK_INT_H
 
 #include <stdbool.h>
 #include <stddef.h>
+#include <string.h>
 #include "schrot/buf.h"
 #include "schrot/deck.h"
 #include "schrot/pattern.h"
@@ -91,6 +93,30 @@ struct sch_deck_load {
 	struct sch_pattern *re_control, *re_include, *re_lib;
 };
 
+#define GROW(arr, n, a) sch_deck_grow((void **)&(arr), &(a), (n), sizeof(*(arr)))
+#define ARENA_GROW(ld, arr, n, a) \
+	sch_deck_arena_grow(&(ld)->deck->arena, (void **)&(arr), &(a), (n), sizeof(*(arr)))
+
+static inline bool is_blank(char c)
+{
+	return c == ' ' || c == '\t' || c == '\r' || c == '\f' || c == '\v';
+}
+
+static inline char lower(char c)
+{
+	return (c >= 'A' && c <= 'Z') ? (char)(c + ('a' - 'A')) : c;
+}
+
+static inline bool is_alpha(char c)
+{
+	return (c >= 'a' && c <= 'z') || (c >= 'A' && c <= 'Z');
+}
+
+static inline bool has_prefix(const char *s, const char *prefix)
+{
+	return strncmp(s, prefix, strlen(prefix)) == 0;
+}
+
 /* Longest piece of a netlist token quoted in a message, bytes (a 1 MB token gives a short message). */
 #define SCH_DECK_QUOTE_MAX 64
 
@@ -102,6 +128,34 @@ struct sch_deck_load {
  */
 const char *sch_deck_quote(const struct sch_deck *deck, const char *file, const char *tok, const char *fallback,
 			   char *buf, size_t size);
+
+/*
+ * Splits text into lower-case tokens in ld->scratch (NUL-separated, starts in ld->tok_off), at
+ * most max_tok of them. SCH_ERR_NOMEM on failure.
+ */
+enum sch_err sch_deck_tokenize(struct sch_deck_load *ld, const char *text, size_t len, size_t max_tok);
+
+/*
+ * Moves the card text and the scratch tokens into the arena. Sets *text_out and *toks (n_tok
+ * pointers, NULL when there are none). SCH_ERR_NOMEM on failure (outputs then unset).
+ */
+enum sch_err sch_deck_pack(struct sch_deck_load *ld, const char *text, size_t len, const char **text_out,
+			   const char ***toks);
+
+/* SCH_ERR_INPUT with a message in ld->d when tok looks numeric but is no number; NULL is fine. */
+enum sch_err sch_deck_check_number(struct sch_deck_load *ld, const char *file, long line, const char *tok);
+
+/* A token that can only be a value expression or keyword, not a plain node name. */
+bool sch_deck_is_behavioural(const char *t);
+
+/* Length of name without a binning suffix ".<digits>", or 0 when it has none. */
+size_t sch_deck_binned_base(const char *name);
+
+/*
+ * SCH_ERR_INPUT with a message in ld->d when some current source's node has no DC path,
+ * SCH_ERR_NOMEM when out of memory, else SCH_OK.
+ */
+enum sch_err sch_deck_check_dc_paths(struct sch_deck_load *ld);
 
 /* Adds one ordinary card (an element or a dot card other than include/lib/control/end). */
 enum sch_err sch_deck_load_card(struct sch_deck_load *ld, const char *file, long line,

@@ -263,82 +263,104 @@ static void text_at(cairo_t *cr, double x, double y, const char *s, double align
 }
 
 /* One histogram panel: bars counted, dots Poisson (counts only), line Gaussian. */
-static void draw_panel(cairo_t *cr, double top, const char *title, const char *x_label, const struct hist *h)
+/* One panel's plot area: the box on the page (t to bottom) and the data range it shows. */
+struct frame {
+	double bottom, t;
+	double y_max, x0, x1, bw;
+};
+
+static double frame_x(const struct frame *f, double x)
 {
-	const double bottom = top + PANEL_H - 60, t = top + 24;
-	double y_max = 1, x0, x1, bw;
-	char s[64];
+	return PANEL_L + (x - f->x0) * f->bw;
+}
+
+static double frame_y(const struct frame *f, double y)
+{
+	return f->bottom - y / f->y_max * (f->bottom - f->t);
+}
+
+/* The frame of the panel at top: every bar and curve fits, with 8 % headroom. */
+static struct frame frame_of(const struct hist *h, double top)
+{
+	struct frame f = { .bottom = top + PANEL_H - 60, .t = top + 24, .y_max = 1 };
 
 	for (size_t b = 0; b < h->n; b++) {
-		y_max = fmax(y_max, h->observed[b]);
+		f.y_max = fmax(f.y_max, h->observed[b]);
 		if (isfinite(h->poisson[b]))
-			y_max = fmax(y_max, h->poisson[b]);
-		y_max = fmax(y_max, h->gauss[b]);
+			f.y_max = fmax(f.y_max, h->poisson[b]);
+		f.y_max = fmax(f.y_max, h->gauss[b]);
 	}
-	y_max *= 1.08;
-	x0 = h->integer ? h->lo[0] - 0.5 : h->lo[0];
-	x1 = h->n ? (h->integer ? h->hi[h->n - 1] + 0.5 : h->hi[h->n - 1]) : x0 + 1;
-	if (!(x1 > x0))
-		x1 = x0 + 1;
-	bw = (PANEL_R - PANEL_L) / (x1 - x0);
-#define PX(x) (PANEL_L + ((x)-x0) * bw)
-#define PY(y) (bottom - (y) / y_max * (bottom - t))
-	cairo_set_source_rgb(cr, 0.05, 0.05, 0.05);
-	cairo_select_font_face(cr, FONT, CAIRO_FONT_SLANT_NORMAL, CAIRO_FONT_WEIGHT_BOLD);
-	cairo_set_font_size(cr, 13);
-	text_at(cr, PANEL_L, top + 14, title, 0);
-	cairo_select_font_face(cr, FONT, CAIRO_FONT_SLANT_NORMAL, CAIRO_FONT_WEIGHT_NORMAL);
-	cairo_set_font_size(cr, 11);
+	f.y_max *= 1.08;
+	f.x0 = h->integer ? h->lo[0] - 0.5 : h->lo[0];
+	f.x1 = h->n ? (h->integer ? h->hi[h->n - 1] + 0.5 : h->hi[h->n - 1]) : f.x0 + 1;
+	if (!(f.x1 > f.x0))
+		f.x1 = f.x0 + 1;
+	f.bw = (PANEL_R - PANEL_L) / (f.x1 - f.x0);
+	return f;
+}
+
+/* The observed bars, the Gaussian line and the Poisson dots. */
+static void draw_data(cairo_t *cr, const struct frame *f, const struct hist *h)
+{
 	for (size_t b = 0; b < h->n; b++) {
 		double l = h->integer ? h->lo[b] - 0.5 : h->lo[b], r = h->integer ? h->hi[b] + 0.5 : h->hi[b];
-		cairo_rectangle(cr, PX(l) + 0.5, PY(h->observed[b]), fmax(PX(r) - PX(l) - 1, 0.5),
-				bottom - PY(h->observed[b]));
+		cairo_rectangle(cr, frame_x(f, l) + 0.5, frame_y(f, h->observed[b]),
+				fmax(frame_x(f, r) - frame_x(f, l) - 1, 0.5), f->bottom - frame_y(f, h->observed[b]));
 	}
 	cairo_set_source_rgb(cr, 0.62, 0.76, 0.88);
 	cairo_fill(cr);
 	cairo_set_source_rgb(cr, 0.84, 0.37, 0.00);
 	cairo_set_line_width(cr, 2.0);
 	for (size_t b = 0; b < h->n; b++) {
-		double xc = PX(h->integer ? (h->lo[b] + h->hi[b]) / 2 : (h->lo[b] + h->hi[b]) / 2);
+		double xc = frame_x(f, h->integer ? (h->lo[b] + h->hi[b]) / 2 : (h->lo[b] + h->hi[b]) / 2);
 		if (b == 0)
-			cairo_move_to(cr, xc, PY(h->gauss[b]));
+			cairo_move_to(cr, xc, frame_y(f, h->gauss[b]));
 		else
-			cairo_line_to(cr, xc, PY(h->gauss[b]));
+			cairo_line_to(cr, xc, frame_y(f, h->gauss[b]));
 	}
 	cairo_stroke(cr);
 	cairo_set_source_rgb(cr, 0.0, 0.45, 0.25);
 	for (size_t b = 0; b < h->n; b++) {
 		if (!isfinite(h->poisson[b]))
 			continue;
-		cairo_arc(cr, PX((h->lo[b] + h->hi[b]) / 2), PY(h->poisson[b]), 3.5, 0, 2 * M_PI);
+		cairo_arc(cr, frame_x(f, (h->lo[b] + h->hi[b]) / 2), frame_y(f, h->poisson[b]), 3.5, 0, 2 * M_PI);
 		cairo_fill(cr);
 	}
+}
+
+/* The box, the x ticks (whole counts at bar centres, or five voltages), the y extremes and the x label. */
+static void draw_axes(cairo_t *cr, const struct frame *f, const struct hist *h, const char *x_label)
+{
+	char s[64];
+
 	cairo_set_source_rgb(cr, 0.2, 0.2, 0.2);
 	cairo_set_line_width(cr, 1.0);
-	cairo_rectangle(cr, PANEL_L, t, PANEL_R - PANEL_L, bottom - t);
+	cairo_rectangle(cr, PANEL_L, f->t, PANEL_R - PANEL_L, f->bottom - f->t);
 	cairo_stroke(cr);
 	if (h->integer) {
-		/* ticks on whole counts, at the centres of their bars */
-		double first = x0 + 0.5, last = x1 - 0.5, tick = fmax(1, ceil((last - first) / 6));
+		double first = f->x0 + 0.5, last = f->x1 - 0.5, tick = fmax(1, ceil((last - first) / 6));
 		for (double k = first; k <= last + 1e-9; k += tick) {
 			snprintf(s, sizeof(s), "%.0f", k);
-			cairo_move_to(cr, PX(k), bottom);
-			cairo_line_to(cr, PX(k), bottom + 4);
+			cairo_move_to(cr, frame_x(f, k), f->bottom);
+			cairo_line_to(cr, frame_x(f, k), f->bottom + 4);
 			cairo_stroke(cr);
-			text_at(cr, PX(k), bottom + 16, s, 0.5);
+			text_at(cr, frame_x(f, k), f->bottom + 16, s, 0.5);
 		}
 	} else {
 		for (int i = 0; i <= 4; i++) {
-			double x = x0 + (x1 - x0) * i / 4.0;
+			double x = f->x0 + (f->x1 - f->x0) * i / 4.0;
 			sch_si_format(s, sizeof(s), x, 4, "V");
-			text_at(cr, PX(x), bottom + 16, s, i == 0 ? 0 : i == 4 ? 1 : 0.5);
+			text_at(cr, frame_x(f, x), f->bottom + 16, s, i == 0 ? 0 : i == 4 ? 1 : 0.5);
 		}
 	}
-	snprintf(s, sizeof(s), "%.0f", y_max / 1.08);
-	text_at(cr, PANEL_L - 6, PY(y_max / 1.08) + 4, s, 1);
-	text_at(cr, PANEL_L - 6, bottom + 4, "0", 1);
-	text_at(cr, (PANEL_L + PANEL_R) / 2, bottom + 34, x_label, 0.5);
-	/* legend */
+	snprintf(s, sizeof(s), "%.0f", f->y_max / 1.08);
+	text_at(cr, PANEL_L - 6, frame_y(f, f->y_max / 1.08) + 4, s, 1);
+	text_at(cr, PANEL_L - 6, f->bottom + 4, "0", 1);
+	text_at(cr, (PANEL_L + PANEL_R) / 2, f->bottom + 34, x_label, 0.5);
+}
+
+static void draw_legend(cairo_t *cr, double t, bool integer)
+{
 	cairo_set_source_rgb(cr, 0.62, 0.76, 0.88);
 	cairo_rectangle(cr, PANEL_R + 20, t + 4, 18, 10);
 	cairo_fill(cr);
@@ -351,15 +373,28 @@ static void draw_panel(cairo_t *cr, double top, const char *title, const char *x
 	cairo_set_source_rgb(cr, 0.1, 0.1, 0.1);
 	text_at(cr, PANEL_R + 46, t + 37, "Gaussian, same", 0);
 	text_at(cr, PANEL_R + 46, t + 51, "mean and variance", 0);
-	if (h->integer) {
+	if (integer) {
 		cairo_set_source_rgb(cr, 0.0, 0.45, 0.25);
 		cairo_arc(cr, PANEL_R + 29, t + 70, 3.5, 0, 2 * M_PI);
 		cairo_fill(cr);
 		cairo_set_source_rgb(cr, 0.1, 0.1, 0.1);
 		text_at(cr, PANEL_R + 46, t + 74, "Poisson, N = rate * T", 0);
 	}
-#undef PX
-#undef PY
+}
+
+static void draw_panel(cairo_t *cr, double top, const char *title, const char *x_label, const struct hist *h)
+{
+	const struct frame f = frame_of(h, top);
+
+	cairo_set_source_rgb(cr, 0.05, 0.05, 0.05);
+	cairo_select_font_face(cr, FONT, CAIRO_FONT_SLANT_NORMAL, CAIRO_FONT_WEIGHT_BOLD);
+	cairo_set_font_size(cr, 13);
+	text_at(cr, PANEL_L, top + 14, title, 0);
+	cairo_select_font_face(cr, FONT, CAIRO_FONT_SLANT_NORMAL, CAIRO_FONT_WEIGHT_NORMAL);
+	cairo_set_font_size(cr, 11);
+	draw_data(cr, &f, h);
+	draw_axes(cr, &f, h, x_label);
+	draw_legend(cr, f.t, h->integer);
 }
 
 static enum sch_err draw(cairo_t *cr, const struct sch_arrivals *a)
