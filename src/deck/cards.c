@@ -188,15 +188,20 @@ out:
 	return ret;
 }
 
-static enum sch_err ends_card(struct sch_deck_load *ld, const char *file, long line, const char *text,
-			      const char **t)
+/*
+ * Any card whose keyword starts with ".ends" closes the innermost definition, as in the simulator:
+ * vendor libraries write ".ENDS* OPA-X \"Enhanced\"" or ".ends*". What follows the keyword (a name,
+ * glued text) is never checked, and the card is kept as a plain ".ends", so none of it reaches
+ * the simulator.
+ */
+static enum sch_err ends_card(struct sch_deck_load *ld, const char *file, long line)
 {
 	enum sch_err ret;
 
 	if (ld->n_open == 0)
 		return sch_diag_error(ld->d, SCH_ERR_INPUT, file, line, "'.ends' without '.subckt'");
 	/* The card belongs to the definition it closes, so [card_begin, card_end] share the index. */
-	ret = add_card(ld, file, line, text, t[0], -1);
+	ret = add_card(ld, file, line, ".ends", ".ends", -1);
 	if (ret != SCH_OK)
 		return ret;
 	ld->subckts[ld->open[ld->n_open - 1]].card_end = (int)ld->n_cards - 1;
@@ -308,8 +313,8 @@ static enum sch_err dot_card(struct sch_deck_load *ld, const char *file, long li
 	kw = t[0];
 	if (strcmp(kw, ".subckt") == 0)
 		return subckt_card(ld, file, line, stored, t, n);
-	if (strcmp(kw, ".ends") == 0)
-		return ends_card(ld, file, line, stored, t);
+	if (strncmp(kw, ".ends", 5) == 0)
+		return ends_card(ld, file, line);
 	if (strcmp(kw, ".model") == 0)
 		return model_card(ld, file, line, stored, t, n);
 	if (strcmp(kw, ".noise") == 0)

@@ -1059,6 +1059,26 @@ static void test_deck__quotes_are_short_and_never_from_included_files(void)
 	sch_deck_release(&deck);
 }
 
+/* ---- vendor library syntax (issue 12) ----------------------------------------------------------- */
+
+static void test_deck__ends_with_glued_text_closes_the_subckt(void)
+{
+	struct sch_deck deck;
+
+	CHECK(load_text(&deck, "t\n.subckt amp a b\nr1 a b 1k\n.ENDS* AMP-X \"enhanced\"\n"
+				".subckt clamp a\nr1 a 0 1k\n.ends*\nx1 p q amp\nx2 p clamp\nr2 p 0 1k\n") == SCH_OK);
+	CHECK(deck.n_subckts == 2);
+	if (deck.n_subckts == 2) {
+		CHECK(deck.subckts[0].card_end >= 0 && deck.subckts[1].card_end >= 0);
+		/* the simulator is handed a plain '.ends', none of the glued text */
+		CHECK_STR(deck.cards[deck.subckts[0].card_end].text, ".ends");
+		CHECK_STR(deck.cards[deck.subckts[0].card_end].keyword, ".ends");
+		CHECK_STR(deck.cards[deck.subckts[1].card_end].text, ".ends");
+	}
+	sch_deck_release(&deck);
+	expect_error("t\nr1 a 0 1k\n.ENDS* AMP-X\n", INLINE_NAME ":3: '.ends' without '.subckt'");
+}
+
 CHECK_MAIN(CASE(test_deck__joins_plus_continuation_lines), CASE(test_deck__drops_star_comment_lines),
 	   CASE(test_deck__strips_semicolon_and_dollar_comments),
 	   CASE(test_deck__comment_only_line_does_not_end_a_card), CASE(test_deck__title_is_never_a_card),
@@ -1092,4 +1112,5 @@ CHECK_MAIN(CASE(test_deck__joins_plus_continuation_lines), CASE(test_deck__drops
 	   CASE(test_deck__include_of_a_fifo_fails_at_once),
 	   CASE(test_deck__rejects_noise_output_at_a_node_nothing_touches),
 	   CASE(test_deck__rejects_current_source_without_dc_path),
-	   CASE(test_deck__quotes_are_short_and_never_from_included_files))
+	   CASE(test_deck__quotes_are_short_and_never_from_included_files),
+	   CASE(test_deck__ends_with_glued_text_closes_the_subckt))
