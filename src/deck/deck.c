@@ -275,6 +275,29 @@ static const char *identity(struct sch_arena *a, const char *path)
 }
 
 /*
+ * Length of an included file's text without the DOS end-of-file byte (0x1A, control-Z) that old
+ * vendor model files carry after their last line, with a note; len when there is none. Only blanks
+ * and line ends may follow it. Anywhere else 0x1A stays a control character, which check_text
+ * refuses (in the top netlist too).
+ */
+static size_t without_dos_eof(struct reader *r, const char *path, const char *text, size_t len)
+{
+	size_t n = len;
+	long line = 1;
+
+	while (n && (is_blank(text[n - 1]) || text[n - 1] == '\n'))
+		n--;
+	if (!n || text[n - 1] != 0x1a)
+		return len;
+	while (n && text[n - 1] == 0x1a)
+		n--;
+	for (const char *p = text; (p = memchr(p, '\n', (size_t)(text + n - p))); p++)
+		line++;
+	sch_diag_report(r->ld.d, SCH_NOTE, path, line, "DOS end-of-file byte (0x1a) after the last line: ignored");
+	return n;
+}
+
+/*
  * Reads path (named by the card at inc_file:inc_line) as an include file or, when section is
  * given, for that library section.
  */
@@ -329,6 +352,7 @@ static enum sch_err open_source(struct reader *r, const char *path, const char *
 	}
 	if (ret != SCH_OK)
 		goto out;
+	len = without_dos_eof(r, path, text, len);
 	ret = SCH_ERR_NOMEM;
 	if (note_file(r, path, src.id) != SCH_OK)
 		goto out;

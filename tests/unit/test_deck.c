@@ -1079,6 +1079,76 @@ static void test_deck__ends_with_glued_text_closes_the_subckt(void)
 	expect_error("t\nr1 a 0 1k\n.ENDS* AMP-X\n", INLINE_NAME ":3: '.ends' without '.subckt'");
 }
 
+/* Writes text (len bytes) to dir/name; false when it cannot. */
+static bool put_file(const char *dir, const char *name, const char *text, size_t len)
+{
+	char path[512];
+	FILE *f;
+	bool ok;
+
+	snprintf(path, sizeof(path), "%s/%s", dir, name);
+	if (!(f = fopen(path, "wb")))
+		return false;
+	ok = fwrite(text, 1, len, f) == len;
+	return fclose(f) == 0 && ok;
+}
+
+static void test_deck__dos_eof_byte_ends_an_included_file_only(void)
+{
+	static const char model[] = "* old model file\r\n.model dsense d is=20p\r\n\x1a";
+	static const char middle[] = ".model dmid d is=20p\x1a n=1\n";
+	static const char top[] = "t\n.include old.mod\nd1 a 0 dsense\nr1 a 0 1k\n";
+	static const char top_mid[] = "t\n.include mid.mod\nr1 a 0 1k\n";
+	static const char own[] = "t\nr1 a 0 1k\n\x1a";
+	char dir[] = "/tmp/schrot-deck-eofXXXXXX";
+	char path[512], *notes = NULL;
+	size_t notes_len = 0;
+	struct sch_deck deck;
+	struct sch_diag verbose;
+	FILE *sink;
+
+	CHECK(mkdtemp(dir) != NULL);
+	CHECK(put_file(dir, "old.mod", model, sizeof(model) - 1));
+	CHECK(put_file(dir, "mid.mod", middle, sizeof(middle) - 1));
+	CHECK(put_file(dir, "top.cir", top, strlen(top)));
+	CHECK(put_file(dir, "mid.cir", top_mid, strlen(top_mid)));
+	CHECK(put_file(dir, "own.cir", own, strlen(own)));
+	/* accepted after the last line of an included file, with a note */
+	sink = open_memstream(&notes, &notes_len);
+	CHECK(sink != NULL);
+	sch_deck_init(&deck);
+	sch_diag_init(&verbose, sink, 1);
+	snprintf(path, sizeof(path), "%s/top.cir", dir);
+	CHECK(sch_deck_load(&deck, path, &verbose) == SCH_OK);
+	CHECK(deck.n_models == 1 && deck.n_elements == 2);
+	if (sink)
+		fclose(sink);
+	snprintf(path, sizeof(path), "%s/old.mod:3: note: DOS end-of-file byte (0x1a) after the last line: ignored", dir);
+	CHECK(notes && strstr(notes, path) != NULL);
+	free(notes);
+	sch_deck_release(&deck);
+	/* refused inside a card, and in the netlist itself */
+	sch_deck_init(&deck);
+	sch_diag_init(&diag, NULL, 0);
+	snprintf(path, sizeof(path), "%s/mid.cir", dir);
+	CHECK(sch_deck_load(&deck, path, &diag) == SCH_ERR_INPUT);
+	snprintf(path, sizeof(path), "%s/mid.mod:1: control character 0x1a in the text", dir);
+	CHECK_STR(diag.first_error, path);
+	sch_deck_release(&deck);
+	sch_diag_init(&diag, NULL, 0);
+	snprintf(path, sizeof(path), "%s/own.cir", dir);
+	CHECK(sch_deck_load(&deck, path, &diag) == SCH_ERR_INPUT);
+	snprintf(path, sizeof(path), "%s/own.cir:3: control character 0x1a in the text", dir);
+	CHECK_STR(diag.first_error, path);
+	sch_deck_release(&deck);
+	for (const char *const *f = (const char *const[]){ "old.mod", "mid.mod", "top.cir", "mid.cir", "own.cir", NULL };
+	     *f; f++) {
+		snprintf(path, sizeof(path), "%s/%s", dir, *f);
+		unlink(path);
+	}
+	rmdir(dir);
+}
+
 CHECK_MAIN(CASE(test_deck__joins_plus_continuation_lines), CASE(test_deck__drops_star_comment_lines),
 	   CASE(test_deck__strips_semicolon_and_dollar_comments),
 	   CASE(test_deck__comment_only_line_does_not_end_a_card), CASE(test_deck__title_is_never_a_card),
@@ -1113,4 +1183,5 @@ CHECK_MAIN(CASE(test_deck__joins_plus_continuation_lines), CASE(test_deck__drops
 	   CASE(test_deck__rejects_noise_output_at_a_node_nothing_touches),
 	   CASE(test_deck__rejects_current_source_without_dc_path),
 	   CASE(test_deck__quotes_are_short_and_never_from_included_files),
-	   CASE(test_deck__ends_with_glued_text_closes_the_subckt))
+	   CASE(test_deck__ends_with_glued_text_closes_the_subckt),
+	   CASE(test_deck__dos_eof_byte_ends_an_included_file_only))
