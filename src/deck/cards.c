@@ -67,8 +67,8 @@ static enum sch_err check_element(struct sch_deck_load *ld, const char *file, lo
 		return n < 4 ? too_few(ld, file, line, e->name, "3 nodes and a model") : SCH_OK;
 	case 'j':
 		return n < 4 ? too_few(ld, file, line, e->name, "3 nodes and a model") : SCH_OK;
-	case 'm':
-		return n < 5 ? too_few(ld, file, line, e->name, "4 nodes and a model") : SCH_OK;
+	case 'm': /* 3 nodes only with a vdmos model: decided once every model is known */
+		return n < 4 ? too_few(ld, file, line, e->name, "4 nodes and a model") : SCH_OK;
 	case 'i':
 	case 'v':
 		if (n < 2)
@@ -136,6 +136,7 @@ static enum sch_err element_card(struct sch_deck_load *ld, const char *file, lon
 	e->n_tok = (int)ld->n_tok - 1;
 	e->card = (int)ld->n_cards;
 	e->subckt = ld->n_open ? ld->open[ld->n_open - 1] : -1;
+	e->n_nodes = 0;
 	if (check_element(ld, file, line, e) != SCH_OK)
 		return SCH_ERR_INPUT;
 	ld->n_elements++;
@@ -209,6 +210,30 @@ static enum sch_err ends_card(struct sch_deck_load *ld, const char *file, long l
 	return SCH_OK;
 }
 
+/*
+ * The level of a .model card as the simulator reads it (ngspice 39 INPfindLev): the first "level"
+ * after the model's name, then blanks, '=', ',', '(', ')' or '+', then a number rounded to the
+ * nearest integer; 1 without one or when it is out of 0..99.
+ */
+static int model_level(const char **t, size_t n)
+{
+	for (size_t i = 2; i < n; i++) {
+		const char *p = strstr(t[i], "level");
+		double v;
+		char *end;
+
+		if (!p)
+			continue;
+		p += strlen("level");
+		p += strspn(p, " \t=,()+");
+		if (!*p && i + 1 < n)
+			p = t[i + 1] + strspn(t[i + 1], " \t=,()+");
+		v = strtod(p, &end);
+		return end == p || !(v >= -0.5 && v < 99.5) ? 1 : (int)(v + 0.5);
+	}
+	return 1;
+}
+
 static enum sch_err model_card(struct sch_deck_load *ld, const char *file, long line, const char *text,
 			       const char **t, size_t n)
 {
@@ -225,6 +250,7 @@ static enum sch_err model_card(struct sch_deck_load *ld, const char *file, long 
 	m->type = sch_arena_strndup(&ld->deck->arena, t[2], type_len);
 	if (!m->type)
 		return SCH_ERR_NOMEM;
+	m->level = model_level(t, n);
 	m->card = (int)ld->n_cards;
 	m->subckt = ld->n_open ? ld->open[ld->n_open - 1] : -1;
 	ld->n_models++;

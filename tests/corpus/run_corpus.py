@@ -250,6 +250,7 @@ def main():
     ap.add_argument("--figures-only", action="store_true",
                     help="print the figures, never fail (for measuring a build)")
     args = ap.parse_args()
+    args.schrot = os.path.abspath(args.schrot)
 
     manifest = json.load(open(MANIFEST)) if os.path.exists(MANIFEST) else {"decks": {}}
     decks = manifest["decks"]

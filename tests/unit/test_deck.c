@@ -1149,6 +1149,43 @@ static void test_deck__dos_eof_byte_ends_an_included_file_only(void)
 	rmdir(dir);
 }
 
+static void test_deck__node_counts_follow_the_model_type_and_keywords(void)
+{
+	static const struct {
+		const char *name;
+		int n;
+	} want[] = {
+		{ "m1", 3 }, { "m2", 5 }, { "m3", 4 }, { "m4", 6 }, { "q1", 5 }, { "q2", 4 }, { "q3", 4 },
+		{ "q4", 3 }, { "q5", 5 }, { "d1", 3 }, { "d2", 2 }, { "d3", 3 },
+	};
+	struct sch_deck deck;
+	const char *const *nodes;
+
+	CHECK(load_text(&deck, "nodes\n.model pwr-n1 vdmos nchan vto=2\n.model nm nmos level=1\n"
+				".model soi nmos level=10\n.model qv npn level=4 rth=300\n.model qv9 pnp(level=9)\n"
+				".model qh npn level = 8\n.model qg npn\n.model dm d is=1e-14 rth0=500\n"
+				"m1 d g s pwr-n1\nm2 d g s tj tc pwr-n1 thermal\nm3 d g s b nm w=1u\n"
+				"m4 d g s e p b soi\nq1 c b e s dt qv area=1\nq2 c b e s qv9\nq3 c b e s qg\n"
+				"q4 c b e qg 2\nq5 c b e 0 0 qh\nd1 a k tj dm thermal\nd2 a k dm 2\nd3 a k tj dm\n") == SCH_OK);
+	for (size_t i = 0; i < sizeof(want) / sizeof(want[0]); i++) {
+		const struct sch_element *e = element(&deck, want[i].name);
+		int got = e ? sch_deck_element_nodes(&deck, e, &nodes) : -1;
+
+		if (got != want[i].n)
+			fprintf(stderr, "  %s: %d nodes, want %d\n", want[i].name, got, want[i].n);
+		CHECK(got == want[i].n);
+	}
+	sch_deck_release(&deck);
+	/* three nodes are a vdmos model's privilege; five a VBIC's or HICUM's */
+	expect_error("t\nm1 d g s nm\n.model nm nmos\n", INLINE_NAME ":2: too few fields for 'm1': needs 4 nodes and a model");
+	expect_error("t\nq1 c b e s dt qg\n.model qg npn\n",
+		     INLINE_NAME ":2: 'q1' connects 5 nodes but its npn model (level 1) takes at most 4");
+	/* the missing model is named, not the thermal node before it */
+	expect_error("t\nd1 a k tj dmiss thermal\n", INLINE_NAME ":2: model 'dmiss' is not defined");
+	expect_error("t\nq1 c b e s dt qmiss area=1\n", INLINE_NAME ":2: model 'qmiss' is not defined");
+	expect_error("t\nm1 d g s irf-x\n", INLINE_NAME ":2: model 'irf-x' is not defined");
+}
+
 CHECK_MAIN(CASE(test_deck__joins_plus_continuation_lines), CASE(test_deck__drops_star_comment_lines),
 	   CASE(test_deck__strips_semicolon_and_dollar_comments),
 	   CASE(test_deck__comment_only_line_does_not_end_a_card), CASE(test_deck__title_is_never_a_card),
@@ -1184,4 +1221,5 @@ CHECK_MAIN(CASE(test_deck__joins_plus_continuation_lines), CASE(test_deck__drops
 	   CASE(test_deck__rejects_current_source_without_dc_path),
 	   CASE(test_deck__quotes_are_short_and_never_from_included_files),
 	   CASE(test_deck__ends_with_glued_text_closes_the_subckt),
-	   CASE(test_deck__dos_eof_byte_ends_an_included_file_only))
+	   CASE(test_deck__dos_eof_byte_ends_an_included_file_only),
+	   CASE(test_deck__node_counts_follow_the_model_type_and_keywords))
