@@ -1186,6 +1186,16 @@ static void test_deck__node_counts_follow_the_model_type_and_keywords(void)
 	expect_error("t\nm1 d g s irf-x\n", INLINE_NAME ":2: model 'irf-x' is not defined");
 }
 
+static void test_deck__script_title_without_a_circuit_is_bad_input(void)
+{
+	expect_error("*ng_script light-sensor batch run\n",
+		     INLINE_NAME ":1: a '*ng_script' title and no circuit: the file is a simulator script, not a netlist");
+	expect_error("*NG_SCRIPT\n.control\nsource other.cir\nrun\n.endc\n.end\n",
+		     INLINE_NAME ":1: a '*ng_script' title and no circuit: the file is a simulator script, not a netlist");
+	expect_error("\n*ng_script after a blank title\n.param a=1\n",
+		     INLINE_NAME ":2: a '*ng_script' title and no circuit: the file is a simulator script, not a netlist");
+}
+
 CHECK_MAIN(CASE(test_deck__joins_plus_continuation_lines), CASE(test_deck__drops_star_comment_lines),
 	   CASE(test_deck__strips_semicolon_and_dollar_comments),
 	   CASE(test_deck__comment_only_line_does_not_end_a_card), CASE(test_deck__title_is_never_a_card),
@@ -1222,4 +1232,5 @@ CHECK_MAIN(CASE(test_deck__joins_plus_continuation_lines), CASE(test_deck__drops
 	   CASE(test_deck__quotes_are_short_and_never_from_included_files),
 	   CASE(test_deck__ends_with_glued_text_closes_the_subckt),
 	   CASE(test_deck__dos_eof_byte_ends_an_included_file_only),
-	   CASE(test_deck__node_counts_follow_the_model_type_and_keywords))
+	   CASE(test_deck__node_counts_follow_the_model_type_and_keywords),
+	   CASE(test_deck__script_title_without_a_circuit_is_bad_input))
