@@ -209,8 +209,16 @@ def run_deck(schrot, deck, entry):
     return result
 
 
+def sanitizer_report(r):
+    return any(w in r.get(k, "") for k in ("carriers_err", "report_err")
+               for w in ("Sanitizer", "runtime error:"))
+
+
 def outcome(entry, r):
-    """'reads', 'reports', 'refused' (exit 2 or 3) or 'failed' (signal, time-out, other code)."""
+    """'reads', 'reports', 'refused' (exit 2 or 3) or 'failed' (signal, time-out, other code, or a
+    sanitizer's report in a sanitizer build)."""
+    if sanitizer_report(r):
+        return "failed"
     if r["carriers_rc"] == 0:
         if entry.get("has_noise"):
             return "reports" if r["report_rc"] == 0 else "reads"
@@ -308,14 +316,19 @@ def main():
                  pct(sum(d in report_ok for d in n), len(n))))
     refusals = [d for d in readable if decks[d].get("expected", "").startswith("refused")]
     if refusals:
-        print("deliberate refusals among the decks ngspice reads (counted above as not read): %d"
-              % len(refusals))
+        public = [d for d in readable if d.startswith("ngspice/") and d not in refusals]
+        print("deliberate refusals among the decks ngspice reads (counted above as not read): %d; "
+              "public decks without them: schrot reads %s"
+              % (len(refusals), pct(sum(d in read_ok for d in public), len(public))))
     failures = [d for d in readable if d not in read_ok or (d in noisy and d not in report_ok)]
     if failures:
         print("not read or not reported, though plain ngspice reads them:")
         for d in failures:
             print("  %s: %s" % (d, first_message(decks[d], results[d])))
 
+    unlisted = [d for d in discover() if d not in decks]
+    if unlisted:
+        print("decks not in the manifest (run --record): %s" % ", ".join(unlisted))
     mismatches, pending, pending_now_ok = [], [], []
     for d in names:
         e, r = decks[d], results[d]
@@ -345,7 +358,7 @@ def main():
                                                      else "report exit 0"))
     else:
         print("every deck's outcome matches the manifest")
-    return 0 if args.figures_only or not mismatches else 1
+    return 0 if args.figures_only or not (mismatches or unlisted) else 1
 
 
 if __name__ == "__main__":
