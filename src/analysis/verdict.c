@@ -1,0 +1,130 @@
+/* SPDX-License-Identifier: BSD-3-Clause */
+/*
+ * verdict.c - what a result says once its rows are ranked: the device that leads besides the
+ * added carriers, the carriers' ratio to the rest, and the notes that close the run.
+ */
+#include <math.h>
+#include <stdio.h>
+#include <string.h>
+#include "analysis_int.h"
+#include "schrot/physics.h"
+
+/* From this many resistor instances on, a report without --lump says that --lump exists. */
+#define SCH_LUMP_HINT_RESISTORS 2000
+
+/*
+ * The device that leads the noise besides the added carrier shot noise: rows netted per device
+ * (a correction row counts against the row it corrects), the device's largest row named.
+ */
+static enum sch_err lead_other(struct sch_result *res, double total)
+{
+	struct sch_strmap devices;
+	double *sum = sch_arena_alloc(&res->arena, (res->n_contributions + 1) * sizeof(double));
+	int *first = sch_arena_alloc(&res->arena, (res->n_contributions + 1) * sizeof(int));
+	int n_dev = 0, best = -1;
+	enum sch_err ret = SCH_ERR_NOMEM;
+
+	sch_strmap_init(&devices);
+	res->dominant_other = NULL;
+	res->dominant_other_share = NAN;
+	if (!sum || !first)
+		goto out;
+	for (size_t c = 0; c < res->n_contributions; c++) {
+		const struct sch_contribution *ct = &res->contributions[c];
+		int k;
+		if (ct->origin == SCH_ORIGIN_ADDED)
+			continue;
+		k = sch_strmap_get(&devices, ct->device, strlen(ct->device));
+		if (k < 0) {
+			k = n_dev++;
+			if (sch_strmap_put(&devices, ct->device, strlen(ct->device), k) != SCH_OK)
+				goto out;
+			first[k] = (int)c; /* sorted by band power: the device's largest row */
+			sum[k] = 0;
+		}
+		sum[k] += ct->band_power;
+	}
+	for (int k = 0; k < n_dev; k++) {
+		if (sum[k] > 0 && (best < 0 || sum[k] > sum[best]))
+			best = k;
+	}
+	if (best >= 0) {
+		res->dominant_other = &res->contributions[first[best]];
+		res->dominant_other_share = total != 0 ? sum[best] / total : NAN;
+	}
+	ret = SCH_OK;
+out:
+	sch_strmap_release(&devices);
+	return ret;
+}
+
+enum sch_err sch_analysis_verdict(struct sch_result *res)
+{
+	double total = res->total_power_v2;
+
+	if (lead_other(res, total) != SCH_OK)
+		return SCH_ERR_NOMEM;
+	res->shot_to_rest = NAN;
+	if (res->set.n_carriers && total - res->carrier_power_v2 > 0)
+		res->shot_to_rest = res->carrier_power_v2 / (total - res->carrier_power_v2);
+	return SCH_OK;
+}
+
+/* A single report without --lump over many resistors says that --lump exists. */
+static enum sch_err note_lump_hint(struct sch_analysis *an)
+{
+	struct sch_result *res = an->res;
+	size_t n_res = 0;
+
+	if (an->opt->mode != SCH_RUN_REPORT || an->vary || an->lump.quiet)
+		return SCH_OK;
+	for (size_t k = 0; k < res->set.n_instances; k++)
+		n_res += res->deck.elements[res->set.instances[k].element].letter == 'r';
+	if (n_res < SCH_LUMP_HINT_RESISTORS)
+		return SCH_OK;
+	return sch_analysis_note(an, sch_arena_printf(&res->arena, "%zu resistors, one row each: --lump REGEX reports "
+								   "matching ones (extracted parasitics) as one row, "
+								   "and much faster",
+						      n_res));
+}
+
+/* The DC current sources given no shot noise, the first few by name and current. */
+static enum sch_err note_noiseless(struct sch_analysis *an)
+{
+	const struct sch_carrier_set *set = &an->res->set;
+	char list[400] = "";
+	size_t shown = 0;
+
+	if (!set->n_noiseless)
+		return SCH_OK;
+	for (size_t k = 0; k < set->n_noiseless && strlen(list) < sizeof(list) - 80; k++, shown++)
+		snprintf(list + strlen(list), sizeof(list) - strlen(list), "%s%s (%.3g A)", k ? ", " : "",
+			 set->noiseless[k].name, set->noiseless[k].dc_current_a);
+	return sch_analysis_note(an, sch_arena_printf(&an->res->arena,
+						      "noiseless DC current sources, given no shot noise: %s%s "
+						      "(name them with --carrier if they carry shot noise)",
+						      list, shown < set->n_noiseless ? ", ..." : ""));
+}
+
+/* How the added generators were sized. */
+static enum sch_err note_constants(struct sch_analysis *an)
+{
+	struct sch_result *res = an->res;
+
+	if (!res->set.n_carriers)
+		return SCH_OK;
+	return sch_analysis_note(an, sch_arena_printf(&res->arena,
+						      "added generators sized 2q|I|G with the exact SI 2019 q = %.10g C "
+						      "at the circuit temperature %.2f K",
+						      SCH_Q, res->temp_k));
+}
+
+enum sch_err sch_analysis_closing_notes(struct sch_analysis *an)
+{
+	enum sch_err ret;
+
+	if ((ret = note_lump_hint(an)) != SCH_OK || (ret = note_noiseless(an)) != SCH_OK ||
+	    (ret = note_constants(an)) != SCH_OK)
+		return ret;
+	return SCH_OK;
+}
