@@ -203,28 +203,64 @@ static void where(char *buf, size_t size, const struct sch_control_scan *cs, con
 		snprintf(buf, size, "%s:%ld", file, line);
 }
 
-/* Appends the group of skipped commands before (after_noise false) or after the noise command to b. */
+/* Lines of one command word a note shows; the rest are counted. */
+#define CONTROL_LINES_MAX 4
+
+/* Whether skipped item j is the first of its word and file within its group. */
+static bool first_of_word(const struct sch_control_scan *cs, size_t j)
+{
+	const struct sch_control_skip *s = &cs->skipped[j];
+
+	for (size_t i = 0; i < j; i++) {
+		const struct sch_control_skip *o = &cs->skipped[i];
+		if (o->after_noise == s->after_noise && o->file == s->file && strcmp(o->word, s->word) == 0)
+			return false;
+	}
+	return true;
+}
+
+/* Appends "'word' (lines a, b)" for the word and file of skipped item j, all its lines in the group. */
+static enum sch_err list_word(struct sch_buf *b, const struct sch_control_scan *cs, size_t j)
+{
+	const struct sch_control_skip *s = &cs->skipped[j];
+	size_t n = 0;
+	enum sch_err ret = SCH_OK;
+
+	for (size_t i = j; i < cs->n_skipped; i++)
+		n += cs->skipped[i].after_noise == s->after_noise && cs->skipped[i].file == s->file &&
+		     strcmp(cs->skipped[i].word, s->word) == 0;
+	if (s->file == cs->noise_file)
+		ret = sch_buf_printf(b, "%s (line%s", s->word, n > 1 ? "s" : "");
+	else
+		ret = sch_buf_printf(b, "%s (%s:", s->word, s->file);
+	for (size_t i = j, k = 0; ret == SCH_OK && i < cs->n_skipped && k < CONTROL_LINES_MAX; i++) {
+		const struct sch_control_skip *o = &cs->skipped[i];
+		if (o->after_noise == s->after_noise && o->file == s->file && strcmp(o->word, s->word) == 0)
+			ret = sch_buf_printf(b, "%s%ld", k++ ? ", " : (s->file == cs->noise_file ? " " : ""), o->line);
+	}
+	if (ret == SCH_OK && n > CONTROL_LINES_MAX)
+		ret = sch_buf_printf(b, ", ... %zu in all", n);
+	return ret == SCH_OK ? sch_buf_adds(b, ")") : ret;
+}
+
+/*
+ * Appends the skipped commands before (after_noise false) or after the noise command to b, one
+ * entry per command word with its lines, the first CONTROL_LIST_MAX words by first appearance.
+ */
 static enum sch_err list_group(struct sch_buf *b, const struct sch_control_scan *cs, bool after_noise)
 {
-	size_t shown = 0, total = 0;
-	char at[300], item[400];
+	size_t shown = 0, words = 0;
 
 	for (size_t i = 0; i < cs->n_skipped; i++) {
-		const struct sch_control_skip *s = &cs->skipped[i];
-		if (s->after_noise != after_noise)
+		if (cs->skipped[i].after_noise != after_noise || !first_of_word(cs, i))
 			continue;
-		if (total++ >= CONTROL_LIST_MAX)
+		if (words++ >= CONTROL_LIST_MAX)
 			continue;
-		where(at, sizeof(at), cs, s->file, s->line);
-		snprintf(item, sizeof(item), "%s%s (%s)", shown++ ? "," : "", s->word, at);
-		if (sch_buf_add(b, item, strlen(item)) != SCH_OK)
+		if ((shown++ && sch_buf_adds(b, ",") != SCH_OK) || list_word(b, cs, i) != SCH_OK)
 			return SCH_ERR_NOMEM;
 	}
-	if (total > shown) {
-		snprintf(item, sizeof(item), " and %zu more", total - shown);
-		if (sch_buf_add(b, item, strlen(item)) != SCH_OK)
-			return SCH_ERR_NOMEM;
-	}
+	if (words > shown && sch_buf_printf(b, " and %zu other command%s", words - shown, words - shown > 1 ? "s" : "") != SCH_OK)
+		return SCH_ERR_NOMEM;
 	return SCH_OK;
 }
 
@@ -244,7 +280,7 @@ static enum sch_err skipped_note(struct sch_deck_load *ld, const char **note)
 	size_t before = count_group(cs, false), after = count_group(cs, true);
 	struct sch_buf b;
 	enum sch_err ret = SCH_ERR_NOMEM;
-	static const char head[] = "not honoured from '.control' (never run, may change the result):";
+	static const char head[] = "not honoured from '.control' (never run):";
 
 	*note = NULL;
 	if (!before && !after)
@@ -252,11 +288,13 @@ static enum sch_err skipped_note(struct sch_deck_load *ld, const char **note)
 	sch_buf_init(&b, 1 << 16);
 	if (sch_buf_add(&b, head, strlen(head)) != SCH_OK)
 		goto out;
-	if (before && (list_group(&b, cs, false) != SCH_OK || sch_buf_adds(&b, " before the noise command") != SCH_OK))
+	if (before && (sch_buf_adds(&b, " before the noise command, where they may change its result:") != SCH_OK ||
+		       list_group(&b, cs, false) != SCH_OK))
 		goto out;
 	if (before && after && sch_buf_adds(&b, ";") != SCH_OK)
 		goto out;
-	if (after && (list_group(&b, cs, true) != SCH_OK || sch_buf_adds(&b, " after it") != SCH_OK))
+	if (after && (sch_buf_adds(&b, before ? " after it:" : " after the noise command:") != SCH_OK ||
+		      list_group(&b, cs, true) != SCH_OK))
 		goto out;
 	if (!(*note = sch_arena_strndup(&ld->deck->arena, b.data, b.len)))
 		goto out;

@@ -56,7 +56,8 @@ if card and ctl:
     true("[C1] the notes say where the noise analysis came from",
          any("read from the '.control' block at" in n and "card.cir:11" in n for n in ctl["notes"]))
     true("[C1] the notes list the output commands as not honoured",
-         any("'print' (line 13), 'setplot' (line 14), 'plot' (line 15) after it" in n for n in ctl["notes"]))
+         any("after the noise command: 'print' (line 13), 'setplot' (line 14), 'plot' (line 15)" in n
+             for n in ctl["notes"]))
 
 
 # Spot run: a photocurrent into a resistor at 300 K, one frequency.

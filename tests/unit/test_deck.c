@@ -535,14 +535,14 @@ static void test_deck__honours_op_and_temperature_before_the_noise_command(void)
 	CHECK(temp->line == 8);
 	CHECK(note_has(&deck, "its op (line 7)"));
 	CHECK(note_has(&deck, "applied as '.temp 60'"));
-	CHECK(note_has(&deck, "'set' (line 10) after it"));
+	CHECK(note_has(&deck, "after the noise command: 'set' (line 10)"));
 	sch_deck_release(&deck);
 
 	/* '.temp' inside a block is no command of the simulator: not honoured */
 	CHECK(load_text(&deck, "t\niph a 0 dc 1n\nr1 a 0 1k\n.control\n.temp 80\nnoise v(a) iph dec 1 1k 1k\n.endc\n") ==
 	      SCH_OK);
 	CHECK(card_with(&deck, ".temp") == NULL);
-	CHECK(note_has(&deck, "'.temp' (line 5) before the noise command"));
+	CHECK(note_has(&deck, "before the noise command, where they may change its result: '.temp' (line 5)"));
 	sch_deck_release(&deck);
 }
 
@@ -553,14 +553,15 @@ static void test_deck__lists_what_the_block_does_not_honour(void)
 	CHECK(load_text(&deck, "t\niph a 0 dc 1n\nr1 a 0 1k\n.control\nalter r1 2k\nlet x = 3\n"
 			       "foreach v 1 2\nnoise v(a) iph dec 10 1 1k\nend\nac dec 10 1 1k\n"
 			       "noise v(a) iph dec 10 1 1k\nnoise v(a) iph dec 20 1 10k\nshell touch pwn\nplot onoise_spectrum\n"
-			       ".endc\n") == SCH_OK);
+			       "print a\nprint b\n.endc\n") == SCH_OK);
 	/* the noise command inside the loop is not the analysis: the first one outside it is */
 	CHECK(deck.noise.from_control);
 	CHECK(deck.cards[deck.noise.card].line == 11);
 	CHECK(deck.n_notes == 2);
-	CHECK_STR(deck.notes[1], "not honoured from '.control' (never run, may change the result): 'alter' (line 5), "
-				 "'let' (line 6), 'foreach' (line 7), 'noise' (line 8), 'ac' (line 10) before the noise "
-				 "command; 'noise' (line 12), 'shell' (line 13), 'plot' (line 14) after it");
+	CHECK_STR(deck.notes[1], "not honoured from '.control' (never run): before the noise command, where they may "
+				 "change its result: 'alter' (line 5), 'let' (line 6), 'foreach' (line 7), 'noise' (line 8), "
+				 "'ac' (line 10); after it: 'noise' (line 12), 'shell' (line 13), 'plot' (line 14), "
+				 "'print' (lines 15, 16)");
 	sch_deck_release(&deck);
 }
 
