@@ -609,6 +609,13 @@ static void test_deck__reads_a_control_noise_command_from_an_included_file(void)
 	sch_deck_release(&deck);
 }
 
+static void test_deck__a_control_noise_output_must_be_a_node(void)
+{
+	expect_error("t\niph a 0 dc 1n\nr1 a 0 1k\n.control\nnoise v(nonode) iph dec 10 1 1k\n.endc\n",
+		     INLINE_NAME ":5: the '.control' noise command's output node 'nonode' is not a node of any element "
+				 "at the top level");
+}
+
 static void test_deck__a_spot_noise_command_is_read(void)
 {
 	struct sch_deck deck;
@@ -1397,6 +1404,7 @@ CHECK_MAIN(CASE(test_deck__joins_plus_continuation_lines), CASE(test_deck__drops
 	   CASE(test_deck__never_takes_a_noise_command_with_odd_tokens),
 	   CASE(test_deck__reads_a_control_noise_command_from_an_included_file),
 	   CASE(test_deck__a_spot_noise_command_is_read),
+	   CASE(test_deck__a_control_noise_output_must_be_a_node),
 	   CASE(test_deck__ends_with_glued_text_closes_the_subckt),
 	   CASE(test_deck__dos_eof_byte_ends_an_included_file_only),
 	   CASE(test_deck__node_counts_follow_the_model_type_and_keywords),
