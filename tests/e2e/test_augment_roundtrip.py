@@ -10,10 +10,9 @@ import json
 import os
 import re
 import shutil
-import struct
 import subprocess
 import tempfile
-from schrot_check import SCHROT, close, true, finish
+from schrot_check import SCHROT, close, true, finish, read_raw
 
 # Two instances of one photodiode cell at different photocurrents, a top-level dark current, and a
 # pair of cells in series inside a second subcircuit (a port node and an internal node, two levels
@@ -49,37 +48,6 @@ rload out 0 10k noisy=0
 
 def schrot(*args):
     return subprocess.run([SCHROT] + list(args), capture_output=True, text=True, timeout=300)
-
-
-def read_raw(path):
-    """The plots of an ngspice binary raw file: [(plotname, {vector: [values]})] (real or complex)."""
-    data = open(path, "rb").read()
-    plots, pos = [], 0
-    while pos < len(data):
-        head, names = {}, []
-        while True:
-            end = data.index(b"\n", pos)
-            line = data[pos:end].decode("latin-1")
-            pos = end + 1
-            if line.startswith("Binary:"):
-                break
-            if line.startswith("\t") and "Variables" in head:
-                names.append(line.split("\t")[2])
-                continue
-            key, _, value = line.partition(":")
-            head[key.strip()] = value.strip()
-        cplx = "complex" in head.get("Flags", "")
-        vals = {n: [] for n in names}
-        for _ in range(int(head["No. Points"])):
-            for n in names:
-                if cplx:
-                    vals[n].append(complex(*struct.unpack_from("<dd", data, pos)))
-                    pos += 16
-                else:
-                    vals[n].append(struct.unpack_from("<d", data, pos)[0])
-                    pos += 8
-        plots.append((head.get("Plotname", ""), vals))
-    return plots
 
 
 def plain_ngspice(deck, cwd):
