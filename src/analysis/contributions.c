@@ -536,11 +536,15 @@ enum sch_err sch_analysis_time_source_notes(struct sch_analysis *an)
 	const struct sch_carrier_set *set = &an->res->set;
 
 	for (size_t k = 0; k < set->n_carriers; k++) {
-		const struct sch_carrier *c = &set->carriers[k];
+		struct sch_carrier *c = &an->res->set.carriers[k];
 		char cur[64];
 		if (!c->time_function)
 			continue;
 		sch_si_format(cur, sizeof(cur), c->dc_current_a, 3, "A");
+		/* the carrier list says it too (not in a sweep, whose points' strings do not outlive them) */
+		if (!an->vary && !(c->reason = sch_arena_printf(&an->res->arena, "%s; %s source, sized at its DC operating "
+										  "point", c->reason, c->time_function)))
+			return SCH_ERR_NOMEM;
 		if (sch_analysis_note(an, sch_arena_printf(&an->res->arena,
 							   "%s is a %s source: its shot noise is sized from its DC "
 							   "operating-point current %s (the function's value at t = 0)",

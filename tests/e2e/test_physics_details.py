@@ -86,6 +86,10 @@ true("[S1] the PULSE carrier's note names the operating-point current used",
      "iph is a PULSE source: its shot noise is sized from its DC operating-point current 0 A" in out, out)
 true("[S1] ... and a zero current is warned about", "warning: carrier iph is a PULSE source with no current" in err, err)
 if data:
+    reasons = {c["name"]: c["reason"] for c in data["carriers"]}
+    true("[S1] the carrier list says each time-function carrier is sized at its DC operating point",
+         reasons.get("iph", "").endswith("PULSE source, sized at its DC operating point") and
+         reasons.get("iled", "").endswith("SIN source, sized at its DC operating point"), reasons)
     close("[S1] the SIN carrier is sized from its 100 nA offset", data["spot"][0]["output_v_per_rthz"],
           math.sqrt(2 * Q * 100e-9) * 1e5, 1e-6)
 
