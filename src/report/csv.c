@@ -115,7 +115,7 @@ enum sch_err sch_report_spectrum(const struct sch_result *r, const char *path, i
 		fputc(',', fp);
 		put_field(fp, head);
 	}
-	fputs(",rest [V/rtHz]\n", fp);
+	fprintf(fp, ",rest [V/rtHz],transfer [%s]\n", sch_report_transfer_unit(r));
 	for (size_t k = 0; k < r->n_freq; k++) {
 		double sum = 0;
 		put_num(fp, r->freq_hz[k]);
@@ -129,6 +129,8 @@ enum sch_err sch_report_spectrum(const struct sch_result *r, const char *path, i
 		}
 		fputc(',', fp);
 		put_num(fp, sqrt(fabs(r->total_psd[k] - sum)));
+		fputc(',', fp);
+		put_num(fp, sqrt(r->gain2[k]));
 		fputs("\n", fp);
 	}
 	return finish(&o, "spectrum CSV", d);

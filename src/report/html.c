@@ -147,7 +147,10 @@ static void figure(struct page *b, const char *value, const char *what)
 	elem(b, "<span>", what, "</span></div>\n");
 }
 
-/* At most six figures: the totals, NEP and SNR, the first spot (the spot table has the rest), the shot share. */
+/*
+ * At most eight figures: the totals, the transfer and its bandwidth, NEP and SNR, the first spot
+ * (the spot table has the rest), the shot share.
+ */
 static void headline(struct page *b, const struct sch_result *r)
 {
 	char v[96], u[32], x[48], q[64], y[160];
@@ -159,6 +162,15 @@ static void headline(struct page *b, const struct sch_result *r)
 	figure(b, v, "output noise in the band");
 	snprintf(v, sizeof(v), "%s rms", si(x, sizeof(x), r->input_rms, unit));
 	figure(b, v, "input-referred noise");
+	{
+		char t[96];
+		snprintf(y, sizeof(y), "%s at %s", r->input_unit && strcmp(r->input_unit, "A") == 0 ? "transimpedance" : "transfer",
+			 si(x, sizeof(x), r->transfer.ref_hz, "Hz"));
+		figure(b, sch_report_transfer_value(r, t, sizeof(t)), y);
+		snprintf(y, sizeof(y), "-3 dB bandwidth; noise-equivalent %s over the band",
+			 si(x, sizeof(x), r->transfer.enbw_hz, "Hz"));
+		figure(b, si(v, sizeof(v), r->transfer.f_high_hz, "Hz"), y);
+	}
 	if (!isnan(r->nep_band_w_per_rthz)) {
 		snprintf(y, sizeof(y), "band-average NEP at %.4g A/W", r->responsivity_a_per_w);
 		figure(b, si(v, sizeof(v), r->nep_band_w_per_rthz, "W/√Hz"), y);
@@ -248,7 +260,7 @@ static void plot(struct page *b, const struct sch_result *r)
 	const char *start;
 
 	sch_buf_init(&svg, SCH_REPORT_MAX_BYTES);
-	adds(b, "<h2>Output noise density</h2>\n");
+	adds(b, "<h2>Output noise density and transfer</h2>\n");
 	if (sch_report_plot_svg(r, &svg) != SCH_OK || !svg.data || !(start = strstr(svg.data, "<svg"))) {
 		adds(b, "<p>No plot: the spectrum has no positive density to draw.</p>\n");
 		goto out;
@@ -360,6 +372,7 @@ static enum sch_err build_page(struct page *b, const struct sch_result *r)
 		elem(b, "<p class=\"sub\">", line, "</p>\n");
 		headline(b, r);
 		elem(b, "<p class=\"verdict\"><b>Verdict:</b> ", sch_report_verdict(r, line, sizeof(line)), "</p>\n");
+		elem(b, "<p>Transfer: ", sch_report_bandwidth_text(r, line, sizeof(line)), "</p>\n");
 		spot_table(b, r);
 		contribution_table(b, r);
 		plot(b, r);

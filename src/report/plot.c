@@ -16,11 +16,15 @@
 #include "report_int.h"
 
 #define PLOT_W 960.0
-#define PLOT_H 560.0
-#define AREA_L 92.0
+#define AREA_L 104.0
 #define AREA_T 70.0
 #define AREA_R (PLOT_W - 262.0)
-#define AREA_B (PLOT_H - 62.0)
+#define AREA_B 498.0
+/* the transfer's panel under the noise panel, on the same frequency axis */
+#define TF_T (AREA_B + 52.0)
+#define TF_B (TF_T + 150.0)
+#define PLOT_H (TF_B + 62.0)
+#define TF_DECADES 6
 #define MAX_DECADES_Y 7
 #define FONT "DejaVu Sans"
 
@@ -109,18 +113,18 @@ static bool pick_axes(const struct sch_result *r, size_t top, struct axes *ax)
 	return true;
 }
 
-/* "100 n", "1 k", "10 M": a decade's value with an SI prefix and no unit. */
-static void decade_label(char *out, size_t size, int e)
+/* "100 nV/√Hz", "1 kHz", "10 MΩ": a decade's value with an SI prefix and the unit. */
+static void decade_label(char *out, size_t size, int e, const char *unit)
 {
 	static const char *const prefix[] = { "a", "f", "p", "n", "µ", "m", "", "k", "M", "G", "T" };
 	int p = (int)floor(e / 3.0);
 	int m = e - 3 * p;
 
 	if (p < -6 || p > 4) {
-		snprintf(out, size, "1e%d", e);
+		snprintf(out, size, "1e%d %s", e, unit);
 		return;
 	}
-	snprintf(out, size, "%d%s%s", m == 0 ? 1 : m == 1 ? 10 : 100, p ? " " : "", prefix[p + 6]);
+	snprintf(out, size, "%d %s%s", m == 0 ? 1 : m == 1 ? 10 : 100, prefix[p + 6], unit);
 }
 
 static void set_colour(cairo_t *cr, double r, double g, double b)
@@ -199,7 +203,7 @@ static void draw_band(cairo_t *cr, const struct sch_result *r, const struct axes
 
 static void draw_grid(cairo_t *cr, const struct axes *ax)
 {
-	char s[32];
+	char s[48];
 	/* x ends are whole decades, y ends may be half decades: y decades labelled are those inside */
 	int ey_lo = (int)ceil(ax->y_lo - 1e-9), ey_hi = (int)floor(ax->y_hi + 1e-9);
 	int nx = (int)(ax->x_hi - ax->x_lo), ny = ey_hi - ey_lo;
@@ -240,12 +244,12 @@ static void draw_grid(cairo_t *cr, const struct axes *ax)
 	cairo_set_font_size(cr, 12);
 	set_colour(cr, 0.15, 0.15, 0.15);
 	for (int e = (int)ax->x_lo; e <= (int)ax->x_hi; e += x_step) {
-		decade_label(s, sizeof(s), e);
+		decade_label(s, sizeof(s), e, "Hz");
 		text_at(cr, map_x(ax, pow(10, e)), AREA_B + 8, s, 0.5, 1.0);
 	}
 	for (int e = ey_lo; e <= ey_hi; e += y_step) {
 		cairo_text_extents_t te;
-		decade_label(s, sizeof(s), e);
+		decade_label(s, sizeof(s), e, "V/√Hz");
 		cairo_text_extents(cr, s, &te);
 		cairo_move_to(cr, AREA_L - 8 - te.x_advance, map_y(ax, pow(10, e)) + 4.5);
 		cairo_show_text(cr, s);
@@ -263,13 +267,13 @@ static void draw_frame_and_titles(cairo_t *cr, const struct sch_result *r)
 	cairo_rectangle(cr, AREA_L, AREA_T, AREA_R - AREA_L, AREA_B - AREA_T);
 	cairo_stroke(cr);
 	cairo_set_font_size(cr, 13);
-	text_at(cr, (AREA_L + AREA_R) / 2, PLOT_H - 18, "frequency (Hz)", 0.5, 0);
+	text_at(cr, (AREA_L + AREA_R) / 2, PLOT_H - 18, "frequency", 0.5, 0);
 	cairo_save(cr);
-	cairo_move_to(cr, 24, (AREA_T + AREA_B) / 2);
+	cairo_move_to(cr, 20, (AREA_T + AREA_B) / 2);
 	cairo_rotate(cr, -M_PI / 2);
 	{
 		cairo_text_extents_t te;
-		const char *t = "output noise density (V/√Hz)";
+		const char *t = "output noise density";
 		cairo_text_extents(cr, t, &te);
 		cairo_rel_move_to(cr, -te.x_advance / 2, 0);
 		cairo_show_text(cr, t);
@@ -399,6 +403,117 @@ static void draw_legend(cairo_t *cr, const struct sch_result *r, size_t top)
 	}
 }
 
+/* The transfer's vertical range in decades of |H|: whole decades around it, at most TF_DECADES. */
+static bool transfer_axis(const struct sch_result *r, double *lo, double *hi)
+{
+	double g_lo = INFINITY, g_hi = 0;
+
+	for (size_t k = 0; r->gain2 && k < r->n_freq; k++)
+		widen(sqrt(r->gain2[k]), &g_lo, &g_hi);
+	if (!(g_hi > 0))
+		return false;
+	*hi = ceil(log10(g_hi) + 0.05);
+	*lo = floor(log10(g_lo) - 0.05);
+	if (*lo < *hi - TF_DECADES)
+		*lo = *hi - TF_DECADES;
+	if (*hi - *lo < 1)
+		*lo = *hi - 1;
+	return true;
+}
+
+static double map_tf(double lo, double hi, double h)
+{
+	return TF_B - (log10(h) - lo) / (hi - lo) * (TF_B - TF_T);
+}
+
+/*
+ * The lower panel: |transfer| over frequency on the noise panel's frequency axis, its decades
+ * labelled in the transfer's unit (Ω for a current input), the mid-band value and -3 dB points marked.
+ */
+static void draw_transfer(cairo_t *cr, const struct sch_result *r, const struct axes *ax)
+{
+	static const double dash[] = { 4.0, 3.0 };
+	bool current = r->input_unit && strcmp(r->input_unit, "A") == 0;
+	const char *unit = current ? "Ω" : "V/V";
+	double lo, hi, edges[2] = { r->transfer.f_low_hz, r->transfer.f_high_hz };
+	char s[160], v[64];
+	bool pen = false;
+
+	if (!transfer_axis(r, &lo, &hi))
+		return;
+	cairo_set_line_width(cr, 1.0);
+	set_colour(cr, 0.70, 0.70, 0.70);
+	for (int e = (int)ax->x_lo + 1; e < (int)ax->x_hi; e++) {
+		cairo_move_to(cr, map_x(ax, pow(10, e)), TF_T);
+		cairo_line_to(cr, map_x(ax, pow(10, e)), TF_B);
+	}
+	for (int e = (int)lo + 1; e < (int)hi; e++) {
+		cairo_move_to(cr, AREA_L, map_tf(lo, hi, pow(10, e)));
+		cairo_line_to(cr, AREA_R, map_tf(lo, hi, pow(10, e)));
+	}
+	cairo_stroke(cr);
+	cairo_set_font_size(cr, 12);
+	set_colour(cr, 0.15, 0.15, 0.15);
+	for (int e = (int)lo; e <= (int)hi; e += hi - lo > 4 ? 2 : 1) {
+		cairo_text_extents_t te;
+		decade_label(s, sizeof(s), e, unit);
+		cairo_text_extents(cr, s, &te);
+		cairo_move_to(cr, AREA_L - 8 - te.x_advance, map_tf(lo, hi, pow(10, e)) + 4.5);
+		cairo_show_text(cr, s);
+	}
+	for (int e = (int)ax->x_lo; e <= (int)ax->x_hi; e += ax->x_hi - ax->x_lo > 9 ? 2 : 1) {
+		decade_label(s, sizeof(s), e, "Hz");
+		text_at(cr, map_x(ax, pow(10, e)), TF_B + 8, s, 0.5, 1.0);
+	}
+	cairo_save(cr);
+	cairo_rectangle(cr, AREA_L, TF_T, AREA_R - AREA_L, TF_B - TF_T);
+	cairo_clip(cr);
+	cairo_set_dash(cr, dash, 2, 0);
+	set_colour(cr, 0.45, 0.45, 0.45);
+	for (int k = 0; k < 2; k++) {
+		if (!(edges[k] > 0))
+			continue;
+		cairo_move_to(cr, map_x(ax, edges[k]), TF_T);
+		cairo_line_to(cr, map_x(ax, edges[k]), TF_B);
+	}
+	cairo_stroke(cr);
+	cairo_set_dash(cr, NULL, 0, 0);
+	set_colour(cr, 0.10, 0.10, 0.10);
+	cairo_set_line_width(cr, 2.0);
+	for (size_t k = 0; k < r->n_freq; k++) {
+		double f = r->freq_hz[k], h = sqrt(r->gain2[k]);
+		if (!(f > 0) || !(h > 0) || !isfinite(h)) {
+			pen = false;
+			continue;
+		}
+		if (pen)
+			cairo_line_to(cr, map_x(ax, f), map_tf(lo, hi, h));
+		else
+			cairo_move_to(cr, map_x(ax, f), map_tf(lo, hi, h));
+		pen = true;
+	}
+	cairo_stroke(cr);
+	cairo_restore(cr);
+	cairo_set_line_width(cr, 1.2);
+	set_colour(cr, 0.2, 0.2, 0.2);
+	cairo_rectangle(cr, AREA_L, TF_T, AREA_R - AREA_L, TF_B - TF_T);
+	cairo_stroke(cr);
+	cairo_set_font_size(cr, 12);
+	set_colour(cr, 0.30, 0.30, 0.30);
+	snprintf(s, sizeof(s), "|transfer| from %s to %s: %s at %s", r->input ? r->input : "the input",
+		 r->output ? r->output : "the output", sch_report_transfer_value(r, v, sizeof(v)),
+		 sch_si_format((char[48]){ 0 }, 48, r->transfer.ref_hz, 3, "Hz"));
+	cairo_move_to(cr, AREA_L, TF_T - 8);
+	cairo_show_text(cr, s);
+	set_colour(cr, 0.40, 0.40, 0.40);
+	cairo_set_font_size(cr, 10.5);
+	cairo_move_to(cr, AREA_R + 18, TF_T + 14);
+	cairo_show_text(cr, "dashed: -3 dB points");
+	snprintf(s, sizeof(s), "noise bandwidth %s", sch_si_format(v, sizeof(v), r->transfer.enbw_hz, 3, "Hz"));
+	cairo_move_to(cr, AREA_R + 18, TF_T + 30);
+	cairo_show_text(cr, s);
+}
+
 /* Draws the whole figure; SCH_ERR_USAGE when there is nothing to plot. */
 static enum sch_err draw(cairo_t *cr, const struct sch_result *r)
 {
@@ -415,6 +530,7 @@ static enum sch_err draw(cairo_t *cr, const struct sch_result *r)
 	draw_curves(cr, r, &ax, top);
 	draw_frame_and_titles(cr, r);
 	draw_legend(cr, r, top);
+	draw_transfer(cr, r, &ax);
 	return cairo_status(cr) == CAIRO_STATUS_SUCCESS ? SCH_OK : SCH_ERR_IO;
 }
 
