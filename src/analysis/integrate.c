@@ -127,8 +127,9 @@ static enum sch_err refer_to_input(struct sch_result *res, const struct sch_run_
 	res->responsivity_a_per_w = opt->responsivity_a_per_w;
 	res->signal = opt->signal;
 	res->nep_band_w_per_rthz = NAN;
+	res->input_gain_m = sch_analysis_input_gain(res);
 	if (has_nep(res, opt) && t->enbw_hz > 0)
-		res->nep_band_w_per_rthz = res->input_rms / sqrt(t->enbw_hz) / opt->responsivity_a_per_w;
+		res->nep_band_w_per_rthz = res->input_rms / sqrt(t->enbw_hz) / (opt->responsivity_a_per_w * res->input_gain_m);
 	if (!isnan(opt->signal) && res->total_power_v2 > 0) {
 		double out_signal = opt->signal * t->mid_band;
 		res->snr = out_signal * out_signal / res->total_power_v2;
@@ -162,7 +163,7 @@ static enum sch_err take_spots(struct sch_result *res, const struct sch_run_opti
 		sp->input_per_rthz = sqrt(fabs(sch_spectra_at(res->freq_hz, input_psd, nf, f)));
 		sp->nep_w_per_rthz = NAN;
 		if (has_nep(res, opt))
-			sp->nep_w_per_rthz = sp->input_per_rthz / opt->responsivity_a_per_w;
+			sp->nep_w_per_rthz = sp->input_per_rthz / (opt->responsivity_a_per_w * res->input_gain_m);
 	}
 	for (size_t c = 0; c < res->n_contributions; c++) {
 		struct sch_contribution *ct = &res->contributions[c];

@@ -113,6 +113,26 @@ static enum sch_err note_noiseless(struct sch_analysis *an)
 						      list, shown < set->n_noiseless ? ", ..." : ""));
 }
 
+/* What NEP divides by: the unity-gain responsivity and the input carrier's gain. */
+static enum sch_err note_nep(struct sch_analysis *an)
+{
+	struct sch_result *res = an->res;
+
+	if (an->opt->mode != SCH_RUN_REPORT || isnan(res->responsivity_a_per_w) || !res->input_unit ||
+	    strcmp(res->input_unit, "A") != 0)
+		return SCH_OK;
+	if (res->input_gain_m == 1)
+		return sch_analysis_note(an, sch_arena_printf(&res->arena,
+							      "NEP = input-referred current / R0 with R0 = %g A/W the "
+							      "responsivity; the band's NEP is over the noise-equivalent bandwidth",
+							      res->responsivity_a_per_w));
+	return sch_analysis_note(an, sch_arena_printf(&res->arena,
+						      "NEP = input-referred current / (R0*M) with R0 = %g A/W the "
+						      "unity-gain responsivity and M = %g the avalanche gain of the input "
+						      "carrier '%s', whose netlist current is the multiplied terminal current",
+						      res->responsivity_a_per_w, res->input_gain_m, res->input));
+}
+
 /* How the added generators were sized. */
 static enum sch_err note_constants(struct sch_analysis *an)
 {
@@ -169,7 +189,8 @@ enum sch_err sch_analysis_closing_notes(struct sch_analysis *an)
 {
 	enum sch_err ret;
 
-	if ((ret = note_band_past_transfer(an)) != SCH_OK || (ret = note_lump_hint(an)) != SCH_OK ||
+	if ((ret = note_band_past_transfer(an)) != SCH_OK || (ret = sch_analysis_note_rules(an)) != SCH_OK ||
+	    (ret = note_nep(an)) != SCH_OK || (ret = note_lump_hint(an)) != SCH_OK ||
 	    (ret = note_noiseless(an)) != SCH_OK ||
 	    (ret = note_constants(an)) != SCH_OK)
 		return ret;

@@ -108,4 +108,34 @@ if data:
     close("[K9] -3 dB at 1 kHz", t["f_high_hz"], FC * math.sqrt(1 + 2e-6), 1e-4)
     close("[K9] ENBW over 1 Hz-100 kHz (arctan form)", t["enbw_hz"],
           FC * (math.atan(100) - math.atan(1e-3)) * (1 + 1e-6), 1e-4)
+
+# 5. An APD (terminal current 1 uA = M I_p, M = 100, k = 0.02) into a noiseless load: NEP divides the
+# input-referred current by R0 M, R0 the unity-gain responsivity. [A3/A7] McIntyre, IEEE Trans.
+# Electron Devices ED-13(1), 164 (1966): F = 3.9502; density 2qIMF = (11.250705 pA/rtHz)^2; the
+# multiplied responsivity M R0 as the NEP divisor: Kumar & Deen section 5.5 with R = M R0 (from memory).
+APD = """an avalanche photodiode's terminal current into a noiseless load
+iapd 0 a dc 1u
+dapd a 0 dmod
+.model dmod d is=1f
+rl a 0 1k noisy=0
+.noise v(a) iapd dec 10 1 1meg 1
+.end
+"""
+rc, data, out, err = run(APD, "report", "--avalanche", "iapd=100:0.02", "--responsivity", "0.5", "--spot", "1k",
+                         "--no-junction-correction")
+if data:
+    # the diode across the source adds its own 2q|I_D| (no forward current to speak of: 1 fA scale)
+    close("[A7] APD spot NEP = 11.250705 pA/rtHz / (0.5 A/W x 100)", data["spot"][0]["nep_w_per_rthz"],
+          11.250705e-12 / 50, 1e-5)
+    close("input carrier's gain in the result", data.get("input_gain_m"), 100, 0)
+    notes = " ".join(data["notes"])
+    true("[A3] the notes state M, k and F(M) of the rule", "M = 100" in notes and "k = 0.02" in notes and
+         "F(M) = 3.95" in notes, notes)
+    true("the notes say the netlist current is the multiplied terminal current", "multiplied terminal current" in notes)
+rc, data, out, err = run(APD, "report", "--avalanche", "dapd=100:0.02", expect_rc=2)
+true("a gain rule naming the APD's diode is refused, naming the source across it",
+     "names the diode 'dapd'" in err and "--avalanche 'iapd=100:0.02'" in err, err)
+rc, data, out, err = run(APD.replace("iapd", "itun"), "report", "--fano", "itun=0.5")
+if data:
+    true("the notes state the Fano factor of the rule", "Fano factor F = 0.5" in " ".join(data["notes"]), data["notes"])
 finish()
