@@ -30,9 +30,9 @@ struct sch_contribution {
 	double dc_current_a;     /* NaN when the generator is not sized by a current */
 	double *psd;             /* output power density at each frequency, V^2/Hz; negative for a correction that removes noise */
 	double band_power;       /* integral of psd over the band, V^2 (negative for such a correction) */
-	double output_rms_v;     /* sqrt(|band_power|) */
+	double output_rms_v;     /* sqrt(|band_power|) with band_power's sign: negative for a row that removes noise */
 	double share;            /* band_power / total band power; shares sum to 1 */
-	double *spot_density;    /* at each spot frequency: sqrt(|psd|), V/√Hz */
+	double *spot_density;    /* at each spot frequency: sqrt(|psd|) with psd's sign, V/√Hz */
 	size_t device_count;     /* devices the row stands for: 1, or the resistors of a --lump row */
 };
 

@@ -25,7 +25,11 @@ enum sch_err sch_report_json(const struct sch_result *r, const char *path, struc
 /* One row per contribution, written atomically. */
 enum sch_err sch_report_csv(const struct sch_result *r, const char *path, struct sch_diag *d);
 
-/* One row per frequency: frequency, total, the top n contributions, then "rest". */
+/*
+ * One row per frequency: frequency, total, the top n contributions, "rest", then |transfer|.
+ * Densities are sqrt(|psd|) with psd's sign (negative where a row removes noise), so the signed
+ * squares of the contribution and rest columns add to the total's square at every frequency.
+ */
 enum sch_err sch_report_spectrum(const struct sch_result *r, const char *path, int top_n, struct sch_diag *d);
 
 /* Log-log plot of output density (total and top contributions), band shaded; .svg or .png. */

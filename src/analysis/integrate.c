@@ -95,7 +95,8 @@ static void sum_rows(struct sch_result *res, double total)
 		for (size_t i = 0; i < nf; i++)
 			res->total_psd[i] += ct->psd[i];
 		ct->share = total != 0 ? ct->band_power / total : 0;
-		ct->output_rms_v = sqrt(fabs(ct->band_power));
+		/* signed: a row that removes noise shows it in every output */
+		ct->output_rms_v = copysign(sqrt(fabs(ct->band_power)), ct->band_power);
 		if (ct->origin == SCH_ORIGIN_ADDED)
 			res->carrier_power_v2 += ct->band_power;
 	}
@@ -170,8 +171,10 @@ static enum sch_err take_spots(struct sch_result *res, const struct sch_run_opti
 		ct->spot_density = sch_arena_alloc(a, (opt->n_spots + 1) * sizeof(double));
 		if (!ct->spot_density)
 			return SCH_ERR_NOMEM;
-		for (size_t s = 0; s < opt->n_spots; s++)
-			ct->spot_density[s] = sqrt(fabs(sch_spectra_at(res->freq_hz, ct->psd, nf, opt->spots_hz[s])));
+		for (size_t s = 0; s < opt->n_spots; s++) {
+			double psd = sch_spectra_at(res->freq_hz, ct->psd, nf, opt->spots_hz[s]);
+			ct->spot_density[s] = copysign(sqrt(fabs(psd)), psd);
+		}
 	}
 	return SCH_OK;
 }

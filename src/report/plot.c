@@ -391,7 +391,7 @@ static void draw_legend(cairo_t *cr, const struct sch_result *r, size_t top)
 		sch_report_format_share(pct, sizeof(pct), c->share);
 		snprintf(detail, sizeof(detail), "%s · %s rms%s", pct,
 			 sch_si_format(rms, sizeof(rms), c->output_rms_v, 3, "V"),
-			 c->origin == SCH_ORIGIN_CORRECTION ? " (correction)" : "");
+			 c->band_power < 0 ? " (removes)" : c->origin == SCH_ORIGIN_CORRECTION ? " (correction)" : "");
 		legend_entry(cr, y, name, detail);
 	}
 	if (r->n_contributions > top) {
