@@ -99,8 +99,8 @@ enum sch_err sch_analysis_transfer(struct sch_result *res, const struct sch_run_
 	if (!isnan(opt->signal_freq_hz)) {
 		if (!(opt->signal_freq_hz >= lo * (1 - SCH_FREQ_SLACK) && opt->signal_freq_hz <= hi * (1 + SCH_FREQ_SLACK)))
 			return sch_diag_error(d, SCH_ERR_USAGE, NULL, 0,
-					      "signal frequency %g Hz is outside the simulated range %g:%g Hz",
-					      opt->signal_freq_hz, lo, hi);
+					      "signal frequency %.6g Hz is outside the simulated range %.6g:%.6g Hz",
+					      opt->signal_freq_hz, res->run_lo_hz, res->run_hi_hz);
 		t->ref_hz = opt->signal_freq_hz;
 		ref_g2 = gain2_at(res, t->ref_hz);
 	} else {

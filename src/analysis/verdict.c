@@ -99,14 +99,14 @@ static enum sch_err note_lump_hint(struct sch_analysis *an)
 static enum sch_err note_noiseless(struct sch_analysis *an)
 {
 	const struct sch_carrier_set *set = &an->res->set;
-	char list[400] = "";
+	char list[400] = "", amps[48];
 	size_t shown = 0;
 
 	if (!set->n_noiseless)
 		return SCH_OK;
 	for (size_t k = 0; k < set->n_noiseless && strlen(list) < sizeof(list) - 80; k++, shown++)
-		snprintf(list + strlen(list), sizeof(list) - strlen(list), "%s%s (%.3g A)", k ? ", " : "",
-			 set->noiseless[k].name, set->noiseless[k].dc_current_a);
+		snprintf(list + strlen(list), sizeof(list) - strlen(list), "%s%s (%s)", k ? ", " : "", set->noiseless[k].name,
+			 sch_si_format(amps, sizeof(amps), set->noiseless[k].dc_current_a, 3, "A"));
 	return sch_analysis_note(an, sch_arena_printf(&an->res->arena,
 						      "noiseless DC current sources, given no shot noise: %s%s "
 						      "(name them with --carrier if they carry shot noise)",

@@ -118,29 +118,6 @@ static const char *si(char *out, size_t n, double v, const char *unit)
 	return sch_si_format(out, n, v, 3, unit);
 }
 
-/* A power ratio to 3 significant digits, large and small ones as "4.92 × 10⁴" rather than "4.92e+04". */
-static const char *ratio(char *out, size_t n, double x)
-{
-	static const char *const sup[] = { "⁰", "¹", "²", "³", "⁴", "⁵", "⁶", "⁷", "⁸", "⁹" };
-	char digits[16], exp_text[64] = "";
-	int e;
-
-	if (!isfinite(x) || x == 0 || (fabs(x) >= 0.01 && fabs(x) < 1e4)) {
-		snprintf(out, n, "%.3g", x);
-		return out;
-	}
-	e = (int)floor(log10(fabs(x)));
-	if (fabs(x / pow(10, e)) >= 9.995) /* rounds up to the next decade */
-		e++;
-	snprintf(digits, sizeof(digits), "%d", abs(e));
-	if (e < 0)
-		snprintf(exp_text, sizeof(exp_text), "⁻");
-	for (const char *p = digits; *p; p++)
-		snprintf(exp_text + strlen(exp_text), sizeof(exp_text) - strlen(exp_text), "%s", sup[*p - '0']);
-	snprintf(out, n, "%.3g × 10%s", x / pow(10, e), exp_text);
-	return out;
-}
-
 static void figure(struct page *b, const char *value, const char *what)
 {
 	elem(b, "<div class=\"fig\"><b>", value, "</b>");
@@ -177,7 +154,7 @@ static void headline(struct page *b, const struct sch_result *r)
 	}
 	if (!isnan(r->signal)) {
 		snprintf(v, sizeof(v), "%.1f dB", sch_report_db(r->snr));
-		snprintf(y, sizeof(y), "SNR %s for %s", ratio(q, sizeof(q), r->snr), si(x, sizeof(x), r->signal, unit));
+		snprintf(y, sizeof(y), "SNR %s for %s", sch_report_ratio(q, sizeof(q), r->snr), si(x, sizeof(x), r->signal, unit));
 		figure(b, v, y);
 	}
 	if (r->n_spots > 0) {

@@ -20,7 +20,10 @@ void sch_report_label(const struct sch_contribution *c, char *out, size_t size);
 /* min(n, number of contributions); n < 0 means all. */
 size_t sch_report_top_count(const struct sch_result *r, int n);
 
-/* A share as a percentage: "45.2 %", "0.042 %", "-0.7 %"; the sign always shows; NaN is "-". */
+/*
+ * A share as a percentage: "45.2 %", "0.042 %", "-0.7 %"; the sign always shows; below 0.001 %
+ * "< 0.001 %" or "> -0.001 %" (never "-0.000 %"); NaN is "-".
+ */
 void sch_report_format_share(char *out, size_t size, double share);
 
 /* The unit of the transfer's magnitude: "V/A" for a current input, "V/V" for a voltage input. */
@@ -37,6 +40,9 @@ const char *sch_report_transfer_value(const struct sch_result *r, char *out, siz
  * band" (both -3 dB points where both exist). Returns out.
  */
 const char *sch_report_bandwidth_text(const struct sch_result *r, char *out, size_t size);
+
+/* A ratio to 3 significant digits, large and small ones as "4.92 × 10⁴" rather than "4.92e+04". */
+const char *sch_report_ratio(char *out, size_t n, double x);
 
 /* 10*log10(ratio), NaN for a ratio that is not positive and finite. */
 double sch_report_db(double ratio);

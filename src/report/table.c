@@ -131,6 +131,29 @@ static void grid_release(struct grid *g)
 	sch_arena_release(&g->arena);
 }
 
+/* A power ratio to 3 significant digits, large and small ones as "4.92 × 10⁴" rather than "4.92e+04". */
+const char *sch_report_ratio(char *out, size_t n, double x)
+{
+	static const char *const sup[] = { "⁰", "¹", "²", "³", "⁴", "⁵", "⁶", "⁷", "⁸", "⁹" };
+	char digits[16], exp_text[64] = "";
+	int e;
+
+	if (!isfinite(x) || x == 0 || (fabs(x) >= 0.01 && fabs(x) < 1e4)) {
+		snprintf(out, n, "%.3g", x);
+		return out;
+	}
+	e = (int)floor(log10(fabs(x)));
+	if (fabs(x / pow(10, e)) >= 9.995) /* rounds up to the next decade */
+		e++;
+	snprintf(digits, sizeof(digits), "%d", abs(e));
+	if (e < 0)
+		snprintf(exp_text, sizeof(exp_text), "⁻");
+	for (const char *p = digits; *p; p++)
+		snprintf(exp_text + strlen(exp_text), sizeof(exp_text) - strlen(exp_text), "%s", sup[*p - '0']);
+	snprintf(out, n, "%.3g × 10%s", x / pow(10, e), exp_text);
+	return out;
+}
+
 void sch_report_format_share(char *out, size_t size, double share)
 {
 	double pct = share * 100.0;
@@ -141,8 +164,8 @@ void sch_report_format_share(char *out, size_t size, double share)
 		snprintf(out, size, "%.1f %%", pct);
 	else if (fabs(pct) >= 0.001)
 		snprintf(out, size, "%.3f %%", pct);
-	else
-		snprintf(out, size, "%s0.000 %%", pct < 0 ? "-" : "");
+	else /* not "-0.000 %": below the last digit shown, say which side of zero */
+		snprintf(out, size, "%s 0.001 %%", pct < 0 ? "> -" : "<");
 }
 
 static const char *or_dash(const char *s)
@@ -194,7 +217,7 @@ const char *sch_report_bandwidth_text(const struct sch_result *r, char *out, siz
 
 const char *sch_report_verdict(const struct sch_result *r, char *out, size_t size)
 {
-	char other[160] = "nothing else";
+	char other[160] = "nothing else", factor[48];
 	const struct sch_contribution *d = r->dominant_other;
 
 	if (d)
@@ -205,10 +228,11 @@ const char *sch_report_verdict(const struct sch_result *r, char *out, size_t siz
 	else if (isnan(r->shot_to_rest))
 		snprintf(out, size, "shot-noise limited: the carriers' shot noise is all the noise");
 	else if (r->shot_to_rest >= 1)
-		snprintf(out, size, "shot-noise limited by %.3g x in power; of the rest, %s leads", r->shot_to_rest, other);
+		snprintf(out, size, "shot-noise limited by %s x in power; of the rest, %s leads",
+			 sch_report_ratio(factor, sizeof(factor), r->shot_to_rest), other);
 	else
-		snprintf(out, size, "not shot-noise limited: the rest is %.3g x the carriers' shot-noise power, led by %s",
-			 1.0 / r->shot_to_rest, other);
+		snprintf(out, size, "not shot-noise limited: the rest is %s x the carriers' shot-noise power, led by %s",
+			 sch_report_ratio(factor, sizeof(factor), 1.0 / r->shot_to_rest), other);
 	return out;
 }
 
@@ -245,8 +269,9 @@ static void print_headline(const struct sch_result *r, FILE *out)
 	print_item(out, "bandwidth", sch_report_bandwidth_text(r, line, sizeof(line)));
 	if (!isnan(r->signal)) {
 		double db = sch_report_db(r->snr);
-		char c[64];
-		snprintf(line, sizeof(line), "%.4g (%.1f dB) at the output: %s of signal for a %s input", r->snr, db,
+		char c[64], d[64];
+		snprintf(line, sizeof(line), "%s (%.1f dB) at the output: %s of signal for a %s input",
+			 sch_report_ratio(d, sizeof(d), r->snr), db,
 			 sch_si_format(c, sizeof(c), fabs(r->signal * r->transfer.mid_band), 3, "V"),
 			 sch_si_format(a, sizeof(a), r->signal, 3, unit));
 		print_item(out, "SNR", line);
