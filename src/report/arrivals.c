@@ -259,7 +259,7 @@ static void text_at(cairo_t *cr, double x, double y, const char *s, double align
 
 	cairo_text_extents(cr, s, &te);
 	cairo_move_to(cr, x - te.x_advance * align_x, y);
-	cairo_show_text(cr, s);
+	sch_report_show_text(cr, s);
 }
 
 /* One histogram panel: bars counted, dots Poisson (counts only), line Gaussian. */

@@ -58,6 +58,13 @@ size_t sch_report_width(const char *s);
 enum sch_err sch_report_plot_svg(const struct sch_result *r, struct sch_buf *out);
 
 /*
+ * Shows s at the current point like cairo_show_text; on a context drawing an SVG figure (through
+ * sch_report_figure or sch_report_plot_svg) the words become an SVG <text> element instead of
+ * glyph outlines, so they stay searchable and editable. This function can't fail.
+ */
+void sch_report_show_text(cairo_t *cr, const char *s);
+
+/*
  * Writes a figure of width x height that draw_fn paints (given ctx) as SVG or PNG, chosen by the
  * extension of path, atomically. SCH_ERR_USAGE for another extension or when draw_fn finds nothing
  * to draw (it returns SCH_ERR_USAGE), SCH_ERR_IO when cairo or the file fails; messages name path.

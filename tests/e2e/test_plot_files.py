@@ -70,7 +70,14 @@ for name, args in (("canopy-probe", ["--band", "1:10k"]),
              root.get("width", "").startswith("960") and root.get("height", "").startswith("762"),
              "%s %s x %s" % (root.tag, root.get("width"), root.get("height")))
         paths = root.findall(".//" + SVG_NS + "path")
-        true("[P] %s: SVG draws curves, grid and text (over 50 paths)" % name, len(paths) > 50, "%d" % len(paths))
+        texts = root.findall(".//" + SVG_NS + "text")
+        true("[P] %s: SVG draws curves and grid (over 15 paths) and text (over 20 labels)" % name,
+             len(paths) > 15 and len(texts) > 20, "%d paths, %d texts" % (len(paths), len(texts)))
+        # words stay text, searchable and editable, not glyph outlines (issue 13 item 7)
+        words = ["".join(t.itertext()) for t in root.iter(SVG_NS + "text")]
+        true("[P] %s: SVG labels are <text> elements with units (frequency, 1 kHz, V/√Hz)" % name,
+             "frequency" in words and "1 kHz" in words and any(w.endswith("V/√Hz") for w in words), repr(words[:12]))
+        true("[P] %s: no glyph outlines in the SVG" % name, not root.findall(".//" + SVG_NS + "symbol"))
 
 bad = os.path.join(work, "canopy.jpg")
 rc, err = report("netlists/canopy-probe.cir", "--plot", bad)
