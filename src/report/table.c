@@ -165,7 +165,7 @@ void sch_report_format_share(char *out, size_t size, double share)
 	else if (fabs(pct) >= 0.001)
 		snprintf(out, size, "%.3f %%", pct);
 	else /* not "-0.000 %": below the last digit shown, say which side of zero */
-		snprintf(out, size, "%s 0.001 %%", pct < 0 ? "> -" : "<");
+		snprintf(out, size, "%s", pct < 0 ? "> -0.001 %" : "< 0.001 %");
 }
 
 static const char *or_dash(const char *s)
@@ -207,7 +207,8 @@ const char *sch_report_bandwidth_text(const struct sch_result *r, char *out, siz
 	else if (!isnan(t->f_high_hz))
 		snprintf(edges, sizeof(edges), "-3 dB at %s", sch_si_format(hi, sizeof(hi), t->f_high_hz, 3, "Hz"));
 	else if (!isnan(t->f_low_hz))
-		snprintf(edges, sizeof(edges), "-3 dB below %s", sch_si_format(lo, sizeof(lo), t->f_low_hz, 3, "Hz"));
+		snprintf(edges, sizeof(edges), "-3 dB at %s (a lower edge; none above it in the run)",
+			 sch_si_format(lo, sizeof(lo), t->f_low_hz, 3, "Hz"));
 	else
 		snprintf(edges, sizeof(edges), "no -3 dB point in the simulated range");
 	snprintf(out, size, "%s; noise-equivalent %s over the band", edges,
