@@ -3,12 +3,20 @@
 #ifndef SCH_REPORT_H
 #define SCH_REPORT_H
 
+#include <stdbool.h>
 #include <stdio.h>
 #include "schrot/analysis.h"
 #include "schrot/diag.h"
 
-/* Terminal table of the noise report: totals on top, contributions ranked by share. */
+/*
+ * Terminal table of the noise report: totals on top, contributions ranked by share, each junction
+ * or bipolar correction folded into the simulator row it corrects (origin "corrected": one row per
+ * device and generator). Returns SCH_ERR_IO when out fails, SCH_ERR_NOMEM.
+ */
 enum sch_err sch_report_table(const struct sch_result *r, FILE *out);
+
+/* The same with split_corrections choosing between folded rows (false) and every row apart (true). */
+enum sch_err sch_report_table_split(const struct sch_result *r, FILE *out, bool split_corrections);
 
 /*
  * One sentence on whether the design is shot-noise limited, by what factor, and which device leads

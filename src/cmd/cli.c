@@ -139,6 +139,9 @@ static const struct cli_option options[] = {
 	{ "--fano", NULL, "REGEX=F", CMD_NETLIST, OWN(set_fano, "REGEX=F"), "shot noise scaled by the Fano factor F >= 0" },
 	{ "--no-junction-correction", NULL, NULL, CMD_REPORT | CMD_SWEEP, OWN(set_flag, NULL),
 	  "keep the simulator's own 2q|I_D| diode noise" },
+	{ "--show-corrections", NULL, NULL, CMD_REPORT, OWN(set_flag, NULL),
+	  "list each junction and bipolar correction as its own table row\n"
+	  "(default: added into the simulator row it corrects)" },
 	{ "--responsivity", NULL, "A_PER_W", CMD_REPORT,
 	  NUMBER(run.responsivity_a_per_w, CHECK_POSITIVE, "a positive value in A/W"),
 	  "unity-gain detector responsivity R0, for NEP; with --avalanche\non the input source NEP divides by R0*M" },
@@ -285,6 +288,8 @@ static enum sch_err set_flag(struct sch_cli *cli, const struct cli_option *o, ch
 		cli->verbosity = 1;
 	else if (strcmp(o->name, "--help") == 0)
 		cli->help = true;
+	else if (strcmp(o->name, "--show-corrections") == 0)
+		cli->show_corrections = true;
 	else
 		cli->run.junction_correction = false;
 	return SCH_OK;

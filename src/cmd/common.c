@@ -31,6 +31,7 @@ void sch_cmd_print_help(FILE *out)
 	      "                         the netlist's current is the multiplied terminal current\n"
 	      "  --fano REGEX=F         shot noise scaled by the Fano factor F >= 0\n"
 	      "  --no-junction-correction   keep the simulator's own 2q|I_D| diode noise\n"
+	      "  --show-corrections     report: corrections as their own table rows (default: added into the row they correct)\n"
 	      "  --responsivity A_PER_W unity-gain detector responsivity R0, for NEP (NEP divides by R0*M under --avalanche)\n"
 	      "  --signal VALUE         signal in the input's unit, for SNR at the output over the band\n"
 	      "  --signal-freq F        the signal's frequency: the transfer there refers the noise (default: peak |H| in the band)\n"
