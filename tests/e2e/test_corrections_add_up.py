@@ -54,4 +54,10 @@ if data:
         worst = max(worst, abs(parts - total) / total)
     true("signed squares of the device and rest columns rebuild the total at every frequency (1e-9)",
          worst < 1e-9, "worst %g" % worst)
+
+# A correction far below the display's last digit says which side of zero it lies (never "-0.000 %").
+with open(os.path.join(os.path.dirname(os.path.abspath(__file__)), "..", "..", "netlists", "rangefinder-apd.cir")) as f:
+    apd = f.read()
+rc, data, out, err = run(apd, "report", "--avalanche", "iapd=50:0.02", "--show-corrections")
+true("no '-0.000 %' in the table; a tiny negative share reads '> -0.001 %'", "-0.000 %" not in out and "> -0.001 %" in out, out)
 finish()
