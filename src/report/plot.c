@@ -498,21 +498,11 @@ static double map_tf(double lo, double hi, double h)
 	return TF_B - (log10(h) - lo) / (hi - lo) * (TF_B - TF_T);
 }
 
-/*
- * The lower panel: |transfer| over frequency on the noise panel's frequency axis, its decades
- * labelled in the transfer's unit (Ω for a current input), the mid-band value and -3 dB points marked.
- */
-static void draw_transfer(cairo_t *cr, const struct sch_result *r, const struct axes *ax)
+/* The transfer panel's grid and its axis labels: decades of |H| in unit, decades of frequency. */
+static void transfer_grid(cairo_t *cr, const struct axes *ax, double lo, double hi, const char *unit)
 {
-	static const double dash[] = { 4.0, 3.0 };
-	bool current = r->input_unit && strcmp(r->input_unit, "A") == 0;
-	const char *unit = current ? "Ω" : "V/V";
-	double lo, hi, edges[2] = { r->transfer.f_low_hz, r->transfer.f_high_hz };
-	char s[160], v[64];
-	bool pen = false;
+	char s[64];
 
-	if (!transfer_axis(r, &lo, &hi))
-		return;
 	cairo_set_line_width(cr, 1.0);
 	set_colour(cr, 0.70, 0.70, 0.70);
 	for (int e = (int)ax->x_lo + 1; e < (int)ax->x_hi; e++) {
@@ -537,6 +527,15 @@ static void draw_transfer(cairo_t *cr, const struct sch_result *r, const struct 
 		decade_label(s, sizeof(s), e, "Hz");
 		text_at(cr, map_x(ax, pow(10, e)), TF_B + 8, s, 0.5, 1.0);
 	}
+}
+
+/* |H| over frequency inside the panel, its -3 dB points dashed. */
+static void transfer_curve(cairo_t *cr, const struct sch_result *r, const struct axes *ax, double lo, double hi)
+{
+	static const double dash[] = { 4.0, 3.0 };
+	double edges[2] = { r->transfer.f_low_hz, r->transfer.f_high_hz };
+	bool pen = false;
+
 	cairo_save(cr);
 	cairo_rectangle(cr, AREA_L, TF_T, AREA_R - AREA_L, TF_B - TF_T);
 	cairo_clip(cr);
@@ -566,6 +565,22 @@ static void draw_transfer(cairo_t *cr, const struct sch_result *r, const struct 
 	}
 	cairo_stroke(cr);
 	cairo_restore(cr);
+}
+
+/*
+ * The lower panel: |transfer| over frequency on the noise panel's frequency axis, its decades
+ * labelled in the transfer's unit (Ω for a current input), the mid-band value and -3 dB points marked.
+ */
+static void draw_transfer(cairo_t *cr, const struct sch_result *r, const struct axes *ax)
+{
+	bool current = r->input_unit && strcmp(r->input_unit, "A") == 0;
+	double lo, hi;
+	char s[200], v[64], f[48];
+
+	if (!transfer_axis(r, &lo, &hi))
+		return;
+	transfer_grid(cr, ax, lo, hi, current ? "Ω" : "V/V");
+	transfer_curve(cr, r, ax, lo, hi);
 	cairo_set_line_width(cr, 1.2);
 	set_colour(cr, 0.2, 0.2, 0.2);
 	cairo_rectangle(cr, AREA_L, TF_T, AREA_R - AREA_L, TF_B - TF_T);
@@ -574,7 +589,7 @@ static void draw_transfer(cairo_t *cr, const struct sch_result *r, const struct 
 	set_colour(cr, 0.30, 0.30, 0.30);
 	snprintf(s, sizeof(s), "|transfer| from %s to %s: %s at %s", r->input ? r->input : "the input",
 		 r->output ? r->output : "the output", sch_report_transfer_value(r, v, sizeof(v)),
-		 sch_si_format((char[48]){ 0 }, 48, r->transfer.ref_hz, 3, "Hz"));
+		 sch_si_format(f, sizeof(f), r->transfer.ref_hz, 3, "Hz"));
 	cairo_move_to(cr, AREA_L, TF_T - 8);
 	sch_report_show_text(cr, s);
 	set_colour(cr, 0.40, 0.40, 0.40);
