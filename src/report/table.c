@@ -138,6 +138,10 @@ const char *sch_report_ratio(char *out, size_t n, double x)
 	char digits[16], exp_text[64] = "";
 	int e;
 
+	if (fabs(x) >= 1000 && fabs(x) < 1e4) { /* "1860", not "1.86e+03" */
+		snprintf(out, n, "%.0f", round(x / 10) * 10);
+		return out;
+	}
 	if (!isfinite(x) || x == 0 || (fabs(x) >= 0.01 && fabs(x) < 1e4)) {
 		snprintf(out, n, "%.3g", x);
 		return out;
