@@ -30,9 +30,9 @@ struct sch_contribution {
 	double dc_current_a;     /* NaN when the generator is not sized by a current */
 	double *psd;             /* output power density at each frequency, V^2/Hz; negative for a correction that removes noise */
 	double band_power;       /* integral of psd over the band, V^2 (negative for such a correction) */
-	double output_rms_v;     /* sqrt(|band_power|) */
+	double output_rms_v;     /* sqrt(|band_power|) with band_power's sign: negative for a row that removes noise */
 	double share;            /* band_power / total band power; shares sum to 1 */
-	double *spot_density;    /* at each spot frequency: sqrt(|psd|), V/√Hz */
+	double *spot_density;    /* at each spot frequency: sqrt(|psd|) with psd's sign, V/√Hz */
 	size_t device_count;     /* devices the row stands for: 1, or the resistors of a --lump row */
 };
 
@@ -40,7 +40,7 @@ struct sch_spot {
 	double freq_hz;
 	double output_v_per_rthz;
 	double input_per_rthz;   /* input-referred, in the input source's unit per √Hz */
-	double nep_w_per_rthz;   /* NaN without a responsivity or for a voltage input */
+	double nep_w_per_rthz;   /* input_per_rthz / (responsivity * input_gain_m); NaN without a responsivity or for a voltage input */
 };
 
 /* A parsed --freq F1:F2[:PPD]. */
@@ -133,14 +133,15 @@ struct sch_result {
 	struct sch_transfer transfer;   /* the input-to-output transfer (report runs) */
 	struct sch_spot *spots;
 	size_t n_spots;
-	double responsivity_a_per_w;    /* NaN: none */
+	double responsivity_a_per_w;    /* NaN: none; the unity-gain responsivity R0 */
+	double input_gain_m;            /* avalanche gain M of the input carrier (1 without a gain rule): NEP divides by R0 * M */
 	double signal;                  /* NaN: none */
 	double snr;                     /* at the output: (signal * transfer.mid_band)^2 / total_power_v2; NaN without a signal */
 	double carrier_power_v2;        /* band power of all added carrier shot noise */
 	double shot_to_rest;            /* carrier_power_v2 / (everything else); NaN without carriers or rest */
 	const struct sch_contribution *dominant_other; /* the largest row of the device that leads the rest, or NULL */
 	double dominant_other_share;    /* that device's share, all its rows netted (corrections included) */
-	double nep_band_w_per_rthz;     /* input_rms / sqrt(transfer.enbw_hz) / responsivity; NaN without one */
+	double nep_band_w_per_rthz;     /* input_rms / sqrt(transfer.enbw_hz) / (responsivity * input_gain_m); NaN without one */
 	const char **notes;             /* assumptions and corrections applied, for reports */
 	size_t n_notes;
 };

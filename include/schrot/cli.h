@@ -35,6 +35,7 @@ struct sch_cli {
 	unsigned long long seed;       /* --seed */
 	bool seed_given;
 	bool help;
+	bool show_corrections;         /* report: correction rows apart in the table */
 };
 
 /*

@@ -67,6 +67,7 @@ void sch_result_init(struct sch_result *res)
 	res->transfer.f_low_hz = NAN;
 	res->transfer.f_high_hz = NAN;
 	res->transfer.enbw_hz = NAN;
+	res->input_gain_m = 1;
 }
 
 void sch_result_release(struct sch_result *res)
@@ -118,6 +119,7 @@ static enum sch_err analysis_core(const char *path, const struct sch_run_options
 	res->netlist = sch_arena_strdup(&res->arena, path);
 	if ((ret = sch_deck_load(&res->deck, path, d)) != SCH_OK ||
 	    (ret = sch_carriers_find(&res->deck, &opt->carriers, &res->arena, &res->set, d)) != SCH_OK ||
+	    (ret = sch_analysis_check_rules(&an)) != SCH_OK ||
 	    (ret = sch_analysis_plan_report(&an)) != SCH_OK ||
 	    (ret = sch_analysis_plan_lump(&an)) != SCH_OK ||
 	    (ret = sch_analysis_build_decks(&an)) != SCH_OK ||

@@ -230,6 +230,20 @@ enum sch_err sch_analysis_correct(struct sch_analysis *an, struct sch_row_build 
  */
 enum sch_err sch_analysis_integrate(struct sch_result *res, const struct sch_run_options *opt, struct sch_diag *d);
 
+/* rules.c */
+
+/*
+ * Refuses (SCH_ERR_USAGE) an --avalanche or --fano rule that matches no carrier but a diode,
+ * naming the carrier across that diode to use instead. SCH_ERR_INPUT for a bad regex.
+ */
+enum sch_err sch_analysis_check_rules(struct sch_analysis *an);
+
+/* A note per gain rule: M, k and F(M), or the Fano factor, and the carriers it set. SCH_ERR_NOMEM. */
+enum sch_err sch_analysis_note_rules(struct sch_analysis *an);
+
+/* The avalanche gain M of the carrier that is the noise input source; 1 without one. Can't fail. */
+double sch_analysis_input_gain(const struct sch_result *res);
+
 /* transfer.c */
 
 /*

@@ -6,6 +6,7 @@
 #include <math.h>
 #include <stdbool.h>
 #include "analysis_int.h"
+#include "schrot/si.h"
 #include "schrot/physics.h"
 
 /*
@@ -148,10 +149,13 @@ enum sch_err sch_analysis_correct(struct sch_analysis *an, struct sch_row_build 
 								      "(I_B - GMIN*(V_BE+V_BC), I_C + GMIN*V_BC)",
 								      n_bjt, n_bjt == 1 ? "" : "s"))) != SCH_OK)
 		return ret;
-	if (n_diodes)
+	if (n_diodes) {
+		char gmin[48];
 		return sch_analysis_note(an, sch_arena_printf(a, "junction correction applied to %d diode instance%s: "
 								 "2q*I_j*coth(qV_j/2kT) in place of the simulator's "
-								 "2q|I_D| (GMIN %g S kept out)",
-							      n_diodes, n_diodes == 1 ? "" : "s", rb->gmin));
+								 "2q|I_D| (GMIN %s kept out)",
+							      n_diodes, n_diodes == 1 ? "" : "s",
+							      sch_si_format(gmin, sizeof(gmin), rb->gmin, 3, "S")));
+	}
 	return SCH_OK;
 }

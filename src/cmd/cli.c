@@ -9,6 +9,7 @@
 #include <stdio.h>
 #include <stdlib.h>
 #include <string.h>
+#include <strings.h>
 #include "schrot/cli.h"
 #include "schrot/si.h"
 
@@ -134,12 +135,16 @@ static const struct cli_option options[] = {
 	{ "--lump", NULL, "REGEX", CMD_REPORT, OWN(set_lump, NULL),
 	  "matching resistors as one row (extracted parasitics; much faster)" },
 	{ "--avalanche", NULL, "REGEX=M:K", CMD_NETLIST, OWN(set_avalanche, "REGEX=M:K"),
-	  "avalanche gain M >= 1 and ionisation ratio k in [0,1]\n(McIntyre excess noise)" },
+	  "avalanche gain M >= 1 and ionisation ratio k in [0,1]\n(McIntyre excess noise); the netlist's current is the\nmultiplied terminal current M*I_p" },
 	{ "--fano", NULL, "REGEX=F", CMD_NETLIST, OWN(set_fano, "REGEX=F"), "shot noise scaled by the Fano factor F >= 0" },
 	{ "--no-junction-correction", NULL, NULL, CMD_REPORT | CMD_SWEEP, OWN(set_flag, NULL),
 	  "keep the simulator's own 2q|I_D| diode noise" },
+	{ "--show-corrections", NULL, NULL, CMD_REPORT, OWN(set_flag, NULL),
+	  "list each junction and bipolar correction as its own table row\n"
+	  "(default: added into the simulator row it corrects)" },
 	{ "--responsivity", NULL, "A_PER_W", CMD_REPORT,
-	  NUMBER(run.responsivity_a_per_w, CHECK_POSITIVE, "a positive value in A/W"), "detector responsivity, for NEP" },
+	  NUMBER(run.responsivity_a_per_w, CHECK_POSITIVE, "a positive value in A/W"),
+	  "unity-gain detector responsivity R0, for NEP; with --avalanche\non the input source NEP divides by R0*M" },
 	{ "--signal", NULL, "VALUE", CMD_REPORT, NUMBER(run.signal, CHECK_ANY, "a number in the input's unit"),
 	  "signal in the input's unit, for SNR at the output over the band" },
 	{ "--signal-freq", NULL, "F", CMD_REPORT,
@@ -283,13 +288,41 @@ static enum sch_err set_flag(struct sch_cli *cli, const struct cli_option *o, ch
 		cli->verbosity = 1;
 	else if (strcmp(o->name, "--help") == 0)
 		cli->help = true;
+	else if (strcmp(o->name, "--show-corrections") == 0)
+		cli->show_corrections = true;
 	else
 		cli->run.junction_correction = false;
 	return SCH_OK;
 }
 
+/*
+ * A frequency written with a capital M after its digits ("1MHz", "10M") reads as milli in SPICE,
+ * where M and m are both milli and mega is "meg": refused with the reading spelled out, since a
+ * frequency in millihertz written that way is far rarer than a megahertz one mistyped.
+ */
+static enum sch_err refuse_capital_m(const struct cli_option *o, const char *val, struct sch_diag *d)
+{
+	for (const char *p = val; *p; p++) {
+		const char *num = p, *end = p + 1;
+		if (p == val || p[0] != 'M' || !((p[-1] >= '0' && p[-1] <= '9') || p[-1] == '.') ||
+		    strncasecmp(p, "meg", 3) == 0)
+			continue;
+		while (num > val && ((num[-1] >= '0' && num[-1] <= '9') || num[-1] == '.'))
+			num--;
+		while (*end && *end != ':')
+			end++;
+		return sch_diag_error(d, SCH_ERR_USAGE, NULL, 0,
+				      "%s '%s': '%.*s' reads as %.*s mHz (SPICE's M is milli); write %.*smeg for "
+				      "megahertz (try 'schrot --help')",
+				      o->name, val, (int)(end - num), num, (int)(p - num), num, (int)(p - num), num);
+	}
+	return SCH_OK;
+}
+
 static enum sch_err set_band(struct sch_cli *cli, const struct cli_option *o, char *val, struct sch_diag *d)
 {
+	if (refuse_capital_m(o, val, d) != SCH_OK)
+		return SCH_ERR_USAGE;
 	if (sch_cli_parse_range(val, &cli->run.band_lo_hz, &cli->run.band_hi_hz) != SCH_OK)
 		return bad_value(o, val, d);
 	return SCH_OK;
@@ -301,7 +334,8 @@ static enum sch_err set_freq(struct sch_cli *cli, const struct cli_option *o, ch
 	char *last;
 	double ppd = 20;
 
-	(void)o;
+	if (refuse_capital_m(o, val, d) != SCH_OK)
+		return SCH_ERR_USAGE;
 	snprintf(buf, sizeof(buf), "%s", val);
 	last = strrchr(buf, ':');
 	if (last && strchr(buf, ':') != last) {
@@ -321,6 +355,8 @@ static enum sch_err set_spot(struct sch_cli *cli, const struct cli_option *o, ch
 	double *spot = &cli->spots[cli->run.n_spots];
 	if (cli->run.n_spots >= SCH_MAX_SPOTS)
 		return usage(d, "too many --spot frequencies (at most 32): '%s'", val);
+	if (refuse_capital_m(o, val, d) != SCH_OK)
+		return SCH_ERR_USAGE;
 	if (parse_number(val, spot) != SCH_OK || !(*spot > 0))
 		return bad_value(o, val, d);
 	cli->run.n_spots++;

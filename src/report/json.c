@@ -266,6 +266,7 @@ static json_t *result_json(const struct sch_result *r)
 		put(doc, "spot", spots_json(r, &bad), &bad);
 		put(doc, "contributions", contributions_json(r, &bad), &bad);
 		put(doc, "responsivity_a_per_w", num(r->responsivity_a_per_w), &bad);
+		put(doc, "input_gain_m", num(r->input_gain_m), &bad);
 		if (!isnan(r->signal))
 			put(doc, "snr", snr_json(r, &bad), &bad);
 		put(doc, "notes", notes_json(r, &bad), &bad);

@@ -57,7 +57,9 @@ for name, (opts, carriers, noiseless, largest) in DEMOS.items():
     netlist = "netlists/%s.cir" % name
 
     rc, out, err = schrot("report", netlist, *opts)
-    true("[D] %s: report exits 0 with nothing on stderr" % name, rc == 0 and err == "", err)
+    # the only message allowed: the demos' .noise ranges run past their stages' bandwidth (issue 13)
+    others = [l for l in err.splitlines() if "the transfer's -3 dB point" not in l]
+    true("[D] %s: report exits 0 with nothing on stderr but the band warning" % name, rc == 0 and not others, err)
     true("[D] %s: the table heads the report and names the simulator" % name,
          out.startswith("schrot noise report: " + netlist) and "simulator: ngspice-" in out, out[:200])
     true("[D] %s: the table ranks the contributions" % name, "largest share of the band's output noise power first"
