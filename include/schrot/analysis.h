@@ -179,6 +179,43 @@ enum sch_err sch_analysis_sweep(const char *path, const struct sch_run_options *
 				const double *values, size_t n_values, struct sch_result *res, struct sch_sweep *sweep,
 				struct sch_diag *d);
 
+/*
+ * One run of a batch: simulator commands that change the loaded circuit for that run only. A
+ * batch point starts from the circuit as loaded only when its commands begin with "reset" (which
+ * undoes every earlier alter and option); names in them must have passed sch_sim_name_is_safe.
+ */
+struct sch_batch_point {
+	const char *const *commands;
+	size_t n_commands;
+};
+
+/*
+ * A batch: the sweep's machinery (one loaded circuit per worker, opt->n_workers workers) with a
+ * change of its own per point. The hooks run in the calling process as each point arrives, in
+ * the order points finish; prepare before the point's rows are made (it may change the carriers'
+ * gains in res->set), take with the point's full result (rows ranked, band integrated; it must
+ * copy what it keeps, the rows are freed after it) and the values of quantities read after the
+ * point, undo after take (whatever happened). NULL hooks are skipped; a hook's error stops the run.
+ */
+struct sch_batch {
+	const struct sch_batch_point *points;
+	size_t n_points;
+	const char *const *quantities;  /* extra quantities ("@r.x1.rf[resistance]") read after each point */
+	size_t n_quantities;
+	enum sch_err (*prepare)(void *ctx, size_t k, struct sch_result *res);
+	enum sch_err (*take)(void *ctx, size_t k, const struct sch_result *res, const double *quantities);
+	void (*undo)(void *ctx, size_t k, struct sch_result *res);
+	void *ctx;
+};
+
+/*
+ * Runs the points of batch as a sweep does (mode SCH_RUN_REPORT only, at least one point). res
+ * ends with the values every point shares (names, band, temperature), no rows. Errors as
+ * sch_analysis_run; SCH_ERR_USAGE for an empty batch.
+ */
+enum sch_err sch_analysis_batch(const char *path, const struct sch_run_options *opt, const struct sch_batch *batch,
+				struct sch_result *res, struct sch_diag *d);
+
 /* Options with every default set (junction correction on, NaN band, one worker). Can't fail. */
 void sch_run_options_init(struct sch_run_options *opt);
 
