@@ -82,6 +82,11 @@ struct sch_run_options {
 	 */
 	void (*progress)(void *progress_ctx, size_t done, size_t total);
 	void *progress_ctx;
+	/*
+	 * Also read the value of every resistor, capacitor and current source instance after the run
+	 * (res->instance_values), so a later run can put it back. Single runs only.
+	 */
+	bool read_values;
 };
 
 struct sch_result {
@@ -111,6 +116,8 @@ struct sch_result {
 	double responsivity_a_per_w;    /* NaN: none */
 	double signal;                  /* NaN: none */
 	double snr;                     /* signal^2 / input_rms^2; NaN without a signal */
+	double *instance_values;        /* read_values: per set.instances entry, ohms, farads or an I source's DC
+					   amperes as the simulator holds them; NaN for other elements; else NULL */
 	double carrier_power_v2;        /* band power of all added carrier shot noise */
 	double shot_to_rest;            /* carrier_power_v2 / (everything else); NaN without carriers or rest */
 	const struct sch_contribution *dominant_other; /* the largest row of the device that leads the rest, or NULL */

@@ -116,7 +116,8 @@ static enum sch_err analysis_core(const char *path, const struct sch_run_options
 	    (ret = sch_analysis_plan_lump(&an)) != SCH_OK ||
 	    (ret = sch_analysis_build_decks(&an)) != SCH_OK ||
 	    (ret = sch_analysis_plan_quantities(res, &an.aug, &an.q)) != SCH_OK ||
-	    (ret = sch_analysis_batch_quantities(&an)) != SCH_OK)
+	    (ret = sch_analysis_batch_quantities(&an)) != SCH_OK ||
+	    (ret = sch_analysis_value_quantities(&an)) != SCH_OK)
 		goto out;
 	sch_analysis_plan_steps(&an);
 	if ((ret = sch_analysis_sweep_steps(&an)) != SCH_OK ||

@@ -28,6 +28,7 @@ struct lever_target {
 	const char *param;        /* R, C, I: "resistance", "capacitance", "dc" */
 	size_t quantity;          /* R, C, I: index into the batch's quantities */
 	size_t rule;              /* gain: index into the rules */
+	int inst;                 /* R, C, I: the instance */
 };
 
 /* The carriers of one --avalanche rule (the first rule a carrier's name matches). */
@@ -118,15 +119,19 @@ static struct lever_target *add_target(struct lever_ctx *c, enum sch_lever_kind 
 		c->targets = v;
 		c->cap_targets = cap;
 	}
-	c->targets[c->n_targets] = (struct lever_target){ kind, device, NULL, NULL, 0, 0 };
+	c->targets[c->n_targets] = (struct lever_target){ kind, device, NULL, NULL, 0, 0, -1 };
 	return &c->targets[c->n_targets++];
 }
 
-/* A value target (R, C, I) on instance in; false when its simulator name is not safe to use. */
+/*
+ * A value target (R, C, I) on instance in; a note instead when its simulator name is not safe to
+ * use or its value could not be read (or is zero: no factor changes it).
+ */
 static enum sch_err add_value_target(struct lever_ctx *c, enum sch_lever_kind kind, const struct sch_instance *in)
 {
 	static const char *const params[] = { "resistance", "capacitance", "dc" };
 	struct lever_target *t;
+	double v;
 
 	for (size_t k = 0; k < c->n_targets; k++) {
 		if (c->targets[k].device == in->path)
@@ -135,8 +140,12 @@ static enum sch_err add_value_target(struct lever_ctx *c, enum sch_lever_kind ki
 	if (!sch_sim_name_is_safe(in->sim_name))
 		return note(c, sch_arena_printf(c->a, "%s: its name cannot be passed to the simulator safely; not tried",
 						in->path));
+	v = c->base->instance_values ? c->base->instance_values[in - c->base->set.instances] : NAN;
+	if (!isfinite(v) || v == 0)
+		return note(c, sch_arena_printf(c->a, "%s: its value could not be read or is zero; not tried", in->path));
 	if (!(t = add_target(c, kind, in->path)))
 		return SCH_ERR_NOMEM;
+	t->inst = (int)(in - c->base->set.instances);
 	t->sim_name = in->sim_name;
 	t->param = params[kind == SCH_LEVER_RESISTANCE ? 0 : kind == SCH_LEVER_CAPACITANCE ? 1 : 2];
 	return SCH_OK;
@@ -313,7 +322,9 @@ static enum sch_err pick_gain_rules(struct lever_ctx *c)
 		bool ok = g->n > 0 && g->n <= MAX_GAIN_CARRIERS;
 		for (size_t k = 0; ok && k < g->n; k++) {
 			const struct sch_carrier *car = &set->carriers[g->carriers[k]];
-			ok = c->base->deck.elements[car->element].letter == 'i' && sch_sim_name_is_safe(car->sim_name);
+			double v = c->base->instance_values ? c->base->instance_values[car->instance] : NAN;
+			ok = c->base->deck.elements[car->element].letter == 'i' && sch_sim_name_is_safe(car->sim_name) &&
+			     isfinite(v) && v != 0;
 		}
 		g->saved_gain = sch_arena_alloc(c->a, (g->n + 1) * sizeof(double));
 		g->saved_excess = sch_arena_alloc(c->a, (g->n + 1) * sizeof(double));
@@ -376,33 +387,60 @@ static enum sch_err plan_points(struct lever_ctx *c)
 	return SCH_OK;
 }
 
-/* Point k's commands: a reset (the circuit as loaded), then its one change. */
+/* The number of commands that set target t (to its value or back). */
+static size_t target_commands(const struct lever_ctx *c, const struct lever_target *t)
+{
+	return t->kind == SCH_LEVER_GAIN ? c->rules[t->rule].n : 1;
+}
+
+/*
+ * Appends to cmds the commands that set target t to factor times its value in the unchanged
+ * circuit (factor 1: back to it). Values are absolute, so a point never depends on which point
+ * its worker ran before. The names passed sch_sim_name_is_safe when the target was made.
+ */
+static enum sch_err set_target(struct lever_ctx *c, const struct lever_target *t, double factor, const char **cmds,
+			       size_t *n)
+{
+	const struct sch_result *base = c->base;
+
+	if (t->kind == SCH_LEVER_TEMPERATURE) {
+		double t_c = base->temp_k - SCH_ZERO_C_K;
+		if (factor != 1)
+			t_c += factor > 1 ? c->lo->temp_step_k : -c->lo->temp_step_k;
+		return (cmds[(*n)++] = sch_arena_printf(c->a, "option temp=%.17g", t_c)) ? SCH_OK : SCH_ERR_NOMEM;
+	}
+	for (size_t i = 0; i < target_commands(c, t); i++) {
+		const struct sch_carrier *car = t->kind == SCH_LEVER_GAIN ? &base->set.carriers[c->rules[t->rule].carriers[i]]
+									  : NULL;
+		const char *sim = car ? car->sim_name : t->sim_name;
+		const char *param = car ? "dc" : t->param;
+		double v = base->instance_values[car ? car->instance : t->inst] * factor;
+		if (!(cmds[(*n)++] = sch_arena_printf(c->a, "alter @%s[%s]=%.17g", sim, param, v)))
+			return SCH_ERR_NOMEM;
+	}
+	return SCH_OK;
+}
+
+/* Point k's commands: every other target back to its value (a worker's earlier point may have changed it), then its own change. */
 static enum sch_err point_commands(struct lever_ctx *c, size_t k, struct sch_batch_point *bp)
 {
 	const struct lever_point *p = &c->points[k];
-	const struct lever_target *t = &c->targets[p->target];
-	size_t n_alter = t->kind == SCH_LEVER_GAIN ? c->rules[t->rule].n : 1;
-	const char **cmds = sch_arena_alloc(c->a, (n_alter + 2) * sizeof(*cmds));
+	size_t n_cmds = 0, n = 0;
+	const char **cmds;
+	enum sch_err ret;
 
-	if (!cmds)
+	for (size_t t = 0; t < c->n_targets; t++)
+		n_cmds += target_commands(c, &c->targets[t]);
+	if (!(cmds = sch_arena_alloc(c->a, (n_cmds + 1) * sizeof(*cmds))))
 		return SCH_ERR_NOMEM;
-	cmds[0] = "reset";
+	for (size_t t = 0; t < c->n_targets; t++) {
+		if (t != p->target && (ret = set_target(c, &c->targets[t], 1, cmds, &n)) != SCH_OK)
+			return ret;
+	}
+	if ((ret = set_target(c, &c->targets[p->target], p->factor, cmds, &n)) != SCH_OK)
+		return ret;
 	bp->commands = cmds;
-	bp->n_commands = 1 + n_alter;
-	if (t->kind == SCH_LEVER_TEMPERATURE) {
-		double t_c = c->base->temp_k - SCH_ZERO_C_K + (p->factor > 1 ? c->lo->temp_step_k : -c->lo->temp_step_k);
-		cmds[1] = sch_arena_printf(c->a, "option temp=%.17g", t_c);
-		return cmds[1] ? SCH_OK : SCH_ERR_NOMEM;
-	}
-	for (size_t i = 0; i < n_alter; i++) {
-		const char *sim = t->kind == SCH_LEVER_GAIN ? c->base->set.carriers[c->rules[t->rule].carriers[i]].sim_name
-							    : t->sim_name;
-		const char *param = t->kind == SCH_LEVER_GAIN ? "dc" : t->param;
-		/* the names passed sch_sim_name_is_safe when the target was made */
-		cmds[1 + i] = sch_arena_printf(c->a, "alter @%s[%s]=@%s[%s]*%.17g", sim, param, sim, param, p->factor);
-		if (!cmds[1 + i])
-			return SCH_ERR_NOMEM;
-	}
+	bp->n_commands = n;
 	return SCH_OK;
 }
 
@@ -493,8 +531,8 @@ static enum sch_err lever_take(void *ctx, size_t k, const struct sch_result *res
 			return SCH_ERR_NOMEM;
 	}
 	if (t->sim_name) {
-		l->new_value = quantities[t->quantity];
-		l->old_value = l->new_value / p->factor;
+		l->new_value = quantities[t->quantity]; /* read back: the change took effect */
+		l->old_value = c->base->instance_values[t->inst];
 	}
 	return SCH_OK;
 }
@@ -710,6 +748,7 @@ out:
 enum sch_err sch_levers_find(const char *path, const struct sch_run_options *opt, const struct sch_levers_options *lo,
 			     struct sch_result *base, struct sch_levers *out, struct sch_diag *d)
 {
+	struct sch_run_options base_opt;
 	struct lever_ctx c;
 	enum sch_err ret;
 
@@ -717,7 +756,9 @@ enum sch_err sch_levers_find(const char *path, const struct sch_run_options *opt
 	memset(&c, 0, sizeof(c));
 	out->factor = lo->factor;
 	out->temp_step_k = lo->temp_step_k;
-	if ((ret = sch_analysis_run(path, opt, base, d)) != SCH_OK)
+	base_opt = *opt;
+	base_opt.read_values = true;
+	if ((ret = sch_analysis_run(path, &base_opt, base, d)) != SCH_OK)
 		return ret;
 	c.base = base;
 	c.opt = opt;
