@@ -38,7 +38,7 @@ struct sch_lever {
 	double snr;                /* the SNR after the change; NaN without a signal */
 	const char *leader;        /* the leading contributor after the change (device of the top row) */
 	double leader_share;
-	double f_high_hz;          /* the transfer's -3 dB upper edge after the change; inf: none within the run */
+	double f_high_hz;          /* the transfer's -3 dB upper edge after the change (transfer.f_high_hz); NaN: none within the run */
 	bool bandwidth_warning;    /* the change put that edge below the band's top (and lowered it) */
 };
 
@@ -64,7 +64,7 @@ struct sch_levers {
 	double factor;             /* --factor */
 	double temp_step_k;        /* the temperature step, K */
 	double base_input_rms;     /* the unchanged circuit's input-referred band rms */
-	double base_f_high_hz;     /* its -3 dB upper edge (inf: none within the run) */
+	double base_f_high_hz;     /* its -3 dB upper edge (NaN: none within the run) */
 	double coverage;           /* band power share of the devices whose levers were tried */
 	size_t n_devices;          /* devices whose levers were tried */
 	size_t n_runs;             /* noise runs of the batch */
@@ -101,13 +101,6 @@ enum sch_err sch_levers_find(const char *path, const struct sch_run_options *opt
  * This function can't fail.
  */
 double sch_levers_gain_opt(double a, double b, double k_ratio, double m_max);
-
-/*
- * The transfer's -3 dB upper edge: the first frequency above the band's largest |transfer| where
- * |transfer|^2 falls to half of it (log-log interpolation); inf when it does not within the run.
- * NaN without a noise run. This function can't fail.
- */
-double sch_levers_f_high(const struct sch_result *res);
 
 /* Outputs (src/report/levers.c); r is the unchanged circuit's result that sch_levers_find filled. */
 

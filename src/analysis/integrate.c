@@ -1,7 +1,7 @@
 /* SPDX-License-Identifier: BSD-3-Clause */
 /*
  * integrate.c - the rows' spectra over the band: band powers, shares and ranking, the total
- * referred to the input (rms, NEP, SNR), and the densities at the spot frequencies.
+ * referred to the input through the transfer (rms, NEP, SNR), and the densities at the spots.
  */
 #include <math.h>
 #include <stdlib.h>
@@ -108,26 +108,31 @@ static bool has_nep(const struct sch_result *res, const struct sch_run_options *
 }
 
 /*
- * The total referred to the input through the squared gain (*input_psd, in res->arena), its rms
- * over the band, NEP over the band and SNR. SCH_ERR_NOMEM.
+ * The total's density referred to the input through the squared gain (*input_psd, in res->arena,
+ * for the spots); the band's figures through the transfer as designers sign them: input-referred
+ * rms = output rms / mid-band transfer, SNR at the output, NEP over the noise-equivalent bandwidth.
+ * SCH_ERR_NOMEM.
  */
 static enum sch_err refer_to_input(struct sch_result *res, const struct sch_run_options *opt, double **input_psd)
 {
 	size_t nf = res->n_freq;
 	double *psd = sch_arena_alloc(&res->arena, nf * sizeof(double));
+	const struct sch_transfer *t = &res->transfer;
 
 	if (!psd)
 		return SCH_ERR_NOMEM;
 	for (size_t i = 0; i < nf; i++)
 		psd[i] = res->gain2[i] > 0 ? res->total_psd[i] / res->gain2[i] : 0;
-	res->input_rms = sqrt(fabs(sch_spectra_band_power(res->freq_hz, psd, nf, res->band_lo_hz, res->band_hi_hz)));
+	res->input_rms = res->output_rms_v / t->mid_band;
 	res->responsivity_a_per_w = opt->responsivity_a_per_w;
 	res->signal = opt->signal;
 	res->nep_band_w_per_rthz = NAN;
-	if (has_nep(res, opt))
-		res->nep_band_w_per_rthz = res->input_rms / sqrt(res->band_hi_hz - res->band_lo_hz) / opt->responsivity_a_per_w;
-	if (!isnan(opt->signal) && res->input_rms > 0)
-		res->snr = opt->signal * opt->signal / (res->input_rms * res->input_rms);
+	if (has_nep(res, opt) && t->enbw_hz > 0)
+		res->nep_band_w_per_rthz = res->input_rms / sqrt(t->enbw_hz) / opt->responsivity_a_per_w;
+	if (!isnan(opt->signal) && res->total_power_v2 > 0) {
+		double out_signal = opt->signal * t->mid_band;
+		res->snr = out_signal * out_signal / res->total_power_v2;
+	}
 	*input_psd = psd;
 	return SCH_OK;
 }
@@ -180,7 +185,8 @@ enum sch_err sch_analysis_integrate(struct sch_result *res, const struct sch_run
 		return ret;
 	sum_rows(res, drop_tiny_corrections(res, band_powers(res)));
 	qsort(res->contributions, res->n_contributions, sizeof(*res->contributions), by_band_power);
-	if ((ret = sch_analysis_verdict(res)) != SCH_OK || (ret = refer_to_input(res, opt, &input_psd)) != SCH_OK)
+	if ((ret = sch_analysis_verdict(res)) != SCH_OK || (ret = sch_analysis_transfer(res, opt, d)) != SCH_OK ||
+	    (ret = refer_to_input(res, opt, &input_psd)) != SCH_OK)
 		return ret;
 	return take_spots(res, opt, input_psd, &range, d);
 }

@@ -5,7 +5,6 @@
  * avalanche rule.
  */
 #include <math.h>
-#include <stdint.h>
 #include <stdio.h>
 #include <stdlib.h>
 #include <string.h>
@@ -482,34 +481,6 @@ static void lever_undo(void *ctx, size_t k, struct sch_result *res)
 	}
 }
 
-double sch_levers_f_high(const struct sch_result *res)
-{
-	size_t peak = SIZE_MAX;
-	double g = 0;
-
-	if (!res->n_freq || !res->gain2)
-		return NAN;
-	for (size_t i = 0; i < res->n_freq; i++) {
-		double f = res->freq_hz[i];
-		if (f >= res->band_lo_hz * (1 - 1e-9) && f <= res->band_hi_hz * (1 + 1e-9) && res->gain2[i] > g) {
-			g = res->gain2[i];
-			peak = i;
-		}
-	}
-	if (peak == SIZE_MAX)
-		return NAN;
-	for (size_t i = peak + 1; i < res->n_freq; i++) {
-		double g0 = res->gain2[i - 1], g1 = res->gain2[i];
-		if (!(g1 < g / 2))
-			continue;
-		if (!(g0 > 0) || !(g1 > 0) || g0 == g1)
-			return res->freq_hz[i];
-		double t = (log(g / 2) - log(g0)) / (log(g1) - log(g0));
-		return exp(log(res->freq_hz[i - 1]) + t * (log(res->freq_hz[i]) - log(res->freq_hz[i - 1])));
-	}
-	return INFINITY;
-}
-
 /* What point k left: its input-referred noise, leader and bandwidth; the new value when read. */
 static enum sch_err lever_take(void *ctx, size_t k, const struct sch_result *res, const double *quantities)
 {
@@ -522,7 +493,7 @@ static enum sch_err lever_take(void *ctx, size_t k, const struct sch_result *res
 	if (t->kind == SCH_LEVER_GAIN)
 		l->input_rms /= p->factor; /* the signal is multiplied by the gain as the primary current is */
 	l->output_rms_v = res->output_rms_v;
-	l->f_high_hz = sch_levers_f_high(res);
+	l->f_high_hz = res->transfer.f_high_hz;
 	l->leader = NULL;
 	if (res->n_contributions) {
 		l->leader = sch_arena_strdup(c->a, res->contributions[0].device);
@@ -589,7 +560,9 @@ static enum sch_err finish_lever(struct lever_ctx *c, size_t k)
 		l->snr_change_db = -20 * log10(l->input_rms_ratio);
 		l->snr = c->base->snr / (l->input_rms_ratio * l->input_rms_ratio);
 	}
-	l->bandwidth_warning = l->f_high_hz < c->base->band_hi_hz && l->f_high_hz < c->out->base_f_high_hz * 0.99;
+	/* NaN: |H| does not fall 3 dB within the run */
+	l->bandwidth_warning = l->f_high_hz < c->base->band_hi_hz &&
+			       (isnan(c->out->base_f_high_hz) || l->f_high_hz < c->out->base_f_high_hz * 0.99);
 	return SCH_OK;
 }
 
@@ -767,7 +740,7 @@ enum sch_err sch_levers_find(const char *path, const struct sch_run_options *opt
 	c.a = &base->arena;
 	c.d = d;
 	out->base_input_rms = base->input_rms;
-	out->base_f_high_hz = sch_levers_f_high(base);
+	out->base_f_high_hz = base->transfer.f_high_hz;
 	if ((ret = pick_devices(&c)) != SCH_OK || !add_target(&c, SCH_LEVER_TEMPERATURE, "temp") ||
 	    (ret = pick_gain_rules(&c)) != SCH_OK || (ret = plan_points(&c)) != SCH_OK ||
 	    (ret = run_points(&c, path, d)) != SCH_OK || (ret = gain_curves(&c)) != SCH_OK)

@@ -44,10 +44,10 @@ static const char *in_unit(const struct sch_result *r)
 	return r->input_unit && strcmp(r->input_unit, "A") == 0 ? "A" : "V";
 }
 
-/* "23.4 kHz", "above the run" for no edge within the run, "-" for none. */
+/* "23.4 kHz", or "beyond the run" where |H| does not fall 3 dB within the simulated range. */
 static const char *edge_text(char *out, size_t size, double f)
 {
-	if (isinf(f))
+	if (!isfinite(f))
 		return "beyond the run";
 	return sch_si_format(out, size, f, 3, "Hz");
 }

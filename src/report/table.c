@@ -150,6 +150,48 @@ static const char *or_dash(const char *s)
 	return s && *s ? s : "-";
 }
 
+static bool current_input(const struct sch_result *r)
+{
+	return r->input_unit && strcmp(r->input_unit, "A") == 0;
+}
+
+const char *sch_report_transfer_unit(const struct sch_result *r)
+{
+	return current_input(r) ? "V/A" : "V/V";
+}
+
+const char *sch_report_transfer_value(const struct sch_result *r, char *out, size_t size)
+{
+	double h = r->transfer.mid_band;
+
+	if (!isfinite(h))
+		snprintf(out, size, "-");
+	else if (current_input(r))
+		sch_si_format(out, size, h, 3, "Ω");
+	else
+		snprintf(out, size, "%.3g V/V (%.1f dB)", h, 20.0 * log10(h));
+	return out;
+}
+
+const char *sch_report_bandwidth_text(const struct sch_result *r, char *out, size_t size)
+{
+	const struct sch_transfer *t = &r->transfer;
+	char lo[48], hi[48], nb[48], edges[128];
+
+	if (!isnan(t->f_low_hz) && !isnan(t->f_high_hz))
+		snprintf(edges, sizeof(edges), "-3 dB from %s to %s", sch_si_format(lo, sizeof(lo), t->f_low_hz, 3, "Hz"),
+			 sch_si_format(hi, sizeof(hi), t->f_high_hz, 3, "Hz"));
+	else if (!isnan(t->f_high_hz))
+		snprintf(edges, sizeof(edges), "-3 dB at %s", sch_si_format(hi, sizeof(hi), t->f_high_hz, 3, "Hz"));
+	else if (!isnan(t->f_low_hz))
+		snprintf(edges, sizeof(edges), "-3 dB below %s", sch_si_format(lo, sizeof(lo), t->f_low_hz, 3, "Hz"));
+	else
+		snprintf(edges, sizeof(edges), "no -3 dB point in the simulated range");
+	snprintf(out, size, "%s; noise-equivalent %s over the band", edges,
+		 sch_si_format(nb, sizeof(nb), t->enbw_hz, 3, "Hz"));
+	return out;
+}
+
 const char *sch_report_verdict(const struct sch_result *r, char *out, size_t size)
 {
 	char other[160] = "nothing else";
@@ -194,16 +236,23 @@ static void print_headline(const struct sch_result *r, FILE *out)
 	print_item(out, "band", line);
 	snprintf(line, sizeof(line), "%s rms", sch_si_format(a, sizeof(a), r->output_rms_v, 3, "V"));
 	print_item(out, "output noise", line);
-	snprintf(line, sizeof(line), "%s rms", sch_si_format(a, sizeof(a), r->input_rms, 3, unit));
+	snprintf(line, sizeof(line), "%s rms (output rms / mid-band transfer)",
+		 sch_si_format(a, sizeof(a), r->input_rms, 3, unit));
 	print_item(out, "input-referred", line);
+	snprintf(line, sizeof(line), "%s%s at %s", sch_report_transfer_value(r, a, sizeof(a)),
+		 current_input(r) ? " (transimpedance)" : "", sch_si_format(b, sizeof(b), r->transfer.ref_hz, 3, "Hz"));
+	print_item(out, "transfer", line);
+	print_item(out, "bandwidth", sch_report_bandwidth_text(r, line, sizeof(line)));
 	if (!isnan(r->signal)) {
 		double db = sch_report_db(r->snr);
-		snprintf(line, sizeof(line), "%.4g (%.1f dB) for a signal of %s", r->snr, db,
+		char c[64];
+		snprintf(line, sizeof(line), "%.4g (%.1f dB) at the output: %s of signal for a %s input", r->snr, db,
+			 sch_si_format(c, sizeof(c), fabs(r->signal * r->transfer.mid_band), 3, "V"),
 			 sch_si_format(a, sizeof(a), r->signal, 3, unit));
 		print_item(out, "SNR", line);
 	}
 	if (!isnan(r->nep_band_w_per_rthz)) {
-		snprintf(line, sizeof(line), "%s (band average, at %g A/W)",
+		snprintf(line, sizeof(line), "%s (band average over the noise bandwidth, at %g A/W)",
 			 sch_si_format(a, sizeof(a), r->nep_band_w_per_rthz, 3, "W/√Hz"), r->responsivity_a_per_w);
 		print_item(out, "NEP", line);
 	}
