@@ -75,7 +75,7 @@ enum sch_err sch_report_levers_table(const struct sch_result *r, const struct sc
 	fprintf(out, "schrot levers: %s, band %s to %s, input-referred %s rms unchanged\n", r->netlist,
 		sch_si_format(lo, sizeof(lo), r->band_lo_hz, 3, "Hz"), sch_si_format(hi, sizeof(hi), r->band_hi_hz, 3, "Hz"),
 		sch_si_format(in, sizeof(in), lv->base_input_rms, 4, in_unit(r)));
-	fprintf(out, "%zu devices tried (%.1f %% of the band power), %zu noise runs, factor %g, temperature +-%g K\n\n",
+	fprintf(out, "%zu devices considered (%.1f %% of the band power), %zu noise runs, factor %g, temperature +-%g K\n\n",
 		lv->n_devices, 100 * lv->coverage, lv->n_runs, lv->factor, lv->temp_step_k);
 	fprintf(out, "  %4s  %-30s  %14s  %8s  %8s  %-24s  %s\n", "rank", "change", "input-referred", "ratio",
 		snr ? "SNR dB" : "", "leader after", "-3 dB edge");
@@ -206,8 +206,8 @@ static json_t *levers_doc(const struct sch_result *r, const struct sch_levers *l
 	put(base, "leader", str(r->n_contributions ? r->contributions[0].device : NULL), &bad);
 	put(base, "leader_share", num(r->n_contributions ? r->contributions[0].share : NAN), &bad);
 	put(doc, "unchanged", base, &bad);
-	put(doc, "devices_tried", json_integer((json_int_t)lv->n_devices), &bad);
-	put(doc, "share_tried", num(lv->coverage), &bad);
+	put(doc, "devices_considered", json_integer((json_int_t)lv->n_devices), &bad);
+	put(doc, "share_considered", num(lv->coverage), &bad);
 	put(doc, "runs", json_integer((json_int_t)lv->n_runs), &bad);
 	for (size_t k = 0; k < lv->n_levers; k++)
 		bad |= json_array_append_new(levers, lever_json(&lv->levers[k], &bad)) != 0;
@@ -401,6 +401,10 @@ static enum sch_err draw_gain(cairo_t *cr, const void *ctx)
 			else
 				cairo_line_to(cr, x, y);
 		}
+		cairo_stroke(cr);
+		/* the rule's own gain: 0 dB by definition, an open circle */
+		cairo_arc(cr, FIG_L + (FIG_R - FIG_L) * log(g->gain_m) / log(m_top),
+			  FIG_B - (FIG_B - FIG_T) * (0 - lo) / (hi - lo), 4, 0, 2 * M_PI);
 		cairo_stroke(cr);
 		if (!isnan(g->gain_opt)) {
 			double x = FIG_L + (FIG_R - FIG_L) * log(g->gain_opt) / log(m_top);
