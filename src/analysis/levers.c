@@ -227,6 +227,46 @@ static enum sch_err add_capacitors(struct lever_ctx *c, const struct sch_instanc
 	return SCH_OK;
 }
 
+/* True when instances a and b share a node other than ground, in the same enclosing instance. */
+static bool share_node(const struct sch_deck *deck, const struct sch_instance *a, const struct sch_instance *b)
+{
+	const char *const *na, *const *nb;
+	int ka, kb;
+
+	if (a->parent != b->parent || deck->elements[a->element].subckt != deck->elements[b->element].subckt)
+		return false;
+	ka = sch_deck_element_nodes(deck, &deck->elements[a->element], &na);
+	kb = sch_deck_element_nodes(deck, &deck->elements[b->element], &nb);
+	for (int i = 0; i < ka; i++)
+		for (int j = 0; j < kb; j++)
+			if (strcmp(na[i], nb[j]) == 0 && strcmp(na[i], "0") != 0 && strcmp(na[i], "gnd") != 0)
+				return true;
+	return false;
+}
+
+/*
+ * A device without a value of its own (a transistor, a diode) is changed through the current
+ * sources at its nodes, its bias (never the input source), while there is room. *found counts them.
+ */
+static enum sch_err add_bias_sources(struct lever_ctx *c, const struct sch_instance *in, size_t *n_value, size_t *found)
+{
+	const struct sch_carrier_set *set = &c->base->set;
+	enum sch_err ret;
+
+	for (size_t k = 0; k < set->n_instances && *n_value < (size_t)c->lo->max_devices; k++) {
+		const struct sch_instance *src = &set->instances[k];
+		size_t before = c->n_targets;
+		if (src == in || c->base->deck.elements[src->element].letter != 'i' || !share_node(&c->base->deck, in, src) ||
+		    (c->base->input && src->parent < 0 && strcmp(src->path, c->base->input) == 0))
+			continue;
+		(*found)++;
+		if ((ret = add_value_target(c, SCH_LEVER_CURRENT, src)) != SCH_OK)
+			return ret;
+		*n_value += c->n_targets - before;
+	}
+	return SCH_OK;
+}
+
 /* The lever of one noisy device (and the capacitors across it); a note when it has none. */
 static enum sch_err device_levers(struct lever_ctx *c, const struct sch_instance *in, size_t *n_value)
 {
@@ -238,10 +278,13 @@ static enum sch_err device_levers(struct lever_ctx *c, const struct sch_instance
 		ret = note(c, sch_arena_printf(c->a, "%s: the input source; never a lever", in->path));
 	else if (letter == 'r' || letter == 'i')
 		ret = add_value_target(c, letter == 'r' ? SCH_LEVER_RESISTANCE : SCH_LEVER_CURRENT, in);
-	else
-		ret = note(c, sch_arena_printf(c->a, "%s: no value to change (element letter '%c'); its noise follows "
-						     "its operating point",
-					       in->path, letter));
+	else {
+		size_t found = 0;
+		if ((ret = add_bias_sources(c, in, n_value, &found)) == SCH_OK && found == 0)
+			ret = note(c, sch_arena_printf(c->a, "%s: no value to change (element letter '%c') and no current "
+							     "source at its nodes; its noise follows its operating point",
+						       in->path, letter));
+	}
 	if (ret != SCH_OK)
 		return ret;
 	*n_value += c->n_targets - before;

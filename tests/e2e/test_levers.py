@@ -2,8 +2,13 @@
 # SPDX-License-Identifier: BSD-3-Clause
 """schrot levers against closed forms: a transimpedance stage's input-referred noise as its values
 change, and the avalanche gain that maximises a receiver's SNR (shared/CHECK-VALUES.md row IDs)."""
+import json
 import math
-from schrot_check import run, close, true, finish, Q, K
+import os
+import subprocess
+from schrot_check import run, close, true, finish, Q, K, SCHROT
+
+ROOT = os.path.join(os.path.dirname(os.path.abspath(__file__)), "..", "..")
 
 T = 300.0  # .temp 26.85: 300 K exactly
 
@@ -148,6 +153,15 @@ if data:
 # (Ghatak & Thyagarajan, Introduction to Fiber Optics, CUP 1999, Example 13.8: M_opt = 41.6413).
 close("[A10] numerical optimiser on the F = M^x form", golden_max(
     lambda m: m * m / (2 * 1.6e-19 * 0.65 * 100e-9 * m ** 2.3 + 4 * 1.38e-23 * 300 / 1e3), 1, 1e4), 41.6413, 1e-4)
+
+# A transistor has no value of its own: the current source at its emitter, its bias, is the lever
+# (the hydrophone demo, invented). Checked as behaviour, no closed form: common practice, no source.
+proc = subprocess.run([SCHROT, "levers", "netlists/hydrophone-preamp.cir", "--json", "-"], cwd=ROOT,
+                      capture_output=True, text=True, timeout=300)
+hyd = json.loads(proc.stdout) if proc.returncode == 0 else None
+true("[levers] hydrophone: q1's bias source ibias is a current lever, both ways",
+     hyd is not None and {l["change"] for l in hyd["levers"] if l["device"] == "ibias"} ==
+     {"ibias 2m -> 1m", "ibias 2m -> 4m"}, proc.stderr)
 
 # Safety (DESIGN.md section 6): a name that is not safe never reaches a simulator command.
 rc, data, out, err = run("""a resistor whose name would run a command (invented)
