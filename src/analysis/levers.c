@@ -44,6 +44,12 @@ struct lever_point {
 	double factor;
 };
 
+/* Notes for the result, in base->arena. */
+struct note_list {
+	const char **v;
+	size_t n, cap;
+};
+
 struct lever_ctx {
 	struct sch_result *base;
 	const struct sch_run_options *opt;
@@ -59,10 +65,7 @@ struct lever_ctx {
 	size_t n_points;
 	const char **quantities;
 	size_t n_quantities;
-	struct sch_strlist_local {
-		const char **v;
-		size_t n, cap;
-	} notes;
+	struct note_list notes;
 };
 
 const char *sch_lever_kind_name(enum sch_lever_kind k)
@@ -330,8 +333,8 @@ out:
 	return ret;
 }
 
-/* Each carrier under the first --avalanche rule its name matches; a gain target per rule with carriers. */
-static enum sch_err pick_gain_rules(struct lever_ctx *c)
+/* Each carrier under the first --avalanche rule its name matches (c->rules). SCH_ERR_NOMEM. */
+static enum sch_err match_gain_rules(struct lever_ctx *c)
 {
 	const struct sch_carrier_options *co = &c->opt->carriers;
 	const struct sch_carrier_set *set = &c->base->set;
@@ -341,13 +344,19 @@ static enum sch_err pick_gain_rules(struct lever_ctx *c)
 	if (!pat || !(c->rules = sch_arena_alloc(c->a, (co->n_avalanche + 1) * sizeof(*c->rules))))
 		goto out;
 	for (size_t r = 0; r < co->n_avalanche; r++) {
+		struct gain_rule *g = &c->rules[r];
+		/* the same rules compiled for the first run: they cannot fail here */
 		if ((ret = sch_pattern_compile(&pat[r], co->avalanche[r].regex, SCH_PAT_CASELESS | SCH_PAT_WHOLE,
 					       "--avalanche", c->d)) != SCH_OK)
 			goto out;
-		c->rules[r].r = &co->avalanche[r];
-		c->rules[r].carriers = sch_arena_alloc(c->a, (set->n_carriers + 1) * sizeof(size_t));
-		if (!c->rules[r].carriers)
-			goto nomem;
+		g->r = &co->avalanche[r];
+		g->carriers = sch_arena_alloc(c->a, (set->n_carriers + 1) * sizeof(size_t));
+		g->saved_gain = sch_arena_alloc(c->a, (set->n_carriers + 1) * sizeof(double));
+		g->saved_excess = sch_arena_alloc(c->a, (set->n_carriers + 1) * sizeof(double));
+		if (!g->carriers || !g->saved_gain || !g->saved_excess) {
+			ret = SCH_ERR_NOMEM;
+			goto out;
+		}
 	}
 	c->n_rules = co->n_avalanche;
 	for (size_t k = 0; k < set->n_carriers; k++) {
@@ -359,23 +368,41 @@ static enum sch_err pick_gain_rules(struct lever_ctx *c)
 		}
 	}
 	ret = SCH_OK;
+out:
+	for (size_t r = 0; pat && r < co->n_avalanche; r++)
+		sch_pattern_free(pat[r]);
+	free(pat);
+	return ret;
+}
+
+/* True when every carrier of g is a current source whose value can be read and changed. */
+static bool gain_changeable(const struct lever_ctx *c, const struct gain_rule *g)
+{
+	const struct sch_result *base = c->base;
+
+	if (g->n == 0 || g->n > MAX_GAIN_CARRIERS || !base->instance_values)
+		return false;
+	for (size_t k = 0; k < g->n; k++) {
+		const struct sch_carrier *car = &base->set.carriers[g->carriers[k]];
+		double v = base->instance_values[car->instance];
+		if (base->deck.elements[car->element].letter != 'i' || !sch_sim_name_is_safe(car->sim_name) ||
+		    !isfinite(v) || v == 0)
+			return false;
+	}
+	return true;
+}
+
+/* A gain target per --avalanche rule with carriers; a note for a rule whose gain cannot be tried. */
+static enum sch_err pick_gain_rules(struct lever_ctx *c)
+{
+	enum sch_err ret = match_gain_rules(c);
+
 	for (size_t r = 0; r < c->n_rules && ret == SCH_OK; r++) {
-		struct gain_rule *g = &c->rules[r];
-		bool ok = g->n > 0 && g->n <= MAX_GAIN_CARRIERS;
-		for (size_t k = 0; ok && k < g->n; k++) {
-			const struct sch_carrier *car = &set->carriers[g->carriers[k]];
-			double v = c->base->instance_values ? c->base->instance_values[car->instance] : NAN;
-			ok = c->base->deck.elements[car->element].letter == 'i' && sch_sim_name_is_safe(car->sim_name) &&
-			     isfinite(v) && v != 0;
-		}
-		g->saved_gain = sch_arena_alloc(c->a, (g->n + 1) * sizeof(double));
-		g->saved_excess = sch_arena_alloc(c->a, (g->n + 1) * sizeof(double));
-		if (!g->saved_gain || !g->saved_excess)
-			goto nomem;
-		if (ok) {
-			struct lever_target *t = add_target(c, SCH_LEVER_GAIN, set->carriers[g->carriers[0]].name);
-			if (!t)
-				goto nomem;
+		const struct gain_rule *g = &c->rules[r];
+		struct lever_target *t;
+		if (gain_changeable(c, g)) {
+			if (!(t = add_target(c, SCH_LEVER_GAIN, c->base->set.carriers[g->carriers[0]].name)))
+				return SCH_ERR_NOMEM;
 			t->rule = r;
 		} else if (g->n > 0) {
 			ret = note(c, sch_arena_printf(c->a, "--avalanche '%s': gain not tried (its carriers must be current "
@@ -383,13 +410,6 @@ static enum sch_err pick_gain_rules(struct lever_ctx *c)
 						       g->r->regex, MAX_GAIN_CARRIERS));
 		}
 	}
-	goto out;
-nomem:
-	ret = SCH_ERR_NOMEM;
-out:
-	for (size_t r = 0; pat && r < co->n_avalanche; r++)
-		sch_pattern_free(pat[r]);
-	free(pat);
 	return ret;
 }
 
