@@ -41,6 +41,8 @@ struct sch_element {
 	int n_tok;
 	int card;            /* index into deck->cards */
 	int subckt;          /* enclosing definition, -1 at top level */
+	int n_nodes;         /* D, Q, M, J: the node tokens before the model name, decided at load from the
+			      * model's type and level as the simulator decides them; 0 for other letters */
 };
 
 struct sch_subckt {
@@ -56,6 +58,7 @@ struct sch_subckt {
 struct sch_model {
 	const char *name;    /* lower case */
 	const char *type;    /* lower case: "d", "npn", "pnp", "nmos", ... */
+	int level;           /* the card's level, read as the simulator reads it; 1 without one */
 	int card;
 	int subckt;          /* definition it is local to, -1 global */
 };
@@ -132,8 +135,10 @@ int sch_deck_find_model(const struct sch_deck *deck, const char *name, int scope
 
 /*
  * Sets *nodes to the element's node tokens and returns their number (0 when the element has none
- * or is malformed). X: the ports before the subcircuit name; Q: 3 or 4 (4 when the fourth token
- * is not a model name); behavioural G/E (value=, cur=, vol=): 2; R C L D I V B F H: 2; M: 4; J: 3.
+ * or is malformed). X: the ports before the subcircuit name; D, Q, M, J: the tokens before the
+ * model name (D 2, or 3 with a thermal node; Q 3 to 5, the fourth a substrate and the fifth a
+ * thermal node; M 4, a vdmos model 3 to 5, SOI levels up to 7; J 3); behavioural G/E (value=,
+ * cur=, vol=): 2; R C L I V B F H: 2.
  */
 int sch_deck_element_nodes(const struct sch_deck *deck, const struct sch_element *e, const char *const **nodes);
 

@@ -43,6 +43,7 @@ struct reader {
 	const struct src *stack[SCH_MAX_INCLUDE_DEPTH + 1];
 	int depth;
 	int n_opens;
+	long script_line; /* line of a '*ng_script' title marker in the top file, 0 without one */
 };
 
 static enum sch_err read_source(struct reader *r, struct src *src, const char *text, size_t len);
@@ -275,6 +276,29 @@ static const char *identity(struct sch_arena *a, const char *path)
 }
 
 /*
+ * Length of an included file's text without the DOS end-of-file byte (0x1A, control-Z) that old
+ * vendor model files carry after their last line, with a note; len when there is none. Only blanks
+ * and line ends may follow it. Anywhere else 0x1A stays a control character, which check_text
+ * refuses (in the top netlist too).
+ */
+static size_t without_dos_eof(struct reader *r, const char *path, const char *text, size_t len)
+{
+	size_t n = len;
+	long line = 1;
+
+	while (n && (is_blank(text[n - 1]) || text[n - 1] == '\n'))
+		n--;
+	if (!n || text[n - 1] != 0x1a)
+		return len;
+	while (n && text[n - 1] == 0x1a)
+		n--;
+	for (const char *p = text; (p = memchr(p, '\n', (size_t)(text + n - p))); p++)
+		line++;
+	sch_diag_report(r->ld.d, SCH_NOTE, path, line, "DOS end-of-file byte (0x1a) after the last line: ignored");
+	return n;
+}
+
+/*
  * Reads path (named by the card at inc_file:inc_line) as an include file or, when section is
  * given, for that library section.
  */
@@ -329,6 +353,7 @@ static enum sch_err open_source(struct reader *r, const char *path, const char *
 	}
 	if (ret != SCH_OK)
 		goto out;
+	len = without_dos_eof(r, path, text, len);
 	ret = SCH_ERR_NOMEM;
 	if (note_file(r, path, src.id) != SCH_OK)
 		goto out;
@@ -475,9 +500,11 @@ static enum sch_err take_title(struct reader *r, struct src *src, const char *s,
 		return SCH_ERR_NOMEM;
 	while (b < n && is_blank(s[b]))
 		b++;
-	if (ci_prefix(s + b, n - b, "*ng_script"))
+	if (ci_prefix(s + b, n - b, "*ng_script")) {
+		r->script_line = 1;
 		sch_diag_report(r->ld.d, SCH_WARNING, src->path, 1,
 				"title starts with '*ng_script': it is kept as a title and never run as a script");
+	}
 	return SCH_OK;
 }
 
@@ -616,9 +643,11 @@ static enum sch_err read_line(struct reader *r, struct src *src, struct lines *l
 	if (ls->title_blank) {
 		/* ngspice looks for the script marker past a blank first line too. */
 		ls->title_blank = false;
-		if (ci_prefix(s + b, n - b, "*ng_script"))
+		if (ci_prefix(s + b, n - b, "*ng_script")) {
+			r->script_line = ls->lineno;
 			sch_diag_report(r->ld.d, SCH_WARNING, src->path, ls->lineno,
 					"'*ng_script' after a blank title is a comment here and never run");
+		}
 	}
 	s += b;
 	n -= b;
@@ -729,6 +758,10 @@ enum sch_err sch_deck_load_text(struct sch_deck *deck, const char *name, const c
 		goto out;
 	r.stack[r.depth++] = &top;
 	ret = read_source(&r, &top, text, len);
+	/* The simulator would run such a file as commands: it is a script, not a netlist to report on. */
+	if (ret == SCH_OK && r.script_line && r.ld.n_elements == 0)
+		ret = sch_diag_error(d, SCH_ERR_INPUT, name, r.script_line,
+				     "a '*ng_script' title and no circuit: the file is a simulator script, not a netlist");
 	if (ret == SCH_OK)
 		ret = sch_deck_load_finish(&r.ld);
 out:

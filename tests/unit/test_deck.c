@@ -1059,6 +1059,143 @@ static void test_deck__quotes_are_short_and_never_from_included_files(void)
 	sch_deck_release(&deck);
 }
 
+/* ---- vendor library syntax (issue 12) ----------------------------------------------------------- */
+
+static void test_deck__ends_with_glued_text_closes_the_subckt(void)
+{
+	struct sch_deck deck;
+
+	CHECK(load_text(&deck, "t\n.subckt amp a b\nr1 a b 1k\n.ENDS* AMP-X \"enhanced\"\n"
+				".subckt clamp a\nr1 a 0 1k\n.ends*\nx1 p q amp\nx2 p clamp\nr2 p 0 1k\n") == SCH_OK);
+	CHECK(deck.n_subckts == 2);
+	if (deck.n_subckts == 2) {
+		CHECK(deck.subckts[0].card_end >= 0 && deck.subckts[1].card_end >= 0);
+		/* the simulator is handed a plain '.ends', none of the glued text */
+		CHECK_STR(deck.cards[deck.subckts[0].card_end].text, ".ends");
+		CHECK_STR(deck.cards[deck.subckts[0].card_end].keyword, ".ends");
+		CHECK_STR(deck.cards[deck.subckts[1].card_end].text, ".ends");
+	}
+	sch_deck_release(&deck);
+	expect_error("t\nr1 a 0 1k\n.ENDS* AMP-X\n", INLINE_NAME ":3: '.ends' without '.subckt'");
+}
+
+/* Writes text (len bytes) to dir/name; false when it cannot. */
+static bool put_file(const char *dir, const char *name, const char *text, size_t len)
+{
+	char path[512];
+	FILE *f;
+	bool ok;
+
+	snprintf(path, sizeof(path), "%s/%s", dir, name);
+	if (!(f = fopen(path, "wb")))
+		return false;
+	ok = fwrite(text, 1, len, f) == len;
+	return fclose(f) == 0 && ok;
+}
+
+static void test_deck__dos_eof_byte_ends_an_included_file_only(void)
+{
+	static const char model[] = "* old model file\r\n.model dsense d is=20p\r\n\x1a";
+	static const char middle[] = ".model dmid d is=20p\x1a n=1\n";
+	static const char top[] = "t\n.include old.mod\nd1 a 0 dsense\nr1 a 0 1k\n";
+	static const char top_mid[] = "t\n.include mid.mod\nr1 a 0 1k\n";
+	static const char own[] = "t\nr1 a 0 1k\n\x1a";
+	char dir[] = "/tmp/schrot-deck-eofXXXXXX";
+	char path[512], *notes = NULL;
+	size_t notes_len = 0;
+	struct sch_deck deck;
+	struct sch_diag verbose;
+	FILE *sink;
+
+	CHECK(mkdtemp(dir) != NULL);
+	CHECK(put_file(dir, "old.mod", model, sizeof(model) - 1));
+	CHECK(put_file(dir, "mid.mod", middle, sizeof(middle) - 1));
+	CHECK(put_file(dir, "top.cir", top, strlen(top)));
+	CHECK(put_file(dir, "mid.cir", top_mid, strlen(top_mid)));
+	CHECK(put_file(dir, "own.cir", own, strlen(own)));
+	/* accepted after the last line of an included file, with a note */
+	sink = open_memstream(&notes, &notes_len);
+	CHECK(sink != NULL);
+	sch_deck_init(&deck);
+	sch_diag_init(&verbose, sink, 1);
+	snprintf(path, sizeof(path), "%s/top.cir", dir);
+	CHECK(sch_deck_load(&deck, path, &verbose) == SCH_OK);
+	CHECK(deck.n_models == 1 && deck.n_elements == 2);
+	if (sink)
+		fclose(sink);
+	snprintf(path, sizeof(path), "%s/old.mod:3: note: DOS end-of-file byte (0x1a) after the last line: ignored", dir);
+	CHECK(notes && strstr(notes, path) != NULL);
+	free(notes);
+	sch_deck_release(&deck);
+	/* refused inside a card, and in the netlist itself */
+	sch_deck_init(&deck);
+	sch_diag_init(&diag, NULL, 0);
+	snprintf(path, sizeof(path), "%s/mid.cir", dir);
+	CHECK(sch_deck_load(&deck, path, &diag) == SCH_ERR_INPUT);
+	snprintf(path, sizeof(path), "%s/mid.mod:1: control character 0x1a in the text", dir);
+	CHECK_STR(diag.first_error, path);
+	sch_deck_release(&deck);
+	sch_diag_init(&diag, NULL, 0);
+	snprintf(path, sizeof(path), "%s/own.cir", dir);
+	CHECK(sch_deck_load(&deck, path, &diag) == SCH_ERR_INPUT);
+	snprintf(path, sizeof(path), "%s/own.cir:3: control character 0x1a in the text", dir);
+	CHECK_STR(diag.first_error, path);
+	sch_deck_release(&deck);
+	for (const char *const *f = (const char *const[]){ "old.mod", "mid.mod", "top.cir", "mid.cir", "own.cir", NULL };
+	     *f; f++) {
+		snprintf(path, sizeof(path), "%s/%s", dir, *f);
+		unlink(path);
+	}
+	rmdir(dir);
+}
+
+static void test_deck__node_counts_follow_the_model_type_and_keywords(void)
+{
+	static const struct {
+		const char *name;
+		int n;
+	} want[] = {
+		{ "m1", 3 }, { "m2", 5 }, { "m3", 4 }, { "m4", 6 }, { "q1", 5 }, { "q2", 4 }, { "q3", 4 },
+		{ "q4", 3 }, { "q5", 5 }, { "d1", 3 }, { "d2", 2 }, { "d3", 3 },
+	};
+	struct sch_deck deck;
+	const char *const *nodes;
+
+	CHECK(load_text(&deck, "nodes\n.model pwr-n1 vdmos nchan vto=2\n.model nm nmos level=1\n"
+				".model soi nmos level=10\n.model qv npn level=4 rth=300\n.model qv9 pnp(level=9)\n"
+				".model qh npn level = 8\n.model qg npn\n.model dm d is=1e-14 rth0=500\n"
+				"m1 d g s pwr-n1\nm2 d g s tj tc pwr-n1 thermal\nm3 d g s b nm w=1u\n"
+				"m4 d g s e p b soi\nq1 c b e s dt qv area=1\nq2 c b e s qv9\nq3 c b e s qg\n"
+				"q4 c b e qg 2\nq5 c b e 0 0 qh\nd1 a k tj dm thermal\nd2 a k dm 2\nd3 a k tj dm\n") == SCH_OK);
+	for (size_t i = 0; i < sizeof(want) / sizeof(want[0]); i++) {
+		const struct sch_element *e = element(&deck, want[i].name);
+		int got = e ? sch_deck_element_nodes(&deck, e, &nodes) : -1;
+
+		if (got != want[i].n)
+			fprintf(stderr, "  %s: %d nodes, want %d\n", want[i].name, got, want[i].n);
+		CHECK(got == want[i].n);
+	}
+	sch_deck_release(&deck);
+	/* three nodes are a vdmos model's privilege; five a VBIC's or HICUM's */
+	expect_error("t\nm1 d g s nm\n.model nm nmos\n", INLINE_NAME ":2: too few fields for 'm1': needs 4 nodes and a model");
+	expect_error("t\nq1 c b e s dt qg\n.model qg npn\n",
+		     INLINE_NAME ":2: 'q1' connects 5 nodes but its npn model (level 1) takes at most 4");
+	/* the missing model is named, not the thermal node before it */
+	expect_error("t\nd1 a k tj dmiss thermal\n", INLINE_NAME ":2: model 'dmiss' is not defined");
+	expect_error("t\nq1 c b e s dt qmiss area=1\n", INLINE_NAME ":2: model 'qmiss' is not defined");
+	expect_error("t\nm1 d g s irf-x\n", INLINE_NAME ":2: model 'irf-x' is not defined");
+}
+
+static void test_deck__script_title_without_a_circuit_is_bad_input(void)
+{
+	expect_error("*ng_script light-sensor batch run\n",
+		     INLINE_NAME ":1: a '*ng_script' title and no circuit: the file is a simulator script, not a netlist");
+	expect_error("*NG_SCRIPT\n.control\nsource other.cir\nrun\n.endc\n.end\n",
+		     INLINE_NAME ":1: a '*ng_script' title and no circuit: the file is a simulator script, not a netlist");
+	expect_error("\n*ng_script after a blank title\n.param a=1\n",
+		     INLINE_NAME ":2: a '*ng_script' title and no circuit: the file is a simulator script, not a netlist");
+}
+
 CHECK_MAIN(CASE(test_deck__joins_plus_continuation_lines), CASE(test_deck__drops_star_comment_lines),
 	   CASE(test_deck__strips_semicolon_and_dollar_comments),
 	   CASE(test_deck__comment_only_line_does_not_end_a_card), CASE(test_deck__title_is_never_a_card),
@@ -1092,4 +1229,8 @@ CHECK_MAIN(CASE(test_deck__joins_plus_continuation_lines), CASE(test_deck__drops
 	   CASE(test_deck__include_of_a_fifo_fails_at_once),
 	   CASE(test_deck__rejects_noise_output_at_a_node_nothing_touches),
 	   CASE(test_deck__rejects_current_source_without_dc_path),
-	   CASE(test_deck__quotes_are_short_and_never_from_included_files))
+	   CASE(test_deck__quotes_are_short_and_never_from_included_files),
+	   CASE(test_deck__ends_with_glued_text_closes_the_subckt),
+	   CASE(test_deck__dos_eof_byte_ends_an_included_file_only),
+	   CASE(test_deck__node_counts_follow_the_model_type_and_keywords),
+	   CASE(test_deck__script_title_without_a_circuit_is_bad_input))
