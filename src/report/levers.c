@@ -72,9 +72,12 @@ enum sch_err sch_report_levers_table(const struct sch_result *r, const struct sc
 	char lo[32], hi[32], in[32], edge[32];
 	bool snr = !isnan(r->snr);
 
-	fprintf(out, "schrot levers: %s, band %s to %s, input-referred %s rms unchanged\n", r->netlist,
-		sch_si_format(lo, sizeof(lo), r->band_lo_hz, 3, "Hz"), sch_si_format(hi, sizeof(hi), r->band_hi_hz, 3, "Hz"),
-		sch_si_format(in, sizeof(in), lv->base_input_rms, 4, in_unit(r)));
+	fprintf(out, "schrot levers: %s, band %s to %s\n", r->netlist, sch_si_format(lo, sizeof(lo), r->band_lo_hz, 3, "Hz"),
+		sch_si_format(hi, sizeof(hi), r->band_hi_hz, 3, "Hz"));
+	fprintf(out, "unchanged: input-referred %s rms, led by %s (%.0f %%), -3 dB edge %s\n",
+		sch_si_format(in, sizeof(in), lv->base_input_rms, 4, in_unit(r)),
+		r->n_contributions ? r->contributions[0].device : "-",
+		r->n_contributions ? 100 * r->contributions[0].share : 0.0, edge_text(edge, sizeof(edge), lv->base_f_high_hz));
 	fprintf(out, "%zu devices considered (%.1f %% of the band power), %zu noise runs, factor %g, temperature +-%g K\n\n",
 		lv->n_devices, 100 * lv->coverage, lv->n_runs, lv->factor, lv->temp_step_k);
 	fprintf(out, "  %4s  %-30s  %14s  %8s  %8s  %-24s  %s\n", "rank", "change", "input-referred", "ratio",
