@@ -54,6 +54,12 @@ int cmd_levers(int argc, char **argv, struct sch_ctx *ctx)
 				     "--factor needs a number above 1, not '%g' (try 'schrot levers --help')", cli.lever_factor);
 		goto out;
 	}
+	if (cli.plot_path && cli.run.carriers.n_avalanche == 0) {
+		ret = sch_diag_error(&ctx->diag, SCH_ERR_USAGE, NULL, 0,
+				     "levers --plot draws SNR against avalanche gain: it needs an --avalanche rule "
+				     "(try 'schrot levers --help')");
+		goto out;
+	}
 	sch_levers_options_init(&lo);
 	lo.factor = cli.lever_factor;
 	lo.max_devices = cli.lever_max;
