@@ -120,6 +120,12 @@ struct sch_result {
 	const char *input_unit;         /* "A" for a current source, "V" for a voltage source */
 	double band_lo_hz, band_hi_hz;
 	double run_lo_hz, run_hi_hz;    /* the noise run's requested frequency range */
+	/*
+	 * A spot run (start == stop, one frequency): every band figure (rms, band power, NEP over the
+	 * band, SNR) is NaN, the spots hold that frequency, and shares and the verdict are of the
+	 * output noise power density there.
+	 */
+	bool spot_run;
 	size_t n_freq;
 	double *freq_hz;
 	double *total_psd;              /* V^2/Hz: sum of every contribution's psd */

@@ -63,7 +63,12 @@ struct sch_model {
 	int subckt;          /* definition it is local to, -1 global */
 };
 
-/* The deck's own .noise line, tokens as written (lower case). present is false without one. */
+/*
+ * The deck's own .noise line, tokens as written (lower case). present is false without one. When
+ * the deck has no .noise line but a .control block holds a noise command, the reader rebuilds a
+ * .noise card from that command's checked tokens (from_control; the card's file and line are the
+ * command's) and the block itself is still never run.
+ */
 struct sch_noise_spec {
 	bool present;
 	const char *output;          /* "v(out)" or "v(out,ref)" */
@@ -74,6 +79,7 @@ struct sch_noise_spec {
 	const char *f_stop;
 	const char *pts_per_summary; /* NULL when absent */
 	int card;
+	bool from_control;           /* read from a .control block's noise command */
 };
 
 /*
@@ -97,6 +103,12 @@ struct sch_deck {
 	struct sch_noise_spec noise;
 	int n_dropped_control;       /* .control blocks skipped */
 	int n_dropped_script;        /* '*#' lines skipped */
+	/*
+	 * What the reader took from .control blocks as data and what it left out, one sentence each,
+	 * for reports (the same text also goes to the diagnostics as notes); n_notes 0 when none.
+	 */
+	const char **notes;
+	size_t n_notes;
 };
 
 /* One leaf element instance of the expanded hierarchy. */

@@ -289,6 +289,29 @@ static double probe_ohms(const struct sch_carrier *c, double temp_k)
 	return s / (4.0 * SCH_SIM_K * temp_k);
 }
 
+/*
+ * Whether a noise command as the analysis builds it ("noise OUT IN SWEEP N F1 F2 [PTS]", numbers
+ * printed the same way) has equal start and stop frequencies: a spot run.
+ */
+static bool spot_command(const char *cmd)
+{
+	const char *tok[8];
+	size_t n = 0, len[8];
+
+	for (const char *p = cmd; *p && n < 8;) {
+		while (*p == ' ')
+			p++;
+		if (!*p)
+			break;
+		tok[n] = p;
+		while (*p && *p != ' ')
+			p++;
+		len[n] = (size_t)(p - tok[n]);
+		n++;
+	}
+	return n >= 7 && len[5] == len[6] && strncmp(tok[5], tok[6], len[5]) == 0;
+}
+
 enum sch_err sch_augment_write(const struct sch_augmented *aug, const struct sch_carrier_set *set, double temp_k,
 			       const char *noise_command, struct sch_arena *arena, FILE *out, struct sch_diag *d)
 {
@@ -325,11 +348,19 @@ enum sch_err sch_augment_write(const struct sch_augmented *aug, const struct sch
 		fprintf(out, "alter @%s[resistance]=%.17g\n", name, probe_ohms(c, temp_k));
 	}
 	/* batch ngspice exits 1 on a deck without .print lines; exit 0 only when the totals exist */
-	fprintf(out,
-		"%s\nprint onoise_total inoise_total\n"
-		"* schrot: exit status 0 only when the noise run produced its totals\n"
-		"if length(onoise_total) = 1\n  quit 0\nend\nquit 1\n.endc\n.end\n",
-		noise_command);
+	if (spot_command(noise_command))
+		fprintf(out,
+			"%s\nprint onoise_spectrum inoise_spectrum\n"
+			"* schrot: a single-frequency run has no totals (no noise2 plot): exit status 0 only when\n"
+			"* it produced its one density\n"
+			"if length(onoise_spectrum) = 1\n  quit 0\nend\nquit 1\n.endc\n.end\n",
+			noise_command);
+	else
+		fprintf(out,
+			"%s\nprint onoise_total inoise_total\n"
+			"* schrot: exit status 0 only when the noise run produced its totals\n"
+			"if length(onoise_total) = 1\n  quit 0\nend\nquit 1\n.endc\n.end\n",
+			noise_command);
 	if (ferror(out)) {
 		ret = sch_diag_error(d, SCH_ERR_IO, NULL, 0, "could not write the augmented deck");
 		goto out;

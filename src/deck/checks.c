@@ -225,7 +225,8 @@ static enum sch_err check_noise_nodes(struct sch_deck_load *ld)
 
 			snprintf(name, sizeof(name), "%.*s", (int)len, p);
 			return sch_diag_error(ld->d, SCH_ERR_INPUT, c->file, c->line,
-					      "'.noise' output node%s is not a node of any element at the top level",
+					      "%s output node%s is not a node of any element at the top level",
+					      ns->from_control ? "the '.control' noise command's" : "'.noise'",
 					      sch_deck_quote(ld->deck, c->file, name, "", q, sizeof(q)));
 		}
 		p += len + (p[len] == ',');

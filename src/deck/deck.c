@@ -513,6 +513,8 @@ struct lines {
 	struct sch_buf card; /* the pending card, continuation lines joined with one blank */
 	long card_line;      /* line the pending card started on */
 	bool pending;        /* card holds a card not yet handed on */
+	bool in_control;     /* ... a line of a .control block, read as data only */
+	bool control_odd;    /* ... which holds bytes other than printable ASCII */
 	bool need_title;     /* the next line is the top file's title */
 	bool title_blank;    /* the title was blank and the first line after it is still to come */
 	long lineno;
@@ -541,13 +543,23 @@ static enum sch_err title_line(struct reader *r, struct src *src, struct lines *
 	return ret;
 }
 
+/* Hands on the pending card: a .control block's line to the block's reader, any other to flush_card. */
+static enum sch_err flush_pending(struct reader *r, struct src *src, struct lines *ls)
+{
+	ls->pending = false;
+	if (ls->in_control)
+		return sch_deck_control_line(&r->ld, src->path, ls->card_line, ls->card.data, ls->card.len,
+					     ls->control_odd);
+	return flush_card(r, src, ls->card_line, ls->card.data, ls->card.len);
+}
+
 /* A '+' line: its text joins the pending card. */
 static enum sch_err continuation_line(struct reader *r, struct src *src, struct lines *ls, const char *s, size_t n)
 {
 	size_t kept;
 	bool odd;
 
-	if (src->state != ST_CARDS)
+	if (src->state != ST_CARDS && !(src->state == ST_CONTROL && ls->pending))
 		return SCH_OK;
 	s++;
 	n--;
@@ -556,7 +568,9 @@ static enum sch_err continuation_line(struct reader *r, struct src *src, struct 
 	kept = strip_inline(s, n, &odd);
 	if (!kept)
 		return SCH_OK;
-	if (odd && check_text(r, src, ls->lineno, s, kept) != SCH_OK)
+	if (src->state == ST_CONTROL)
+		ls->control_odd |= odd; /* block text is never checked: it is only read, never sent */
+	else if (odd && check_text(r, src, ls->lineno, s, kept) != SCH_OK)
 		return SCH_ERR_INPUT;
 	if (!ls->pending) {
 		sch_diag_report(r->ld.d, SCH_WARNING, src->path, ls->lineno,
@@ -594,6 +608,23 @@ static bool taken_by_state(struct reader *r, struct src *src, const char *s, siz
 	return false;
 }
 
+/* A line of a .control block: held (for its continuations) to be read as data, never run. */
+static enum sch_err control_start(struct reader *r, const struct src *src, struct lines *ls, const char *s,
+				  size_t kept, bool odd)
+{
+	if (kept > SCH_MAX_LINE)
+		return sch_diag_error(r->ld.d, SCH_ERR_INPUT, src->path, ls->lineno,
+				      "line longer than %zu bytes", SCH_MAX_LINE);
+	sch_buf_reset(&ls->card);
+	if (sch_buf_add(&ls->card, s, kept) != SCH_OK)
+		return SCH_ERR_NOMEM;
+	ls->card_line = ls->lineno;
+	ls->pending = true;
+	ls->in_control = true;
+	ls->control_odd = odd;
+	return SCH_OK;
+}
+
 /* A line that is no comment and no continuation: hands on the pending card, then holds this one. */
 static enum sch_err card_start(struct reader *r, struct src *src, struct lines *ls, const char *s, size_t n)
 {
@@ -604,11 +635,14 @@ static enum sch_err card_start(struct reader *r, struct src *src, struct lines *
 	if (!kept)
 		return SCH_OK; /* a line holding only an inline comment does not end the card above */
 	if (ls->pending) {
-		ls->pending = false;
-		ret = flush_card(r, src, ls->card_line, ls->card.data, ls->card.len);
+		ret = flush_pending(r, src, ls);
 		if (ret != SCH_OK || src->stop)
 			return ret;
 	}
+	if (src->state == ST_CONTROL && !ci_prefix(s, kept, ".endc"))
+		return control_start(r, src, ls, s, kept, odd);
+	if (src->state == ST_CONTROL)
+		sch_deck_control_end(&r->ld);
 	if (taken_by_state(r, src, s, kept))
 		return SCH_OK;
 	if (s[0] == '.' && sch_pattern_match(r->ld.re_control, s, kept)) {
@@ -626,6 +660,7 @@ static enum sch_err card_start(struct reader *r, struct src *src, struct lines *
 		return SCH_ERR_NOMEM;
 	ls->card_line = ls->lineno;
 	ls->pending = true;
+	ls->in_control = false;
 	return SCH_OK;
 }
 
@@ -680,7 +715,9 @@ static enum sch_err read_source(struct reader *r, struct src *src, const char *t
 		ret = read_line(r, src, &ls, s, n);
 	}
 	if (ret == SCH_OK && ls.pending && !src->stop)
-		ret = flush_card(r, src, ls.card_line, ls.card.data, ls.card.len);
+		ret = flush_pending(r, src, &ls);
+	if (src->state == ST_CONTROL)
+		sch_deck_control_end(&r->ld);
 	sch_buf_release(&ls.card);
 	return ret;
 }
@@ -762,6 +799,8 @@ enum sch_err sch_deck_load_text(struct sch_deck *deck, const char *name, const c
 	if (ret == SCH_OK && r.script_line && r.ld.n_elements == 0)
 		ret = sch_diag_error(d, SCH_ERR_INPUT, name, r.script_line,
 				     "a '*ng_script' title and no circuit: the file is a simulator script, not a netlist");
+	if (ret == SCH_OK)
+		ret = sch_deck_control_finish(&r.ld);
 	if (ret == SCH_OK)
 		ret = sch_deck_load_finish(&r.ld);
 out:

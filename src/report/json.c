@@ -258,6 +258,8 @@ static json_t *result_json(const struct sch_result *r)
 		put(doc, "input", text(r->input), &bad);
 		put(doc, "input_unit", text(r->input_unit), &bad);
 		put(doc, "band_hz", band_json(r, &bad), &bad);
+		if (r->spot_run) /* one frequency: band figures are null, spot figures hold it */
+			put(doc, "spot_run", json_true(), &bad);
 		put(doc, "total", total_json(r, &bad), &bad);
 		put(doc, "transfer", transfer_json(r, &bad), &bad);
 		put(doc, "verdict", verdict_json(r, &bad), &bad);

@@ -461,6 +461,173 @@ static void test_deck__lists_each_file_once(void)
 	sch_deck_release(&deck);
 }
 
+/* ---- .control blocks read as data ------------------------------------------------------------ */
+
+/* The card with this keyword whose text is text, or NULL. */
+static const struct sch_card *card_with(const struct sch_deck *deck, const char *keyword)
+{
+	for (size_t i = 0; i < deck->n_cards; i++)
+		if (deck->cards[i].keyword && strcmp(deck->cards[i].keyword, keyword) == 0)
+			return &deck->cards[i];
+	return NULL;
+}
+
+/* Whether some deck note contains s. */
+static bool note_has(const struct sch_deck *deck, const char *s)
+{
+	for (size_t i = 0; i < deck->n_notes; i++)
+		if (strstr(deck->notes[i], s))
+			return true;
+	return false;
+}
+
+static void test_deck__reads_the_noise_command_of_a_control_block(void)
+{
+	struct sch_deck deck;
+
+	CHECK(load_text(&deck, "ctl noise\nvin in 0 dc 0 ac 1\nr1 in out 1k\nr2 out ref 1k\nr3 ref 0 1\n"
+			       ".control\n"
+			       "NOISE V( Out , Ref ) Vin\n"
+			       "+ DEC 10 1 1MEG 1 ; the summary points\n"
+			       ".endc\n") == SCH_OK);
+	assert_sane_deck(&deck);
+	CHECK(deck.noise.present && deck.noise.from_control);
+	CHECK_STR(deck.noise.output, "v(out,ref)");
+	CHECK_STR(deck.noise.input, "vin");
+	CHECK_STR(deck.noise.sweep, "dec");
+	CHECK_STR(deck.noise.n_points, "10");
+	CHECK_STR(deck.noise.f_start, "1");
+	CHECK_STR(deck.noise.f_stop, "1000000");
+	CHECK_STR(deck.noise.pts_per_summary, "1");
+	/* the card is rebuilt from the checked tokens and located at the command's first line */
+	CHECK_STR(deck.cards[deck.noise.card].text, ".noise v(out,ref) vin dec 10 1 1000000 1");
+	CHECK(deck.cards[deck.noise.card].line == 7);
+	CHECK(deck.n_dropped_control == 1);
+	CHECK(deck.n_notes == 1 && note_has(&deck, INLINE_NAME ":7"));
+	sch_deck_release(&deck);
+}
+
+static void test_deck__a_noise_card_wins_over_the_control_block(void)
+{
+	struct sch_deck deck;
+
+	/* the block comes first, the card after it: the card is the deck's noise analysis */
+	CHECK(load_text(&deck, "t\niph a 0 dc 1n\nr1 a 0 1k\n.control\nnoise v(a) iph dec 5 1 10\n.endc\n"
+			       ".noise v(a) iph dec 10 1 1k\n") == SCH_OK);
+	CHECK(deck.noise.present && !deck.noise.from_control);
+	CHECK_STR(deck.noise.f_stop, "1k");
+	CHECK(deck.n_notes == 0 && card_with(&deck, ".temp") == NULL);
+	sch_deck_release(&deck);
+}
+
+static void test_deck__honours_op_and_temperature_before_the_noise_command(void)
+{
+	struct sch_deck deck;
+	const struct sch_card *temp;
+
+	CHECK(load_text(&deck, "t\niph a 0 dc 1n\nr1 a 0 1k\n.temp 10\n.control\nset temp = 50\nop\n"
+			       "option temp=60\nnoise v(a) iph lin 3 1k 3k\nset temp=70\n.endc\n") == SCH_OK);
+	CHECK(deck.noise.from_control);
+	/* the last setting before the noise command, as a .temp card after the deck's own */
+	temp = &deck.cards[deck.n_cards - 1];
+	CHECK_STR(temp->keyword, ".temp");
+	CHECK_STR(temp->text, ".temp 60");
+	CHECK(temp->line == 8);
+	CHECK(note_has(&deck, "its op (line 7)"));
+	CHECK(note_has(&deck, "applied as '.temp 60'"));
+	CHECK(note_has(&deck, "after the noise command: 'set' (line 10)"));
+	sch_deck_release(&deck);
+
+	/* '.temp' inside a block is no command of the simulator: not honoured */
+	CHECK(load_text(&deck, "t\niph a 0 dc 1n\nr1 a 0 1k\n.control\n.temp 80\nnoise v(a) iph dec 1 1k 1k\n.endc\n") ==
+	      SCH_OK);
+	CHECK(card_with(&deck, ".temp") == NULL);
+	CHECK(note_has(&deck, "before the noise command, where they may change its result: '.temp' (line 5)"));
+	sch_deck_release(&deck);
+}
+
+static void test_deck__lists_what_the_block_does_not_honour(void)
+{
+	struct sch_deck deck;
+
+	CHECK(load_text(&deck, "t\niph a 0 dc 1n\nr1 a 0 1k\n.control\nalter r1 2k\nlet x = 3\n"
+			       "foreach v 1 2\nnoise v(a) iph dec 10 1 1k\nend\nac dec 10 1 1k\n"
+			       "noise v(a) iph dec 10 1 1k\nnoise v(a) iph dec 20 1 10k\nshell touch pwn\nplot onoise_spectrum\n"
+			       "print a\nprint b\n.endc\n") == SCH_OK);
+	/* the noise command inside the loop is not the analysis: the first one outside it is */
+	CHECK(deck.noise.from_control);
+	CHECK(deck.cards[deck.noise.card].line == 11);
+	CHECK(deck.n_notes == 2);
+	CHECK_STR(deck.notes[1], "not honoured from '.control' (never run): before the noise command, where they may "
+				 "change its result: 'alter' (line 5), 'let' (line 6), 'foreach' (line 7), 'noise' (line 8), "
+				 "'ac' (line 10); after it: 'noise' (line 12), 'shell' (line 13), 'plot' (line 14), "
+				 "'print' (lines 15, 16)");
+	sch_deck_release(&deck);
+}
+
+static void test_deck__never_takes_a_noise_command_with_odd_tokens(void)
+{
+	static const char *const bad[] = {
+		"noise v(a) iph dec 10 1 $fmax",      /* a variable: the simulator expands it */
+		"noise v(a) `touch pwn` dec 10 1 1k", /* a backquote runs a shell */
+		"noise v(a;shell) iph dec 10 1 1k",   /* ';' would end the command */
+		"noise v(a) iph dec 10 1 1k>out",     /* a redirection */
+		"noise v(a) iph dec 4k7 1 1k",        /* read differently by the simulator */
+		"noise v(a) iph dec 10 1 {fmax}",     /* an expression */
+		"noise i(a) iph dec 10 1 1k",         /* not a node voltage */
+		"noise v(a) r1 dec 10 1 1k",          /* not a source name */
+		"noise v(a) iph log 10 1 1k",         /* no sweep type */
+		"noise v(a) iph dec 10 1",            /* too few */
+		"noise v(a) iph dec 10 1 1k 1 2",     /* too many */
+		"noise v(a) iph dec 10 1 1k \xc3\xa9", /* not ASCII */
+	};
+	struct sch_deck deck;
+	char text[256];
+
+	for (size_t i = 0; i < sizeof(bad) / sizeof(bad[0]); i++) {
+		snprintf(text, sizeof(text), "t\niph a 0 dc 1n\nr1 a 0 1k\n.control\n%s\n.endc\n", bad[i]);
+		CHECK(load_text(&deck, text) == SCH_OK);
+		CHECK(!deck.noise.present);
+		for (size_t c = 0; c < deck.n_cards; c++)
+			CHECK(deck.cards[c].keyword == NULL || strcmp(deck.cards[c].keyword, ".noise") != 0);
+		sch_deck_release(&deck);
+	}
+}
+
+static void test_deck__reads_a_control_noise_command_from_an_included_file(void)
+{
+	struct sch_deck deck;
+
+	CHECK(load_text(&deck, "t\niph a 0 dc 1n\n.include sub/ctl_noise.inc\n") == SCH_OK);
+	CHECK(deck.noise.from_control);
+	CHECK(strstr(deck.cards[deck.noise.card].file, "ctl_noise.inc") != NULL);
+	CHECK(deck.cards[deck.noise.card].line == 6);
+	CHECK_STR(card_with(&deck, ".temp")->text, ".temp 40");
+	/* text of an included file is never quoted in a message: the unknown command is " a command" */
+	CHECK(!note_has(&deck, "mycommand_from_include"));
+	CHECK(note_has(&deck, "a command ("));
+	sch_deck_release(&deck);
+}
+
+static void test_deck__a_control_noise_output_must_be_a_node(void)
+{
+	expect_error("t\niph a 0 dc 1n\nr1 a 0 1k\n.control\nnoise v(nonode) iph dec 10 1 1k\n.endc\n",
+		     INLINE_NAME ":5: the '.control' noise command's output node 'nonode' is not a node of any element "
+				 "at the top level");
+}
+
+static void test_deck__a_spot_noise_command_is_read(void)
+{
+	struct sch_deck deck;
+
+	CHECK(load_text(&deck, "t\niph a 0 dc 1n\nr1 a 0 1k\n.control\nnoise v(a) iph dec 1 1k 1k\n.endc\n") == SCH_OK);
+	CHECK(deck.noise.from_control);
+	CHECK_STR(deck.noise.f_start, "1000");
+	CHECK_STR(deck.noise.f_stop, "1000");
+	CHECK(deck.noise.pts_per_summary == NULL);
+	sch_deck_release(&deck);
+}
+
 /* ---- safety ------------------------------------------------------------------------------- */
 
 static void test_deck__drops_control_blocks(void)
@@ -1230,6 +1397,14 @@ CHECK_MAIN(CASE(test_deck__joins_plus_continuation_lines), CASE(test_deck__drops
 	   CASE(test_deck__rejects_noise_output_at_a_node_nothing_touches),
 	   CASE(test_deck__rejects_current_source_without_dc_path),
 	   CASE(test_deck__quotes_are_short_and_never_from_included_files),
+	   CASE(test_deck__reads_the_noise_command_of_a_control_block),
+	   CASE(test_deck__a_noise_card_wins_over_the_control_block),
+	   CASE(test_deck__honours_op_and_temperature_before_the_noise_command),
+	   CASE(test_deck__lists_what_the_block_does_not_honour),
+	   CASE(test_deck__never_takes_a_noise_command_with_odd_tokens),
+	   CASE(test_deck__reads_a_control_noise_command_from_an_included_file),
+	   CASE(test_deck__a_spot_noise_command_is_read),
+	   CASE(test_deck__a_control_noise_output_must_be_a_node),
 	   CASE(test_deck__ends_with_glued_text_closes_the_subckt),
 	   CASE(test_deck__dos_eof_byte_ends_an_included_file_only),
 	   CASE(test_deck__node_counts_follow_the_model_type_and_keywords),
