@@ -122,8 +122,6 @@ static enum sch_err point_step(struct sch_analysis *an, size_t k, struct sch_sim
 
 	if (!cmds)
 		return SCH_ERR_NOMEM;
-	if (vary->batch)
-		return batch_step(an, k, step);
 	if ((ret = vary_command(an->res, vary->name, vary->values[k], buf, sizeof(buf), &reset, an->d)) != SCH_OK)
 		return ret;
 	cmds[nc++] = sch_arena_strdup(a, buf);
@@ -148,7 +146,7 @@ enum sch_err sch_analysis_sweep_steps(struct sch_analysis *an)
 	if (!(steps = sch_arena_alloc(&an->res->arena, (an->vary->n + 1) * sizeof(*steps))))
 		return SCH_ERR_NOMEM;
 	for (size_t k = 0; k < an->vary->n; k++) {
-		if ((ret = point_step(an, k, &steps[k])) != SCH_OK)
+		if ((ret = (an->vary->batch ? batch_step : point_step)(an, k, &steps[k])) != SCH_OK)
 			return ret;
 	}
 	an->steps = steps;
