@@ -44,6 +44,10 @@ struct sch_quantity_plan {
 	size_t n_diodes;
 	size_t bjts;       /* first bipolar quantity; four (ic, ib, vbe, vbc) per bipolar instance */
 	int *bjt_of_inst;  /* instance -> its index among the bipolar instances, -1 */
+	size_t extra;      /* first of a batch's own quantities */
+	size_t values;     /* read_values: first instance value */
+	int *value_inst;   /* read_values: the instance of each value quantity, n_values of them */
+	size_t n_values;
 };
 
 /* Everything the mapping of simulator vectors to device instances needs. */
@@ -70,12 +74,13 @@ struct sch_lump_plan {
 	const char *label;    /* the row's device name */
 };
 
-/* How a sweep changes one quantity per step; NULL name for a plain run. */
+/* How a sweep changes one quantity per step; a batch (name NULL) carries each point's own change. */
 struct sch_vary_plan {
 	const char *name;
 	const double *values;
 	size_t n;
 	struct sch_sweep *sweep;
+	const struct sch_batch *batch;  /* NULL for a sweep */
 };
 
 /*
@@ -278,6 +283,20 @@ enum sch_err sch_analysis_sweep_steps(struct sch_analysis *an);
  * to the result as it finishes (an->req.on_step). No-op for a single run. SCH_ERR_NOMEM.
  */
 enum sch_err sch_analysis_sweep_prepare(struct sch_analysis *an);
+
+/* values.c */
+
+/*
+ * opt->read_values: one quantity per resistor, capacitor and current source instance whose
+ * simulator name is safe ("@r.x1.rf[resistance]", "[capacitance]", "[dc]"). No-op otherwise. SCH_ERR_NOMEM.
+ */
+enum sch_err sch_analysis_value_quantities(struct sch_analysis *an);
+
+/* Copies the values read into res->instance_values (NaN elsewhere). No-op otherwise. SCH_ERR_NOMEM. */
+enum sch_err sch_analysis_take_values(struct sch_analysis *an, const struct sch_sim_outcome *o);
+
+/* A batch's own quantities after the planned ones (q->extra). No-op otherwise. SCH_ERR_NOMEM. */
+enum sch_err sch_analysis_batch_quantities(struct sch_analysis *an);
 
 /* After a sweep ran: every point taken, and the crossover. SCH_ERR_SIM for a point without result. */
 enum sch_err sch_analysis_sweep_finish(struct sch_analysis *an);

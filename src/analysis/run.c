@@ -254,7 +254,8 @@ enum sch_err sch_analysis_take_step(struct sch_analysis *an, const struct sch_si
 {
 	enum sch_err ret;
 
-	if ((ret = take_operating_point(an->res, &an->q, o, an->d)) != SCH_OK)
+	if ((ret = take_operating_point(an->res, &an->q, o, an->d)) != SCH_OK ||
+	    (ret = sch_analysis_take_values(an, o)) != SCH_OK)
 		return ret;
 	if (an->opt->mode != SCH_RUN_REPORT)
 		return SCH_OK;

@@ -19,6 +19,7 @@ DEMOS = {
     "turbidity-2ch": ([], ["xdirect.iph", "xscatter.iph"], [], ("xdirect.iph", "shot")),
     "picoammeter-leakage": ([], ["ileak"], [], ("rf", "thermal")),
     "hydrophone-preamp": ([], [], ["ibias"], ("q1", "ib")),
+    "paddock-gate-beam": ([], ["iph", "idark"], [], ("rf", "thermal")),
 }
 
 
@@ -118,6 +119,7 @@ T = 300.15
 for name, opts, spot, carrier, current, gain, rf in (
         ("canopy-probe", [], "1", "iph", 2e-9, 1.0, 100e6),
         ("picoammeter-leakage", [], "10m", "ileak", 50e-15, 1.0, 10e9),
+        ("paddock-gate-beam", [], "100", "iph", 10e-9, 1.0, 1e6),
         ("rangefinder-apd", ["--avalanche", "iapd=50:0.02"], "10k", "iapd", 1.005e-6,
          50 * (0.02 * 50 + 0.98 * (2 - 1 / 50)), 10e3)):
     rc, out, err = schrot("report", "netlists/%s.cir" % name, *opts, "--spot", spot, "--json", "-")
