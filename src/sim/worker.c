@@ -632,9 +632,15 @@ void sch_sim_worker_main(const struct sch_sim_request *req, char **deck, size_t 
 	sch_wire_flush(&w.out);
 	if (rc != 0 || w.load_error)
 		goto done;
-	/* Plots keep only last points; densities arrive through SendData (NGSPICE-NOTES.md 6). */
+	/*
+	 * The deck's own saves go first: ".option savecurrents" turns into "save @m1[ib]"-style
+	 * entries, and a device without such a parameter (BSIM4 has no ib, ig, is) leaves a vector
+	 * of length 0 that the library's SendData step indexes at [-1] (signal 11 in ngspice 39).
+	 * We read every current ourselves; none of those saves is needed.
+	 * Then plots keep only last points; densities arrive through SendData (NGSPICE-NOTES.md 6).
+	 */
 	w.phase = SCH_PHASE_CLEANUP;
-	if (!worker_command(&w, "save none"))
+	if (!worker_command(&w, "delete all") || !worker_command(&w, "save none"))
 		goto gave_up;
 	for (size_t s = first; s < end; s++) {
 		if (!worker_run_step(&w, req, s))
