@@ -22,7 +22,9 @@
 
 #include "sim_int.h"
 
-#define SCH_SIM_FALLBACK_CM "/usr/lib/x86_64-linux-gnu/ngspice/spice2poly.cm"
+#ifndef SCH_SIM_CODEMODEL_DIR /* set by CMake from pkg-config's libdir for ngspice */
+#define SCH_SIM_CODEMODEL_DIR "/usr/lib/x86_64-linux-gnu/ngspice"
+#endif
 #define SCH_SIM_READS_PER_GC 8
 
 /* SendChar: every simulator line goes straight to the parent, so a crash loses nothing. */
@@ -354,42 +356,76 @@ static bool codemodel_name_is_safe(const char *name)
 	return true;
 }
 
-/* The code model POLY sources need (or another one by name), next to the library we were linked with. */
-static void worker_load_codemodel_named(const char *file)
+/*
+ * The standard code-model libraries the distribution's ngspice package ships, the set its own
+ * spinit loads: POLY sources (spice2poly), A devices and the code models E/G TABLE and LAPLACE
+ * sources become (analog, table), digital and event-driven devices (digital, xtraevt) and the
+ * extra devices (xtradev).
+ */
+static const char *const standard_codemodels[] = {
+	"spice2poly.cm", "analog.cm", "digital.cm", "xtradev.cm", "xtraevt.cm", "table.cm",
+};
+
+/*
+ * The package's code-model directory: "ngspice/" beside the shared library this process runs
+ * (found at start), else the one pkg-config named at build time. Never a path from a netlist.
+ * False when neither holds spice2poly.cm or the path could not go into a command.
+ */
+static bool worker_codemodel_dir(char *dir, size_t size)
 {
-	char path[PATH_MAX + 32];
-	char fallback[PATH_MAX];
-	char cmd[PATH_MAX + 64];
-	const char *chosen = NULL;
-	const char *slash_fb = strrchr(SCH_SIM_FALLBACK_CM, '/');
+	char probe[PATH_MAX + 32];
 	Dl_info info;
+
+	if (dladdr((void *)ngSpice_Init, &info) && info.dli_fname && strlen(info.dli_fname) < PATH_MAX) {
+		const char *slash = strrchr(info.dli_fname, '/');
+
+		if (slash) {
+			snprintf(dir, size, "%.*s/ngspice", (int)(slash - info.dli_fname), info.dli_fname);
+			snprintf(probe, sizeof(probe), "%s/spice2poly.cm", dir);
+			if (access(probe, R_OK) == 0 && sch_sim_path_is_command_safe(dir))
+				return true;
+		}
+	}
+	snprintf(dir, size, "%s", SCH_SIM_CODEMODEL_DIR);
+	snprintf(probe, sizeof(probe), "%s/spice2poly.cm", dir);
+	return access(probe, R_OK) == 0 && sch_sim_path_is_command_safe(dir);
+}
+
+/* One code-model library by file name from dir; a missing or unsafe one is skipped. */
+static void worker_load_codemodel_named(const char *dir, const char *file)
+{
+	char path[PATH_MAX + 80];
+	char cmd[PATH_MAX + 96];
 
 	if (!codemodel_name_is_safe(file))
 		return;
-	snprintf(fallback, sizeof(fallback), "%.*s/%s", (int)(slash_fb - SCH_SIM_FALLBACK_CM), SCH_SIM_FALLBACK_CM, file);
-
-	if (dladdr((void *)ngSpice_Init, &info) && info.dli_fname && strlen(info.dli_fname) < PATH_MAX) {
-		char *slash;
-
-		snprintf(path, sizeof(path), "%s", info.dli_fname);
-		slash = strrchr(path, '/');
-		if (slash) {
-			snprintf(slash + 1, sizeof(path) - (size_t)(slash + 1 - path), "ngspice/%s", file);
-			if (access(path, R_OK) == 0 && sch_sim_path_is_command_safe(path))
-				chosen = path;
-		}
-	}
-	if (!chosen && access(fallback, R_OK) == 0 && sch_sim_path_is_command_safe(fallback))
-		chosen = fallback;
-	if (!chosen)
+	snprintf(path, sizeof(path), "%s/%s", dir, file);
+	if (access(path, R_OK) != 0 || !sch_sim_path_is_command_safe(path))
 		return;
-	snprintf(cmd, sizeof(cmd), "codemodel %s", chosen);
+	snprintf(cmd, sizeof(cmd), "codemodel %s", path);
 	ngSpice_Command(cmd);
 }
 
-static void worker_load_codemodel(void)
+/* The standard libraries, then any other the request names (each once). */
+static void worker_load_codemodels(const struct sch_sim_request *req)
 {
-	worker_load_codemodel_named("spice2poly.cm");
+	size_t n_std = sizeof(standard_codemodels) / sizeof(standard_codemodels[0]);
+	char dir[PATH_MAX];
+
+	if (!worker_codemodel_dir(dir, sizeof(dir)))
+		return;
+	for (size_t k = 0; k < n_std; k++)
+		worker_load_codemodel_named(dir, standard_codemodels[k]);
+	for (size_t k = 0; k < req->n_code_models; k++) {
+		bool standard = false;
+
+		if (!req->code_models[k])
+			continue;
+		for (size_t j = 0; j < n_std; j++)
+			standard = standard || strcmp(req->code_models[k], standard_codemodels[j]) == 0;
+		if (!standard)
+			worker_load_codemodel_named(dir, req->code_models[k]);
+	}
 }
 
 /* Starts the library with no start-up script able to run (NGSPICE-NOTES.md section 5). */
@@ -613,10 +649,7 @@ void sch_sim_worker_main(const struct sch_sim_request *req, char **deck, size_t 
 		_exit(4);
 	if (!worker_init_library(&w))
 		goto done;
-	worker_load_codemodel();
-	for (size_t k = 0; k < req->n_code_models; k++)
-		if (req->code_models[k])
-			worker_load_codemodel_named(req->code_models[k]);
+	worker_load_codemodels(req);
 	if (req->squared_noise)
 		worker_command(&w, "set sqrnoise");
 	if (req->noise_via_file)
