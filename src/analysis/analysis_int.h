@@ -238,6 +238,9 @@ enum sch_err sch_analysis_integrate(struct sch_result *res, const struct sch_run
  */
 enum sch_err sch_analysis_verdict(struct sch_result *res);
 
+/* light.c: a note when the input is a voltage standing for the optical power a carrier reads. SCH_ERR_NOMEM. */
+enum sch_err sch_analysis_note_light_input(struct sch_analysis *an);
+
 /* The notes that close a run (resistor count, noiseless sources, the constants). SCH_ERR_NOMEM. */
 enum sch_err sch_analysis_closing_notes(struct sch_analysis *an);
 
