@@ -100,7 +100,74 @@ struct elem_info {
 	const struct sch_element *diode;
 	bool name_rule;
 	bool current;
+	int amp_def;      /* the amplifier-shaped definition the element sits in (any depth), -1 for none */
+	const char *amp_name;
+	int amp_ports, amp_controlled;
 };
+
+/* Per definition: its own ports and controlled sources, and the amplifier-shaped one it sits in. */
+struct amp_shapes {
+	int *n_controlled;
+	int *within;      /* -1, or the amplifier-shaped definition every use of this one is inside */
+};
+
+static bool is_controlled_source(char letter)
+{
+	return letter == 'e' || letter == 'f' || letter == 'g' || letter == 'h' || letter == 'b';
+}
+
+/*
+ * Fills shapes: a definition of amplifier shape is within itself; one used only inside such
+ * definitions (all its X instances) is within the first of them. Fixed point over the X
+ * elements, one nesting level per pass. SCH_ERR_NOMEM on failure.
+ */
+static enum sch_err find_amp_shapes(const struct sch_deck *deck, struct sch_arena *arena, struct amp_shapes *sh)
+{
+	size_t n = deck->n_subckts;
+
+	sh->n_controlled = sch_arena_alloc(arena, (n + 1) * sizeof(int));
+	sh->within = sch_arena_alloc(arena, (n + 1) * sizeof(int));
+	if (!sh->n_controlled || !sh->within)
+		return SCH_ERR_NOMEM;
+	memset(sh->n_controlled, 0, (n + 1) * sizeof(int));
+	for (size_t k = 0; k < deck->n_elements; k++)
+		if (deck->elements[k].subckt >= 0 && is_controlled_source(deck->elements[k].letter))
+			sh->n_controlled[deck->elements[k].subckt]++;
+	for (size_t s = 0; s < n; s++)
+		sh->within[s] = deck->subckts[s].n_ports >= SCH_AMP_SHAPE_MIN_PORTS &&
+						sh->n_controlled[s] >= SCH_AMP_SHAPE_MIN_CONTROLLED
+					? (int)s
+					: -1;
+	for (size_t pass = 0; pass <= n; pass++) {
+		bool changed = false;
+
+		for (size_t s = 0; s < n; s++) {
+			int first = -1;
+			bool all = true, any = false;
+
+			if (sh->within[s] >= 0)
+				continue;
+			for (size_t k = 0; k < deck->n_elements && all; k++) {
+				const struct sch_element *x = &deck->elements[k];
+				const char *sub = x->letter == 'x' ? sch_deck_x_subckt(deck, x) : NULL;
+
+				if (!sub || sch_deck_find_subckt(deck, sub) != (int)s)
+					continue;
+				any = true;
+				all = x->subckt >= 0 && sh->within[x->subckt] >= 0;
+				if (all && first < 0)
+					first = sh->within[x->subckt];
+			}
+			if (any && all) {
+				sh->within[s] = first;
+				changed = true;
+			}
+		}
+		if (!changed)
+			break;
+	}
+	return SCH_OK;
+}
 
 /* Most --avalanche and --fano rules one run takes, each. */
 #define MAX_GAIN_RULES 64
@@ -151,12 +218,19 @@ static struct elem_info *classify_elements(const struct sch_deck *deck, struct s
 					   const struct rules *ru, struct sch_strmap *pairs)
 {
 	struct elem_info *info = sch_arena_alloc(arena, (deck->n_elements + 1) * sizeof(*info));
+	struct amp_shapes sh;
 
-	if (!info || index_diodes(deck, arena, pairs) != SCH_OK)
+	if (!info || index_diodes(deck, arena, pairs) != SCH_OK || find_amp_shapes(deck, arena, &sh) != SCH_OK)
 		return NULL;
 	for (size_t k = 0; k < deck->n_elements; k++) {
 		const struct sch_element *e = &deck->elements[k];
 		info[k].current = is_current_element(e);
+		info[k].amp_def = e->subckt >= 0 ? sh.within[e->subckt] : -1;
+		if (info[k].amp_def >= 0) {
+			info[k].amp_name = deck->subckts[info[k].amp_def].name;
+			info[k].amp_ports = deck->subckts[info[k].amp_def].n_ports;
+			info[k].amp_controlled = sh.n_controlled[info[k].amp_def];
+		}
 		if (!info[k].current)
 			continue;
 		info[k].diode = paired_diode(deck, arena, pairs, e);
@@ -197,7 +271,7 @@ static unsigned instance_why(const struct rules *ru, const struct elem_info *ei,
 	size_t plen = strlen(path);
 	unsigned why = 0;
 
-	if (ei->diode)
+	if (ei->diode && ei->amp_def < 0)
 		why |= SCH_WHY_DIODE;
 	if (ei->name_rule)
 		why |= SCH_WHY_NAME;
@@ -240,6 +314,20 @@ static void write_reason(char *reason, size_t size, unsigned why, const struct s
 			 *reason ? "; " : "", fano->regex);
 }
 
+/* Why a current element across a diode inside an amplifier-shaped subcircuit is no carrier. */
+static enum sch_err construct_reason(struct sch_source *s, struct sch_arena *arena, const struct sch_instance *in,
+				     const struct elem_info *ei)
+{
+	const char *dot = strrchr(in->path, '.');
+
+	s->reason = sch_arena_printf(arena,
+		"across diode %.*s%s%s in amplifier-shaped '%s' (%d ports, %d controlled sources): "
+		"a bias, clamp or offset construct",
+		dot ? (int)(dot - in->path) : 0, in->path, dot ? "." : "", ei->diode->name, ei->amp_name, ei->amp_ports,
+		ei->amp_controlled);
+	return s->reason ? SCH_OK : SCH_ERR_NOMEM;
+}
+
 /* Files instance k as a carrier or as noiseless (current-forcing instances only). SCH_ERR_NOMEM on failure. */
 static enum sch_err sort_instance(struct sch_carrier_set *set, struct sch_arena *arena, const struct rules *ru,
 				  const struct elem_info *info, size_t k)
@@ -260,6 +348,9 @@ static enum sch_err sort_instance(struct sch_carrier_set *set, struct sch_arena 
 		s->sim_name = in->sim_name;
 		s->element = in->element;
 		s->dc_current_a = NAN;
+		s->reason = NULL;
+		if (ei->diode && ei->amp_def >= 0 && !(ru->ignore && sch_pattern_match(ru->ignore, in->path, strlen(in->path))))
+			return construct_reason(s, arena, in, ei);
 		return SCH_OK;
 	}
 	write_reason(reason, sizeof(reason), why, in, ei, ru, aval, fano);
