@@ -240,6 +240,8 @@ enum sch_err sch_analysis_verdict(struct sch_result *res);
 
 /* light.c: a note when the input is a voltage standing for the optical power a carrier reads. SCH_ERR_NOMEM. */
 enum sch_err sch_analysis_note_light_input(struct sch_analysis *an);
+/* light.c: a note naming how many E/G TABLE sources run as pwl() (sch_augment_table_as_value). SCH_ERR_NOMEM. */
+enum sch_err sch_analysis_note_tables(struct sch_analysis *an);
 
 /* The notes that close a run (resistor count, noiseless sources, the constants). SCH_ERR_NOMEM. */
 enum sch_err sch_analysis_closing_notes(struct sch_analysis *an);

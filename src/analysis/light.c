@@ -6,6 +6,7 @@
 #include <stdio.h>
 #include <string.h>
 #include "analysis_int.h"
+#include "schrot/augment.h"
 
 #define SCH_LIGHT_MAX_DEPTH 32
 
@@ -133,4 +134,25 @@ enum sch_err sch_analysis_note_light_input(struct sch_analysis *an)
 			an->plan.input, c->name));
 	}
 	return SCH_OK;
+}
+
+enum sch_err sch_analysis_note_tables(struct sch_analysis *an)
+{
+	struct sch_result *res = an->res;
+	size_t n = 0;
+
+	for (size_t k = 0; k < res->deck.n_elements; k++) {
+		const struct sch_element *e = &res->deck.elements[k];
+
+		if ((e->letter == 'e' || e->letter == 'g') &&
+		    sch_augment_table_as_value(&res->arena, res->deck.cards[e->card].text))
+			n++;
+	}
+	if (!n)
+		return SCH_OK;
+	return sch_analysis_note(an, sch_arena_printf(&res->arena,
+		"%zu E/G TABLE source%s run as a behavioural pwl() of the same points: the simulator's TABLE "
+		"code model takes its small-signal gain at the AC solution in a noise run (ngspice 39, measured); "
+		"pwl() keeps the operating point's slope but does not round the table's corners",
+		n, n == 1 ? "" : "s"));
 }

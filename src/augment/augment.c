@@ -202,6 +202,12 @@ static const char *card_text(const struct sch_deck *deck, const struct sch_card 
 {
 	const char *text = card->text;
 
+	if (card->element >= 0 && (deck->elements[card->element].letter == 'e' ||
+				   deck->elements[card->element].letter == 'g')) {
+		const char *pwl = sch_augment_table_as_value(arena, text);
+
+		text = pwl ? pwl : text;
+	}
 	if (card->element >= 0 && opt && opt->ac_source && card->subckt < 0 &&
 	    strcmp(deck->elements[card->element].name, opt->ac_source) == 0 &&
 	    !has_ac_value(&deck->elements[card->element]))
