@@ -112,6 +112,7 @@ enum sch_err sch_analysis_build_request(struct sch_analysis *an)
 		req->keep_vector_ctx = &an->m;
 	}
 	req->squared_noise = true;
+	req->compat_mode = an->res->compat_mode;
 	req->n_workers = an->vary ? an->opt->n_workers : 1;
 	return SCH_OK;
 }

@@ -654,6 +654,13 @@ void sch_sim_worker_main(const struct sch_sim_request *req, char **deck, size_t 
 		worker_command(&w, "set sqrnoise");
 	if (req->noise_via_file)
 		worker_command(&w, "set norefvalue");
+	if (req->compat_mode && sch_sim_compat_mode_known(req->compat_mode)) {
+		char set[64];
+
+		/* read by the library as each circuit loads (its "Compatibility modes selected" note) */
+		snprintf(set, sizeof(set), "set ngbehavior=%s", sch_sim_compat_mode_known(req->compat_mode));
+		worker_command(&w, set);
+	}
 	if (w.gave_up)
 		goto gave_up;
 	w.phase = SCH_PHASE_LOAD;
