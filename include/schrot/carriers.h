@@ -53,8 +53,9 @@ struct sch_carrier {
 };
 
 /*
- * The amplifier-shape rule: a current element across a diode is a bias, clamp or offset construct,
- * not a carrier, when it sits (at any depth) inside a subcircuit with at least this many ports
+ * The amplifier-shape rule: a current element instance across a diode is a bias, clamp or offset
+ * construct, not a carrier, when its path passes (at any depth) through an instance of a subcircuit
+ * with at least this many ports
  * and this many controlled sources (E, F, G, H, B) of its own, the shape of an op-amp or
  * comparator macro-model. A photodiode model (anode, cathode, maybe a light pin; one generator)
  * is not of that shape. The name rule, --carrier and the gain options still make it a carrier.
