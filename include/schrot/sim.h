@@ -57,6 +57,13 @@ struct sch_sim_request {
 	double tran_sample_step_s;
 	size_t tran_n_samples;
 	/*
+	 * Run a one-point AC analysis before each step's noise run. ngspice 39 evaluates code-model
+	 * (A) devices' small-signal response wrongly in a noise run that no AC analysis preceded
+	 * (measured: an s_xfer low-pass gave an output density rising with frequency); after one, every
+	 * point but the first agrees with a plain AC analysis.
+	 */
+	bool prime_ac;
+	/*
 	 * The simulator's compatibility mode ("ps", "ltpsa": ngspice's ngbehavior), set before the
 	 * deck loads; NULL for none. Only a value sch_sim_compat_mode_known accepts is applied.
 	 */

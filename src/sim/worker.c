@@ -574,18 +574,20 @@ static bool worker_run_to_file(struct sch_worker_ctx *w, size_t s)
 	return !w->gave_up;
 }
 
+static bool command_runs_noise(const char *s)
+{
+	while (*s == ' ' || *s == '\t')
+		s++;
+	if (strncasecmp(s, "noise", 5) == 0 && (s[5] == '\0' || isspace((unsigned char)s[5])))
+		return true;
+	return strcmp(s, "run") == 0;
+}
+
 static bool step_runs_noise(const struct sch_sim_step *st)
 {
-	for (size_t c = 0; c < st->n_commands; c++) {
-		const char *s = st->commands[c];
-
-		while (*s == ' ' || *s == '\t')
-			s++;
-		if (strncasecmp(s, "noise", 5) == 0 && (s[5] == '\0' || isspace((unsigned char)s[5])))
+	for (size_t c = 0; c < st->n_commands; c++)
+		if (command_runs_noise(st->commands[c]))
 			return true;
-		if (strcmp(s, "run") == 0)
-			return true;
-	}
 	return false;
 }
 
@@ -599,7 +601,12 @@ static bool worker_run_step(struct sch_worker_ctx *w, const struct sch_sim_reque
 	sch_worker_noise_clear(w);
 	tran_clear(w);
 	for (size_t c = 0; c < st->n_commands; c++) {
-		bool ok = req->noise_via_file && strcmp(st->commands[c], "run") == 0 ? worker_run_to_file(w, s)
+		bool ok;
+
+		/* code models' small-signal state (sim.h, prime_ac) */
+		if (req->prime_ac && command_runs_noise(st->commands[c]) && !worker_command(w, "ac lin 1 1 1"))
+			return false;
+		ok = req->noise_via_file && strcmp(st->commands[c], "run") == 0 ? worker_run_to_file(w, s)
 											: worker_command(w, st->commands[c]);
 		if (!ok)
 			return false;

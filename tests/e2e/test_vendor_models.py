@@ -6,7 +6,7 @@ QA-271 op-amp model, whose bias, offset and clamp sources across diodes are not 
 Row IDs refer to shared/CHECK-VALUES.md."""
 import math
 import os
-from schrot_check import run, close, true, contribution, finish, Q
+from schrot_check import run, close, true, contribution, finish, Q, K
 
 MODELS = os.path.abspath(os.path.join(os.path.dirname(os.path.abspath(__file__)), "..", "models"))
 RESP = 0.52      # A/W: the LUMA-PD3 table's slope below 1 mW (0 -> 0, 1 mW -> 0.52 mA)
@@ -87,4 +87,23 @@ if data:
     for n in ("xop.ios", "xop.iref", "xop.ilim1", "xop.ilim2"):
         true(f"[rule] {n} is a construct of the amplifier-shaped model", "amplifier-shaped 'qa271'" in quiet.get(n, ""),
              str(quiet))
+# A code-model (A) device in the noise path: an s_xfer single pole, tau = 1 ms, after a resistor's
+# thermal noise. J rows: Johnson-Nyquist 4kT/R (J. B. Johnson, Phys. Rev. 32, 97 (1928); H. Nyquist,
+# Phys. Rev. 32, 110 (1928)); |H| = 1/sqrt(1 + (2 pi f tau)^2), the single-pole response (derived).
+# Without the AC analysis schrot runs first, ngspice 39 gave a density rising with frequency.
+rc, data, out, err = run("""s-domain low-pass code model after a 1 kOhm source resistance
+iin 0 l dc 0
+rl l 0 1k
+a1 l o filt
+.model filt s_xfer(in_offset=0 gain=1 num_coeff=[1] den_coeff=[1e-3 1] int_ic=[0] denormalized_freq=1)
+ro o 0 1k
+.noise v(o) iin dec 10 10 10k 1
+.end
+""", "report", "--spot", "100", "--spot", "1k", "--spot", "10k")
+if data:
+    for s, f in zip(data["spot"], (100.0, 1e3, 1e4)):
+        want = math.sqrt(4 * K * 300.15 / 1e3) * 1e3 / math.sqrt(1 + (2 * math.pi * f * 1e-3) ** 2)
+        close(f"[J] thermal noise through the s_xfer pole at {f:g} Hz", s["output_v_per_rthz"], want, 1e-5)
+    true("[A] the note says a one-point AC analysis ran first",
+         any("one-point AC analysis" in n for n in data.get("notes", [])), str(data.get("notes")))
 finish()
