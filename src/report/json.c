@@ -241,6 +241,8 @@ static json_t *result_json(const struct sch_result *r)
 	put(doc, "netlist", text(r->netlist), &bad);
 	put(doc, "temperature_k", num(r->temp_k), &bad);
 	put(doc, "simulator", text(r->sim_version), &bad);
+	if (r->compat_mode)
+		put(doc, "simulator_compat_mode", text(r->compat_mode), &bad);
 	put(doc, "schrot_version", text(SCH_VERSION), &bad);
 	if (r->n_freq > 0) {
 		put(doc, "output", text(r->output), &bad);

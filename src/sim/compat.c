@@ -83,10 +83,31 @@ static bool line_is_empty(const char *line)
 	return *line == '\0' || *line == '*' || *line == '#';
 }
 
+/* One line that says something: the mode, an unknown mode, or an ignored line. SCH_ERR_NOMEM. */
+static enum sch_err take_line(struct sch_spiceinit *si, struct sch_arena *arena, const char *line, long lineno)
+{
+	char value[64];
+	const char *known;
+
+	if (!parse_set_ngbehavior(line, value, sizeof(value))) {
+		si->n_ignored++;
+		return SCH_OK;
+	}
+	if ((known = sch_sim_compat_mode_known(value)) != NULL) {
+		si->mode = known;
+		si->mode_line = lineno;
+		return SCH_OK;
+	}
+	si->n_ignored++;
+	if (!si->bad_mode && !(si->bad_mode = sch_arena_strdup(arena, value)))
+		return SCH_ERR_NOMEM;
+	return SCH_OK;
+}
+
 enum sch_err sch_sim_read_spiceinit(const char *netlist, struct sch_arena *arena, struct sch_spiceinit *si,
 				    struct sch_diag *d)
 {
-	char line[1024], value[64];
+	char line[1024];
 	FILE *f = NULL;
 	long lineno = 0;
 	enum sch_err ret = SCH_ERR_NOMEM;
@@ -104,26 +125,14 @@ enum sch_err sch_sim_read_spiceinit(const char *netlist, struct sch_arena *arena
 		size_t len = strlen(line);
 
 		lineno++;
-		if (ftell(f) > SCH_SPICEINIT_MAX_BYTES || memchr(line, '\0', len) != NULL) {
+		if (ftell(f) > SCH_SPICEINIT_MAX_BYTES) {
 			si->n_ignored++;
 			break;
 		}
 		while (len == sizeof(line) - 1 && line[len - 1] != '\n' && fgets(line, sizeof(line), f))
 			len = strlen(line); /* an overlong line counts once */
-		if (line_is_empty(line))
-			continue;
-		if (parse_set_ngbehavior(line, value, sizeof(value))) {
-			const char *known = sch_sim_compat_mode_known(value);
-
-			if (known) {
-				si->mode = known;
-				si->mode_line = lineno;
-				continue;
-			}
-			if (!si->bad_mode && !(si->bad_mode = sch_arena_strdup(arena, value)))
-				goto out;
-		}
-		si->n_ignored++;
+		if (!line_is_empty(line) && take_line(si, arena, line, lineno) != SCH_OK)
+			goto out;
 	}
 	ret = SCH_OK;
 out:

@@ -636,6 +636,18 @@ static bool worker_run_step(struct sch_worker_ctx *w, const struct sch_sim_reque
 	return true;
 }
 
+/* The compatibility mode, read by the library as each circuit loads (its "Compatibility modes selected" note). */
+static void worker_set_compat_mode(struct sch_worker_ctx *w, const struct sch_sim_request *req)
+{
+	const char *mode = req->compat_mode ? sch_sim_compat_mode_known(req->compat_mode) : NULL;
+	char set[64];
+
+	if (!mode)
+		return;
+	snprintf(set, sizeof(set), "set ngbehavior=%s", mode);
+	worker_command(w, set);
+}
+
 /* The whole life of a worker process. Never returns. */
 void sch_sim_worker_main(const struct sch_sim_request *req, char **deck, size_t first, size_t end, int fd)
 {
@@ -661,13 +673,7 @@ void sch_sim_worker_main(const struct sch_sim_request *req, char **deck, size_t 
 		worker_command(&w, "set sqrnoise");
 	if (req->noise_via_file)
 		worker_command(&w, "set norefvalue");
-	if (req->compat_mode && sch_sim_compat_mode_known(req->compat_mode)) {
-		char set[64];
-
-		/* read by the library as each circuit loads (its "Compatibility modes selected" note) */
-		snprintf(set, sizeof(set), "set ngbehavior=%s", sch_sim_compat_mode_known(req->compat_mode));
-		worker_command(&w, set);
-	}
+	worker_set_compat_mode(&w, req);
 	if (w.gave_up)
 		goto gave_up;
 	w.phase = SCH_PHASE_LOAD;
