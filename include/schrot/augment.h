@@ -89,7 +89,8 @@ const char *sch_augment_table_as_value(struct sch_arena *arena, const char *text
  * Writes aug to out as a deck plain ngspice runs in batch mode: its cards up to ".end", then a
  * .control block that sizes every instance's probe resistor to 2q|I|G / (4 k_sim T) with the
  * operating-point currents of set at temp_k (SCH_PROBE_OFF_OHMS for a zero current or an instance
- * that is no carrier), runs noise_command, prints the integrated noise and quits with status 0 only
+ * that is no carrier), runs a one-point AC analysis when the deck has code-model (A) devices
+ * (sim.h, prime_ac), runs noise_command, prints the integrated noise and quits with status 0 only
  * when the run produced it. aug must come from set's deck. Returns SCH_ERR_IO (message in d) when a write fails, SCH_ERR_NOMEM; out may then hold part
  * of the deck.
  */

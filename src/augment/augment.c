@@ -295,6 +295,15 @@ static double probe_ohms(const struct sch_carrier *c, double temp_k)
 	return s / (4.0 * SCH_SIM_K * temp_k);
 }
 
+/* Whether the deck holds a code-model (A) element: a card line starting with its letter. */
+static bool has_code_model_device(const struct sch_augmented *aug)
+{
+	for (size_t k = 1; k < aug->n_lines; k++)
+		if (aug->line_card[k] >= 0 && (aug->lines[k][0] == 'a' || aug->lines[k][0] == 'A'))
+			return true;
+	return false;
+}
+
 enum sch_err sch_augment_write(const struct sch_augmented *aug, const struct sch_carrier_set *set, double temp_k,
 			       const char *noise_command, struct sch_arena *arena, FILE *out, struct sch_diag *d)
 {
@@ -330,6 +339,8 @@ enum sch_err sch_augment_write(const struct sch_augmented *aug, const struct sch
 			fprintf(out, "* schrot: %s is no carrier here: no generator\n", in->path);
 		fprintf(out, "alter @%s[resistance]=%.17g\n", name, probe_ohms(c, temp_k));
 	}
+	if (has_code_model_device(aug))
+		fprintf(out, "* schrot: code models' small-signal state for the noise run (ngspice 39)\nac lin 1 1 1\n");
 	/* batch ngspice exits 1 on a deck without .print lines; exit 0 only when the totals exist */
 	fprintf(out,
 		"%s\nprint onoise_total inoise_total\n"
