@@ -68,6 +68,7 @@ struct sch_run_options {
 	bool junction_correction;
 	double responsivity_a_per_w;    /* NaN: none */
 	double signal;                  /* NaN: none; in input units */
+	double signal_freq_hz;          /* NaN: none; the transfer's reference frequency when given */
 	int n_workers;
 	/*
 	 * --lump: resistors whose whole hierarchical name matches (case-insensitive) are reported as
@@ -89,6 +90,23 @@ struct sch_run_options {
 	void *progress_ctx;
 };
 
+/*
+ * The transfer from the input source to the output, |H| = |output / input| (V/A for a current
+ * input, V/V for a voltage input). mid_band = |H| at ref_hz: the signal's frequency when given
+ * (--signal-freq), otherwise the frequency of largest |H| within the band. f_low_hz / f_high_hz:
+ * the -3 dB points relative to mid_band, the nearest frequencies below and above ref_hz where
+ * |H| = mid_band / sqrt(2) (log-log interpolation), NaN where |H| does not fall 3 dB inside the
+ * simulated range. enbw_hz = integral over the band of |H|^2 df / mid_band^2. All NaN when the
+ * result has no noise run or no transfer.
+ */
+struct sch_transfer {
+	double mid_band;
+	double ref_hz;
+	double f_low_hz;
+	double f_high_hz;
+	double enbw_hz;
+};
+
 struct sch_result {
 	struct sch_arena arena;         /* owns everything below except deck */
 	struct sch_deck deck;
@@ -103,6 +121,12 @@ struct sch_result {
 	const char *input_unit;         /* "A" for a current source, "V" for a voltage source */
 	double band_lo_hz, band_hi_hz;
 	double run_lo_hz, run_hi_hz;    /* the noise run's requested frequency range */
+	/*
+	 * A spot run (start == stop, one frequency): every band figure (rms, band power, NEP over the
+	 * band, SNR) is NaN, the spots hold that frequency, and shares and the verdict are of the
+	 * output noise power density there.
+	 */
+	bool spot_run;
 	size_t n_freq;
 	double *freq_hz;
 	double *total_psd;              /* V^2/Hz: sum of every contribution's psd */
@@ -111,17 +135,18 @@ struct sch_result {
 	size_t n_contributions;
 	double total_power_v2;          /* band power of the total */
 	double output_rms_v;
-	double input_rms;               /* input-referred rms over the band, input units */
+	double input_rms;               /* output_rms_v / transfer.mid_band: input-referred rms over the band, input units */
+	struct sch_transfer transfer;   /* the input-to-output transfer (report runs) */
 	struct sch_spot *spots;
 	size_t n_spots;
 	double responsivity_a_per_w;    /* NaN: none */
 	double signal;                  /* NaN: none */
-	double snr;                     /* signal^2 / input_rms^2; NaN without a signal */
+	double snr;                     /* at the output: (signal * transfer.mid_band)^2 / total_power_v2; NaN without a signal */
 	double carrier_power_v2;        /* band power of all added carrier shot noise */
 	double shot_to_rest;            /* carrier_power_v2 / (everything else); NaN without carriers or rest */
 	const struct sch_contribution *dominant_other; /* the largest row of the device that leads the rest, or NULL */
 	double dominant_other_share;    /* that device's share, all its rows netted (corrections included) */
-	double nep_band_w_per_rthz;     /* input_rms / sqrt(band width) / responsivity; NaN without one */
+	double nep_band_w_per_rthz;     /* input_rms / sqrt(transfer.enbw_hz) / responsivity; NaN without one */
 	const char **notes;             /* assumptions and corrections applied, for reports */
 	size_t n_notes;
 };

@@ -1,6 +1,6 @@
 /* SPDX-License-Identifier: BSD-3-Clause */
 /*
- * sim.h - the simulator session. Only sim_ngspice.c talks to the ngspice shared library. Every run
+ * sim.h - the simulator session. Only src/sim/ talks to the ngspice shared library. Every run
  * happens in a worker process, so a simulator crash, exit or dead library never takes the tool
  * down; netlist text and start-up scripts never make the simulator run commands.
  */

@@ -42,6 +42,7 @@ void sch_run_options_init(struct sch_run_options *opt)
 	opt->junction_correction = true;
 	opt->responsivity_a_per_w = NAN;
 	opt->signal = NAN;
+	opt->signal_freq_hz = NAN;
 	opt->n_workers = 1;
 }
 
@@ -61,6 +62,11 @@ void sch_result_init(struct sch_result *res)
 	res->dominant_other_share = NAN;
 	res->output_rms_v = NAN;
 	res->input_rms = NAN;
+	res->transfer.mid_band = NAN;
+	res->transfer.ref_hz = NAN;
+	res->transfer.f_low_hz = NAN;
+	res->transfer.f_high_hz = NAN;
+	res->transfer.enbw_hz = NAN;
 }
 
 void sch_result_release(struct sch_result *res)

@@ -230,6 +230,15 @@ enum sch_err sch_analysis_correct(struct sch_analysis *an, struct sch_row_build 
  */
 enum sch_err sch_analysis_integrate(struct sch_result *res, const struct sch_run_options *opt, struct sch_diag *d);
 
+/* transfer.c */
+
+/*
+ * res->transfer from the squared gain once the band is set: the reference frequency (opt's signal
+ * frequency, else the band's peak |H|), mid-band value, -3 dB points and noise-equivalent
+ * bandwidth. Returns SCH_ERR_USAGE for a signal frequency outside the simulated range.
+ */
+enum sch_err sch_analysis_transfer(struct sch_result *res, const struct sch_run_options *opt, struct sch_diag *d);
+
 /* verdict.c */
 
 /*

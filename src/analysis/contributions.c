@@ -299,9 +299,12 @@ static enum sch_err take_spectra(struct sch_result *res, const struct sch_sim_ou
 	const struct sch_sim_vector *inn = sch_sim_find_vector(o, "inoise_spectrum");
 	size_t nf;
 
-	if (!fv || !on || !inn || fv->n < 2 || on->n != fv->n || inn->n != fv->n)
+	/* a spot run (start == stop) has one point; a sweep needs two */
+	if (!fv || !on || !inn || fv->n < (res->run_lo_hz == res->run_hi_hz ? 1u : 2u) || on->n != fv->n ||
+	    inn->n != fv->n)
 		return sch_diag_error(d, SCH_ERR_SIM, NULL, 0, "simulator: the noise run returned no spectra");
 	nf = fv->n;
+	res->spot_run = nf == 1;
 	res->n_freq = nf;
 	res->freq_hz = sch_arena_alloc(a, nf * sizeof(double));
 	res->gain2 = sch_arena_alloc(a, nf * sizeof(double));

@@ -4,6 +4,7 @@
  * setting of a .spiceinit beside the netlist, read as data; the rest of that file is ignored.
  */
 #include <stdio.h>
+#include <string.h>
 #include "analysis_int.h"
 #include "schrot/sim.h"
 
@@ -21,6 +22,23 @@ static enum sch_err note_ignored(struct sch_analysis *an, const struct sch_spice
 	return sch_analysis_note(an, sch_arena_printf(a, "'%s': %zu line%s ignored (schrot never runs a .spiceinit; "
 							  "it reads only 'set ngbehavior=...' from it)",
 						      si->path, si->n_ignored, si->n_ignored == 1 ? "" : "s"));
+}
+
+/*
+ * A mode without 'a' applies, in ngspice, to included and library files only. schrot inlines
+ * those files itself, so the simulator sees one netlist: the mode then has to cover all of it.
+ * Returns the whole-netlist spelling ("ps" -> "psa"), or mode when it has none or needs none.
+ */
+static const char *whole_netlist_mode(const char *mode)
+{
+	static const char *const pairs[][2] = {
+		{ "ps", "psa" }, { "lt", "lta" }, { "ltps", "ltpsa" }, { "hs", "hsa" }, { "ki", "kia" },
+	};
+
+	for (size_t k = 0; mode && k < sizeof(pairs) / sizeof(pairs[0]); k++)
+		if (strcmp(mode, pairs[k][0]) == 0)
+			return pairs[k][1];
+	return mode;
 }
 
 enum sch_err sch_analysis_plan_dialect(struct sch_analysis *an)
@@ -44,6 +62,16 @@ enum sch_err sch_analysis_plan_dialect(struct sch_analysis *an)
 		ret = sch_analysis_note(an, sch_arena_printf(a, "simulator compatibility mode '%s' from '%s' line %ld "
 								 "(read as data; --dialect overrides it)",
 							     si.mode, si.path, si.mode_line));
+	if (ret == SCH_OK && res->compat_mode && res->deck.n_files > 1 &&
+	    whole_netlist_mode(res->compat_mode) != res->compat_mode) {
+		const char *whole = whole_netlist_mode(res->compat_mode);
+
+		ret = sch_analysis_note(an, sch_arena_printf(a, "mode '%s' is for included and library files: schrot "
+								 "inlines them itself, so the simulator runs the whole "
+								 "deck in '%s'",
+							     res->compat_mode, whole));
+		res->compat_mode = whole;
+	}
 	if (ret != SCH_OK)
 		return ret;
 	return si.present ? note_ignored(an, &si) : SCH_OK;

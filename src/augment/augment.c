@@ -304,6 +304,29 @@ static bool has_code_model_device(const struct sch_augmented *aug)
 	return false;
 }
 
+/*
+ * Whether a noise command as the analysis builds it ("noise OUT IN SWEEP N F1 F2 [PTS]", numbers
+ * printed the same way) has equal start and stop frequencies: a spot run.
+ */
+static bool spot_command(const char *cmd)
+{
+	const char *tok[8];
+	size_t n = 0, len[8];
+
+	for (const char *p = cmd; *p && n < 8;) {
+		while (*p == ' ')
+			p++;
+		if (!*p)
+			break;
+		tok[n] = p;
+		while (*p && *p != ' ')
+			p++;
+		len[n] = (size_t)(p - tok[n]);
+		n++;
+	}
+	return n >= 7 && len[5] == len[6] && strncmp(tok[5], tok[6], len[5]) == 0;
+}
+
 enum sch_err sch_augment_write(const struct sch_augmented *aug, const struct sch_carrier_set *set, double temp_k,
 			       const char *noise_command, struct sch_arena *arena, FILE *out, struct sch_diag *d)
 {
@@ -342,11 +365,19 @@ enum sch_err sch_augment_write(const struct sch_augmented *aug, const struct sch
 	if (has_code_model_device(aug))
 		fprintf(out, "* schrot: code models' small-signal state for the noise run (ngspice 39)\nac lin 1 1 1\n");
 	/* batch ngspice exits 1 on a deck without .print lines; exit 0 only when the totals exist */
-	fprintf(out,
-		"%s\nprint onoise_total inoise_total\n"
-		"* schrot: exit status 0 only when the noise run produced its totals\n"
-		"if length(onoise_total) = 1\n  quit 0\nend\nquit 1\n.endc\n.end\n",
-		noise_command);
+	if (spot_command(noise_command))
+		fprintf(out,
+			"%s\nprint onoise_spectrum inoise_spectrum\n"
+			"* schrot: a single-frequency run has no totals (no noise2 plot): exit status 0 only when\n"
+			"* it produced its one density\n"
+			"if length(onoise_spectrum) = 1\n  quit 0\nend\nquit 1\n.endc\n.end\n",
+			noise_command);
+	else
+		fprintf(out,
+			"%s\nprint onoise_total inoise_total\n"
+			"* schrot: exit status 0 only when the noise run produced its totals\n"
+			"if length(onoise_total) = 1\n  quit 0\nend\nquit 1\n.endc\n.end\n",
+			noise_command);
 	if (ferror(out)) {
 		ret = sch_diag_error(d, SCH_ERR_IO, NULL, 0, "could not write the augmented deck");
 		goto out;

@@ -148,7 +148,12 @@ static const struct cli_option options[] = {
 	{ "--responsivity", NULL, "A_PER_W", CMD_REPORT,
 	  NUMBER(run.responsivity_a_per_w, CHECK_POSITIVE, "a positive value in A/W"), "detector responsivity, for NEP" },
 	{ "--signal", NULL, "VALUE", CMD_REPORT, NUMBER(run.signal, CHECK_ANY, "a number in the input's unit"),
-	  "signal in the input's unit, for SNR over the band" },
+	  "signal in the input's unit, for SNR at the output over the band" },
+	{ "--signal-freq", NULL, "F", CMD_REPORT,
+	  NUMBER(run.signal_freq_hz, CHECK_POSITIVE_FINITE, "a positive frequency in Hz"),
+	  "the signal's frequency in Hz: the transfer there refers the band's\n"
+	  "noise to the input and carries the signal (default: where |H|\n"
+	  "peaks in the band)" },
 	{ "--budget", NULL, "VRMS", CMD_REPORT, NUMBER(budget_v, CHECK_POSITIVE, "a positive rms voltage"),
 	  "exit 1 when the band's output rms exceeds it (SI suffixes: 50u)" },
 	{ "--output", NULL, "EXPR", CMD_REPORT | CMD_AUGMENT | CMD_SWEEP | CMD_ARRIVALS, TEXT(run.output_expr),

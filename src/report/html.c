@@ -155,15 +155,21 @@ static void headline(struct page *b, const struct sch_result *r)
 
 	snprintf(u, sizeof(u), "%s/√Hz", unit);
 	adds(b, "<div class=\"figures\">\n");
-	snprintf(v, sizeof(v), "%s rms", si(x, sizeof(x), r->output_rms_v, "V"));
-	figure(b, v, "output noise in the band");
-	snprintf(v, sizeof(v), "%s rms", si(x, sizeof(x), r->input_rms, unit));
-	figure(b, v, "input-referred noise");
+	if (r->spot_run && r->n_spots > 0) {
+		snprintf(y, sizeof(y), "output noise at %s (a single-frequency run: no band)",
+			 si(x, sizeof(x), r->spots[0].freq_hz, "Hz"));
+		figure(b, si(v, sizeof(v), r->spots[0].output_v_per_rthz, "V/√Hz"), y);
+	} else {
+		snprintf(v, sizeof(v), "%s rms", si(x, sizeof(x), r->output_rms_v, "V"));
+		figure(b, v, "output noise in the band");
+		snprintf(v, sizeof(v), "%s rms", si(x, sizeof(x), r->input_rms, unit));
+		figure(b, v, "input-referred noise");
+	}
 	if (!isnan(r->nep_band_w_per_rthz)) {
 		snprintf(y, sizeof(y), "band-average NEP at %.4g A/W", r->responsivity_a_per_w);
 		figure(b, si(v, sizeof(v), r->nep_band_w_per_rthz, "W/√Hz"), y);
 	}
-	if (!isnan(r->signal)) {
+	if (!isnan(r->signal) && !isnan(r->snr)) {
 		snprintf(v, sizeof(v), "%.1f dB", sch_report_db(r->snr));
 		snprintf(y, sizeof(y), "SNR %s for %s", ratio(q, sizeof(q), r->snr), si(x, sizeof(x), r->signal, unit));
 		figure(b, v, y);
@@ -354,9 +360,15 @@ static enum sch_err build_page(struct page *b, const struct sch_result *r)
 	adds(b, "</style>\n</head>\n<body>\n");
 	elem(b, "<h1>Noise report: <code>", r->netlist, "</code></h1>\n");
 	if (r->n_freq) {
-		snprintf(line, sizeof(line), "output %s, input %s, band %s to %s, %.2f K (%.2f °C)",
-			 r->output ? r->output : "-", r->input ? r->input : "-", si(x, sizeof(x), r->band_lo_hz, "Hz"),
-			 si(y, sizeof(y), r->band_hi_hz, "Hz"), r->temp_k, r->temp_k - SCH_ZERO_C_K);
+		if (r->spot_run)
+			snprintf(line, sizeof(line), "output %s, input %s, spot %s only, %.2f K (%.2f °C)",
+				 r->output ? r->output : "-", r->input ? r->input : "-",
+				 si(x, sizeof(x), r->band_lo_hz, "Hz"), r->temp_k, r->temp_k - SCH_ZERO_C_K);
+		else
+			snprintf(line, sizeof(line), "output %s, input %s, band %s to %s, %.2f K (%.2f °C)",
+				 r->output ? r->output : "-", r->input ? r->input : "-",
+				 si(x, sizeof(x), r->band_lo_hz, "Hz"), si(y, sizeof(y), r->band_hi_hz, "Hz"), r->temp_k,
+				 r->temp_k - SCH_ZERO_C_K);
 		elem(b, "<p class=\"sub\">", line, "</p>\n");
 		headline(b, r);
 		elem(b, "<p class=\"verdict\"><b>Verdict:</b> ", sch_report_verdict(r, line, sizeof(line)), "</p>\n");

@@ -205,6 +205,20 @@ static json_t *total_json(const struct sch_result *r, int *bad)
 	return o;
 }
 
+static json_t *transfer_json(const struct sch_result *r, int *bad)
+{
+	json_t *o = json_object();
+	const struct sch_transfer *t = &r->transfer;
+
+	put(o, "mid_band", num(t->mid_band), bad);
+	put(o, "unit", text(sch_report_transfer_unit(r)), bad);
+	put(o, "ref_hz", num(t->ref_hz), bad);
+	put(o, "f_low_hz", num(t->f_low_hz), bad);
+	put(o, "f_high_hz", num(t->f_high_hz), bad);
+	put(o, "enbw_hz", num(t->enbw_hz), bad);
+	return o;
+}
+
 static json_t *verdict_json(const struct sch_result *r, int *bad)
 {
 	json_t *o = json_object();
@@ -228,6 +242,7 @@ static json_t *snr_json(const struct sch_result *r, int *bad)
 	put(o, "ratio", num(r->snr), bad);
 	put(o, "db", num(sch_report_db(r->snr)), bad);
 	put(o, "signal", num(r->signal), bad);
+	put(o, "output_signal_v", num(r->signal * r->transfer.mid_band), bad);
 	return o;
 }
 
@@ -249,7 +264,10 @@ static json_t *result_json(const struct sch_result *r)
 		put(doc, "input", text(r->input), &bad);
 		put(doc, "input_unit", text(r->input_unit), &bad);
 		put(doc, "band_hz", band_json(r, &bad), &bad);
+		if (r->spot_run) /* one frequency: band figures are null, spot figures hold it */
+			put(doc, "spot_run", json_true(), &bad);
 		put(doc, "total", total_json(r, &bad), &bad);
+		put(doc, "transfer", transfer_json(r, &bad), &bad);
 		put(doc, "verdict", verdict_json(r, &bad), &bad);
 		put(doc, "spot", spots_json(r, &bad), &bad);
 		put(doc, "contributions", contributions_json(r, &bad), &bad);

@@ -94,6 +94,8 @@ static bool pick_axes(const struct sch_result *r, size_t top, struct axes *ax)
 	widen(t_hi, &v_lo, &v_hi);
 	ax->x_lo = floor(log10(f_lo) + 1e-9);
 	ax->x_hi = ceil(log10(f_hi) - 1e-9);
+	if (r->n_freq == 1) /* a spot run: its frequency inside two decades, not on the frame */
+		ax->x_lo -= 1, ax->x_hi = ax->x_lo + 2;
 	if (ax->x_hi <= ax->x_lo)
 		ax->x_hi = ax->x_lo + 1;
 	/* half-decade ends: a curve just above a decade does not cost the plot a whole empty decade */
@@ -287,9 +289,14 @@ static void draw_frame_and_titles(cairo_t *cr, const struct sch_result *r)
 	{
 		char line[700];
 		char lo[48], hi[48];
-		snprintf(line, sizeof(line), "noise at %s: %s rms over the band %s – %s", r->output ? r->output : "the output",
-			 sch_si_format(a, sizeof(a), r->output_rms_v, 3, "V"),
-			 sch_si_format(lo, sizeof(lo), r->band_lo_hz, 3, "Hz"), sch_si_format(hi, sizeof(hi), r->band_hi_hz, 3, "Hz"));
+		if (r->spot_run)
+			snprintf(line, sizeof(line), "noise at %s: a single-frequency run at %s (no band)",
+				 r->output ? r->output : "the output", sch_si_format(lo, sizeof(lo), r->band_lo_hz, 3, "Hz"));
+		else
+			snprintf(line, sizeof(line), "noise at %s: %s rms over the band %s – %s",
+				 r->output ? r->output : "the output", sch_si_format(a, sizeof(a), r->output_rms_v, 3, "V"),
+				 sch_si_format(lo, sizeof(lo), r->band_lo_hz, 3, "Hz"),
+				 sch_si_format(hi, sizeof(hi), r->band_hi_hz, 3, "Hz"));
 		fit_text(cr, line, PLOT_W - AREA_L - 20, s, sizeof(s));
 	}
 	cairo_move_to(cr, AREA_L, 42);
@@ -310,6 +317,10 @@ static void curve(cairo_t *cr, const struct sch_result *r, const struct axes *ax
 			cairo_line_to(cr, map_x(ax, f), map_y(ax, v));
 		else
 			cairo_move_to(cr, map_x(ax, f), map_y(ax, v));
+		if (r->n_freq == 1) { /* a spot run: a short level mark at its one frequency */
+			cairo_move_to(cr, map_x(ax, f) - 14, map_y(ax, v));
+			cairo_rel_line_to(cr, 28, 0);
+		}
 		pen = true;
 	}
 	cairo_stroke(cr);
@@ -377,7 +388,9 @@ static void draw_legend(cairo_t *cr, const struct sch_result *r, size_t top)
 	double y = AREA_T + 10;
 
 	line_style(cr, 0, true, false);
-	snprintf(detail, sizeof(detail), "%s rms", sch_si_format(rms, sizeof(rms), r->output_rms_v, 3, "V"));
+	snprintf(detail, sizeof(detail), "%s %s", sch_si_format(rms, sizeof(rms), r->spot_run ? sqrt(r->total_psd[0]) :
+									 r->output_rms_v, 3, r->spot_run ? "V/√Hz" : "V"),
+		 r->spot_run ? "at the spot" : "rms");
 	legend_entry(cr, y, "total", detail);
 	for (size_t i = 0; i < top; i++) {
 		const struct sch_contribution *c = &r->contributions[i];
@@ -385,9 +398,12 @@ static void draw_legend(cairo_t *cr, const struct sch_result *r, size_t top)
 		line_style(cr, i, false, c->origin == SCH_ORIGIN_CORRECTION);
 		sch_report_label(c, name, sizeof(name));
 		sch_report_format_share(pct, sizeof(pct), c->share);
-		snprintf(detail, sizeof(detail), "%s · %s rms%s", pct,
-			 sch_si_format(rms, sizeof(rms), c->output_rms_v, 3, "V"),
-			 c->origin == SCH_ORIGIN_CORRECTION ? " (correction)" : "");
+		if (r->spot_run)
+			snprintf(detail, sizeof(detail), "%s%s", pct, c->origin == SCH_ORIGIN_CORRECTION ? " (correction)" : "");
+		else
+			snprintf(detail, sizeof(detail), "%s · %s rms%s", pct,
+				 sch_si_format(rms, sizeof(rms), c->output_rms_v, 3, "V"),
+				 c->origin == SCH_ORIGIN_CORRECTION ? " (correction)" : "");
 		legend_entry(cr, y, name, detail);
 	}
 	if (r->n_contributions > top) {

@@ -23,6 +23,21 @@ size_t sch_report_top_count(const struct sch_result *r, int n);
 /* A share as a percentage: "45.2 %", "0.042 %", "-0.7 %"; the sign always shows; NaN is "-". */
 void sch_report_format_share(char *out, size_t size, double share);
 
+/* The unit of the transfer's magnitude: "V/A" for a current input, "V/V" for a voltage input. */
+const char *sch_report_transfer_unit(const struct sch_result *r);
+
+/*
+ * The transfer's mid-band value as a designer reads it: "1.00 MΩ" (a transimpedance) for a
+ * current input, "100 V/V (40.0 dB)" for a voltage input; "-" without one. Returns out.
+ */
+const char *sch_report_transfer_value(const struct sch_result *r, char *out, size_t size);
+
+/*
+ * The transfer's bandwidth in words: "-3 dB at 1.00 kHz; noise-equivalent 1.57 kHz over the
+ * band" (both -3 dB points where both exist). Returns out.
+ */
+const char *sch_report_bandwidth_text(const struct sch_result *r, char *out, size_t size);
+
 /* 10*log10(ratio), NaN for a ratio that is not positive and finite. */
 double sch_report_db(double ratio);
 

@@ -150,14 +150,56 @@ static const char *or_dash(const char *s)
 	return s && *s ? s : "-";
 }
 
+static bool current_input(const struct sch_result *r)
+{
+	return r->input_unit && strcmp(r->input_unit, "A") == 0;
+}
+
+const char *sch_report_transfer_unit(const struct sch_result *r)
+{
+	return current_input(r) ? "V/A" : "V/V";
+}
+
+const char *sch_report_transfer_value(const struct sch_result *r, char *out, size_t size)
+{
+	double h = r->transfer.mid_band;
+
+	if (!isfinite(h))
+		snprintf(out, size, "-");
+	else if (current_input(r))
+		sch_si_format(out, size, h, 3, "Ω");
+	else
+		snprintf(out, size, "%.3g V/V (%.1f dB)", h, 20.0 * log10(h));
+	return out;
+}
+
+const char *sch_report_bandwidth_text(const struct sch_result *r, char *out, size_t size)
+{
+	const struct sch_transfer *t = &r->transfer;
+	char lo[48], hi[48], nb[48], edges[128];
+
+	if (!isnan(t->f_low_hz) && !isnan(t->f_high_hz))
+		snprintf(edges, sizeof(edges), "-3 dB from %s to %s", sch_si_format(lo, sizeof(lo), t->f_low_hz, 3, "Hz"),
+			 sch_si_format(hi, sizeof(hi), t->f_high_hz, 3, "Hz"));
+	else if (!isnan(t->f_high_hz))
+		snprintf(edges, sizeof(edges), "-3 dB at %s", sch_si_format(hi, sizeof(hi), t->f_high_hz, 3, "Hz"));
+	else if (!isnan(t->f_low_hz))
+		snprintf(edges, sizeof(edges), "-3 dB below %s", sch_si_format(lo, sizeof(lo), t->f_low_hz, 3, "Hz"));
+	else
+		snprintf(edges, sizeof(edges), "no -3 dB point in the simulated range");
+	snprintf(out, size, "%s; noise-equivalent %s over the band", edges,
+		 sch_si_format(nb, sizeof(nb), t->enbw_hz, 3, "Hz"));
+	return out;
+}
+
 const char *sch_report_verdict(const struct sch_result *r, char *out, size_t size)
 {
 	char other[160] = "nothing else";
 	const struct sch_contribution *d = r->dominant_other;
 
 	if (d)
-		snprintf(other, sizeof(other), "%s (%.1f %% of the output noise power, mostly %s)", d->device,
-			 100.0 * r->dominant_other_share, d->generator);
+		snprintf(other, sizeof(other), "%s (%.1f %% of the output noise power%s, mostly %s)", d->device,
+			 100.0 * r->dominant_other_share, r->spot_run ? " density" : "", d->generator);
 	if (r->set.n_carriers == 0)
 		snprintf(out, size, "no shot-noise carriers found; the noise is led by %s", other);
 	else if (!(r->carrier_power_v2 > 0))
@@ -165,10 +207,11 @@ const char *sch_report_verdict(const struct sch_result *r, char *out, size_t siz
 	else if (isnan(r->shot_to_rest))
 		snprintf(out, size, "shot-noise limited: the carriers' shot noise is all the noise");
 	else if (r->shot_to_rest >= 1)
-		snprintf(out, size, "shot-noise limited by %.3g x in power; of the rest, %s leads", r->shot_to_rest, other);
+		snprintf(out, size, "shot-noise limited by %.3g x in power%s; of the rest, %s leads", r->shot_to_rest,
+			 r->spot_run ? " density" : "", other);
 	else
-		snprintf(out, size, "not shot-noise limited: the rest is %.3g x the carriers' shot-noise power, led by %s",
-			 1.0 / r->shot_to_rest, other);
+		snprintf(out, size, "not shot-noise limited: the rest is %.3g x the carriers' shot-noise power%s, led by %s",
+			 1.0 / r->shot_to_rest, r->spot_run ? " density" : "", other);
 	return out;
 }
 
@@ -191,21 +234,37 @@ static void print_headline(const struct sch_result *r, FILE *out)
 		 : r->input_unit && strcmp(r->input_unit, "V") == 0 ? "voltage"
 								    : "unknown");
 	print_item(out, "input", line);
-	snprintf(line, sizeof(line), "%s to %s", sch_si_format(a, sizeof(a), r->band_lo_hz, 3, "Hz"),
-		 sch_si_format(b, sizeof(b), r->band_hi_hz, 3, "Hz"));
-	print_item(out, "band", line);
-	snprintf(line, sizeof(line), "%s rms", sch_si_format(a, sizeof(a), r->output_rms_v, 3, "V"));
-	print_item(out, "output noise", line);
-	snprintf(line, sizeof(line), "%s rms", sch_si_format(a, sizeof(a), r->input_rms, 3, unit));
-	print_item(out, "input-referred", line);
-	if (!isnan(r->signal)) {
+	if (r->spot_run) {
+		snprintf(line, sizeof(line), "%s only (a single-frequency run: spot figures, no band figures)",
+			 sch_si_format(a, sizeof(a), r->band_lo_hz, 3, "Hz"));
+		print_item(out, "spot", line);
+		snprintf(line, sizeof(line), "%s%s at %s", sch_report_transfer_value(r, a, sizeof(a)),
+			 current_input(r) ? " (transimpedance)" : "", sch_si_format(b, sizeof(b), r->transfer.ref_hz, 3, "Hz"));
+		print_item(out, "transfer", line);
+	} else {
+		snprintf(line, sizeof(line), "%s to %s", sch_si_format(a, sizeof(a), r->band_lo_hz, 3, "Hz"),
+			 sch_si_format(b, sizeof(b), r->band_hi_hz, 3, "Hz"));
+		print_item(out, "band", line);
+		snprintf(line, sizeof(line), "%s rms", sch_si_format(a, sizeof(a), r->output_rms_v, 3, "V"));
+		print_item(out, "output noise", line);
+		snprintf(line, sizeof(line), "%s rms (output rms / mid-band transfer)",
+			 sch_si_format(a, sizeof(a), r->input_rms, 3, unit));
+		print_item(out, "input-referred", line);
+		snprintf(line, sizeof(line), "%s%s at %s", sch_report_transfer_value(r, a, sizeof(a)),
+			 current_input(r) ? " (transimpedance)" : "", sch_si_format(b, sizeof(b), r->transfer.ref_hz, 3, "Hz"));
+		print_item(out, "transfer", line);
+		print_item(out, "bandwidth", sch_report_bandwidth_text(r, line, sizeof(line)));
+	}
+	if (!isnan(r->signal) && !r->spot_run) {
 		double db = sch_report_db(r->snr);
-		snprintf(line, sizeof(line), "%.4g (%.1f dB) for a signal of %s", r->snr, db,
+		char c[64];
+		snprintf(line, sizeof(line), "%.4g (%.1f dB) at the output: %s of signal for a %s input", r->snr, db,
+			 sch_si_format(c, sizeof(c), fabs(r->signal * r->transfer.mid_band), 3, "V"),
 			 sch_si_format(a, sizeof(a), r->signal, 3, unit));
 		print_item(out, "SNR", line);
 	}
 	if (!isnan(r->nep_band_w_per_rthz)) {
-		snprintf(line, sizeof(line), "%s (band average, at %g A/W)",
+		snprintf(line, sizeof(line), "%s (band average over the noise bandwidth, at %g A/W)",
 			 sch_si_format(a, sizeof(a), r->nep_band_w_per_rthz, 3, "W/√Hz"), r->responsivity_a_per_w);
 		print_item(out, "NEP", line);
 	}
@@ -260,7 +319,8 @@ static enum sch_err print_contributions(const struct sch_result *r, FILE *out)
 	struct grid g;
 	enum sch_err ret;
 	const size_t fixed = 6; /* rank device generator mechanism origin dc */
-	size_t n_cols = fixed + r->n_spots + 3;
+	size_t tail = r->spot_run ? 2 : 3; /* [band rms] share cumulative */
+	size_t n_cols = fixed + r->n_spots + tail;
 	double cumulative = 0;
 	char buf[128];
 
@@ -278,7 +338,8 @@ static enum sch_err print_contributions(const struct sch_result *r, FILE *out)
 		snprintf(buf, sizeof(buf), "at %s", sch_si_format(f, sizeof(f), r->spots[j].freq_hz, 3, "Hz"));
 		grid_set(&g, 0, fixed + j, buf);
 	}
-	grid_set(&g, 0, n_cols - 3, "band rms");
+	if (!r->spot_run)
+		grid_set(&g, 0, n_cols - 3, "band rms");
 	grid_set(&g, 0, n_cols - 2, "share");
 	grid_set(&g, 0, n_cols - 1, "cumulative");
 	g.right[0] = true;
@@ -298,7 +359,8 @@ static enum sch_err print_contributions(const struct sch_result *r, FILE *out)
 			grid_set(&g, row, fixed + j,
 				 sch_si_format(buf, sizeof(buf), c->spot_density ? c->spot_density[j] : NAN, 3,
 					       "V/√Hz"));
-		grid_set(&g, row, n_cols - 3, sch_si_format(buf, sizeof(buf), c->output_rms_v, 3, "V"));
+		if (!r->spot_run)
+			grid_set(&g, row, n_cols - 3, sch_si_format(buf, sizeof(buf), c->output_rms_v, 3, "V"));
 		sch_report_format_share(buf, sizeof(buf), c->share);
 		grid_set(&g, row, n_cols - 2, buf);
 		cumulative += c->share;
@@ -306,7 +368,8 @@ static enum sch_err print_contributions(const struct sch_result *r, FILE *out)
 		grid_set(&g, row, n_cols - 1, buf);
 	}
 	fputc('\n', out);
-	fprintf(out, "  noise contributions, largest share of the band's output noise power first\n");
+	fprintf(out, "  noise contributions, largest share of the %s first\n",
+		r->spot_run ? "output noise power density at the spot frequency" : "band's output noise power");
 	ret = grid_print(&g, out, "  ");
 out:
 	grid_release(&g);
