@@ -78,6 +78,11 @@ struct sch_run_options {
 	 */
 	const char *lump_regex;
 	/*
+	 * --dialect: the simulator's compatibility mode (a value sch_sim_compat_mode_known accepts);
+	 * NULL: the one a .spiceinit beside the netlist sets, else none.
+	 */
+	const char *compat_mode;
+	/*
 	 * Sweeps only: called in the calling process with the number of points done (0 before the
 	 * first) out of total; NULL for none. It must not write to stdout.
 	 */
@@ -113,6 +118,7 @@ struct sch_result {
 	struct sch_carrier_set set;
 	const char *netlist;            /* path as given */
 	const char *sim_version;
+	const char *compat_mode;        /* the simulator's compatibility mode the run used, NULL: none */
 	double temp_k;                  /* circuit temperature */
 	/* noise run (mode SCH_RUN_REPORT only) */
 	const char *output;             /* "v(out)" */

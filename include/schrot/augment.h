@@ -75,10 +75,22 @@ const char *sch_augment_probe_sim_name(struct sch_arena *arena, const struct sch
 #define SCH_PROBE_OFF_OHMS 1e-30
 
 /*
+ * An E/G TABLE card's text rewritten as "value={pwl(expr, x0-d, y0, x0, y0, ..., xn, yn, xn+d, yn)}"
+ * with d = (xn - x0) / 2 (flat beyond the ends), in arena. ngspice 39 turns a TABLE into a pwl
+ * code model whose small-signal gain in a noise run is taken at the AC solution instead of the
+ * operating point (measured: 520 V/V falls to 460 above 10 kHz); the behavioural pwl() keeps it.
+ * The code model rounds each corner within 10 % of the next segment; pwl() does not. NULL when
+ * the text is no TABLE with plain numeric, rising x values (it then stays as written) or when
+ * out of memory.
+ */
+const char *sch_augment_table_as_value(struct sch_arena *arena, const char *text);
+
+/*
  * Writes aug to out as a deck plain ngspice runs in batch mode: its cards up to ".end", then a
  * .control block that sizes every instance's probe resistor to 2q|I|G / (4 k_sim T) with the
  * operating-point currents of set at temp_k (SCH_PROBE_OFF_OHMS for a zero current or an instance
- * that is no carrier), runs noise_command, prints the integrated noise and quits with status 0 only
+ * that is no carrier), runs a one-point AC analysis when the deck has code-model (A) devices
+ * (sim.h, prime_ac), runs noise_command, prints the integrated noise and quits with status 0 only
  * when the run produced it. aug must come from set's deck. Returns SCH_ERR_IO (message in d) when a write fails, SCH_ERR_NOMEM; out may then hold part
  * of the deck.
  */

@@ -118,6 +118,7 @@ static enum sch_err analysis_core(const char *path, const struct sch_run_options
 	an.d = d;
 	res->netlist = sch_arena_strdup(&res->arena, path);
 	if ((ret = sch_deck_load(&res->deck, path, d)) != SCH_OK ||
+	    (ret = sch_analysis_plan_dialect(&an)) != SCH_OK ||
 	    (ret = sch_carriers_find(&res->deck, &opt->carriers, &res->arena, &res->set, d)) != SCH_OK ||
 	    (ret = sch_analysis_check_rules(&an)) != SCH_OK ||
 	    (ret = sch_analysis_plan_report(&an)) != SCH_OK ||

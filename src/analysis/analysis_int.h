@@ -266,6 +266,18 @@ enum sch_err sch_analysis_transfer(struct sch_result *res, const struct sch_run_
  */
 enum sch_err sch_analysis_verdict(struct sch_result *res);
 
+/*
+ * dialect.c: the compatibility mode (--dialect, else a .spiceinit's one setting read as data) in
+ * res->compat_mode, with notes saying where it came from and what of the .spiceinit was ignored.
+ * SCH_ERR_NOMEM.
+ */
+enum sch_err sch_analysis_plan_dialect(struct sch_analysis *an);
+
+/* light.c: a note when the input is a voltage standing for the optical power a carrier reads. SCH_ERR_NOMEM. */
+enum sch_err sch_analysis_note_light_input(struct sch_analysis *an);
+/* light.c: a note naming how many E/G TABLE sources run as pwl() (sch_augment_table_as_value). SCH_ERR_NOMEM. */
+enum sch_err sch_analysis_note_tables(struct sch_analysis *an);
+
 /* The notes that close a run (resistor count, noiseless sources, the constants). SCH_ERR_NOMEM. */
 enum sch_err sch_analysis_closing_notes(struct sch_analysis *an);
 

@@ -112,6 +112,9 @@ enum sch_err sch_analysis_build_request(struct sch_analysis *an)
 		req->keep_vector_ctx = &an->m;
 	}
 	req->squared_noise = true;
+	req->compat_mode = an->res->compat_mode;
+	for (size_t k = 0; report && k < an->res->deck.n_elements; k++)
+		req->prime_ac = req->prime_ac || an->res->deck.elements[k].letter == 'a';
 	req->n_workers = an->vary ? an->opt->n_workers : 1;
 	return SCH_OK;
 }

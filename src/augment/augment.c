@@ -202,6 +202,12 @@ static const char *card_text(const struct sch_deck *deck, const struct sch_card 
 {
 	const char *text = card->text;
 
+	if (card->element >= 0 && (deck->elements[card->element].letter == 'e' ||
+				   deck->elements[card->element].letter == 'g')) {
+		const char *pwl = sch_augment_table_as_value(arena, text);
+
+		text = pwl ? pwl : text;
+	}
 	if (card->element >= 0 && opt && opt->ac_source && card->subckt < 0 &&
 	    strcmp(deck->elements[card->element].name, opt->ac_source) == 0 &&
 	    !has_ac_value(&deck->elements[card->element]))
@@ -289,6 +295,15 @@ static double probe_ohms(const struct sch_carrier *c, double temp_k)
 	return s / (4.0 * SCH_SIM_K * temp_k);
 }
 
+/* Whether the deck holds a code-model (A) element: a card line starting with its letter. */
+static bool has_code_model_device(const struct sch_augmented *aug)
+{
+	for (size_t k = 1; k < aug->n_lines; k++)
+		if (aug->line_card[k] >= 0 && (aug->lines[k][0] == 'a' || aug->lines[k][0] == 'A'))
+			return true;
+	return false;
+}
+
 /*
  * Whether a noise command as the analysis builds it ("noise OUT IN SWEEP N F1 F2 [PTS]", numbers
  * printed the same way) has equal start and stop frequencies: a spot run.
@@ -347,6 +362,8 @@ enum sch_err sch_augment_write(const struct sch_augmented *aug, const struct sch
 			fprintf(out, "* schrot: %s is no carrier here: no generator\n", in->path);
 		fprintf(out, "alter @%s[resistance]=%.17g\n", name, probe_ohms(c, temp_k));
 	}
+	if (has_code_model_device(aug))
+		fprintf(out, "* schrot: code models' small-signal state for the noise run (ngspice 39)\nac lin 1 1 1\n");
 	/* batch ngspice exits 1 on a deck without .print lines; exit 0 only when the totals exist */
 	if (spot_command(noise_command))
 		fprintf(out,

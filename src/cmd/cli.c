@@ -12,6 +12,7 @@
 #include <strings.h>
 #include "schrot/cli.h"
 #include "schrot/si.h"
+#include "schrot/sim.h"
 
 /* The commands, one bit each, for the option table's "accepted by" column. */
 enum {
@@ -93,6 +94,7 @@ static enum sch_err set_avalanche(struct sch_cli *, const struct cli_option *, c
 static enum sch_err set_fano(struct sch_cli *, const struct cli_option *, char *, struct sch_diag *);
 static enum sch_err set_shard(struct sch_cli *, const struct cli_option *, char *, struct sch_diag *);
 static enum sch_err set_seed(struct sch_cli *, const struct cli_option *, char *, struct sch_diag *);
+static enum sch_err set_dialect(struct sch_cli *, const struct cli_option *, char *, struct sch_diag *);
 
 #define AT(field) offsetof(struct sch_cli, field)
 #define TEXT(field) set_text, AT(field), CHECK_ANY, 0, 0, NULL
@@ -147,6 +149,11 @@ static const struct cli_option options[] = {
 	{ "--avalanche", NULL, "REGEX=M:K", CMD_NETLIST, OWN(set_avalanche, "REGEX=M:K"),
 	  "avalanche gain M >= 1 and ionisation ratio k in [0,1]\n(McIntyre excess noise); the netlist's current is the\nmultiplied terminal current M*I_p" },
 	{ "--fano", NULL, "REGEX=F", CMD_NETLIST, OWN(set_fano, "REGEX=F"), "shot noise scaled by the Fano factor F >= 0" },
+	{ "--dialect", NULL, "MODE", CMD_NETLIST, OWN(set_dialect, NULL),
+	  "the simulator's compatibility mode for vendor models written for\n"
+	  "other SPICE programs (ngspice's ngbehavior: ps, lt, ltps, ltpsa, ki,\n"
+	  "hs, spe, a, ...); default: the 'set ngbehavior=' line of a .spiceinit\n"
+	  "beside the netlist, read as data (the file is never run)" },
 	{ "--no-junction-correction", NULL, NULL, CMD_REPORT | CMD_SWEEP | CMD_LEVERS, OWN(set_flag, NULL),
 	  "keep the simulator's own 2q|I_D| diode noise" },
 	{ "--show-corrections", NULL, NULL, CMD_REPORT, OWN(set_flag, NULL),
@@ -327,6 +334,17 @@ static enum sch_err refuse_capital_m(const struct cli_option *o, const char *val
 				      "megahertz (try 'schrot --help')",
 				      o->name, val, (int)(end - num), num, (int)(p - num), num, (int)(p - num), num);
 	}
+	return SCH_OK;
+}
+
+static enum sch_err set_dialect(struct sch_cli *cli, const struct cli_option *o, char *val, struct sch_diag *d)
+{
+	const char *mode = sch_sim_compat_mode_known(val);
+
+	if (!mode)
+		return sch_diag_error(d, SCH_ERR_USAGE, NULL, 0, "%s needs one of %s, not '%s' (try 'schrot --help')",
+				      o->name, sch_sim_compat_mode_list(), val);
+	cli->run.compat_mode = mode;
 	return SCH_OK;
 }
 

@@ -230,6 +230,8 @@ const char *sch_report_verdict(const struct sch_result *r, char *out, size_t siz
 			 100.0 * r->dominant_other_share, r->spot_run ? " density" : "", d->generator);
 	if (r->set.n_carriers == 0)
 		snprintf(out, size, "no shot-noise carriers found; the noise is led by %s", other);
+	else if (!(r->carrier_power_v2 > 0))
+		snprintf(out, size, "the carriers' shot noise does not reach the output; the noise is led by %s", other);
 	else if (isnan(r->shot_to_rest))
 		snprintf(out, size, "shot-noise limited: the carriers' shot noise is all the noise");
 	else if (r->shot_to_rest >= 1)
@@ -584,6 +586,7 @@ static enum sch_err print_noiseless(const struct sch_result *r, FILE *out)
 	struct grid g;
 	enum sch_err ret;
 	char buf[128];
+	bool any_reason = false;
 
 	fputc('\n', out);
 	if (set->n_noiseless == 0) {
@@ -591,15 +594,21 @@ static enum sch_err print_noiseless(const struct sch_result *r, FILE *out)
 		return SCH_OK;
 	}
 	fprintf(out, "  noiseless DC current sources (no shot noise added; --carrier REGEX adds one)\n");
-	ret = grid_init(&g, set->n_noiseless + 1, 2);
+	for (size_t i = 0; i < set->n_noiseless; i++)
+		any_reason = any_reason || set->noiseless[i].reason;
+	ret = grid_init(&g, set->n_noiseless + 1, any_reason ? 3 : 2);
 	if (ret != SCH_OK)
 		goto out;
 	grid_set(&g, 0, 0, "source");
 	grid_set(&g, 0, 1, "DC current");
+	if (any_reason)
+		grid_set(&g, 0, 2, "not a carrier because");
 	g.right[1] = true;
 	for (size_t i = 0; i < set->n_noiseless; i++) {
 		grid_set(&g, i + 1, 0, or_dash(set->noiseless[i].name));
 		grid_set(&g, i + 1, 1, sch_si_format(buf, sizeof(buf), set->noiseless[i].dc_current_a, 3, "A"));
+		if (any_reason)
+			grid_set(&g, i + 1, 2, or_dash(set->noiseless[i].reason));
 	}
 	ret = grid_print(&g, out, "  ");
 out:
