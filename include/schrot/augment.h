@@ -91,6 +91,17 @@ enum sch_err sch_augment_flat_nodes(struct sch_arena *arena, const struct sch_de
 				    const char *path, const char **n_plus, const char **n_minus);
 
 /*
+ * An E/G TABLE card's text rewritten as "value={pwl(expr, x0-d, y0, x0, y0, ..., xn, yn, xn+d, yn)}"
+ * with d = (xn - x0) / 2 (flat beyond the ends), in arena. ngspice 39 turns a TABLE into a pwl
+ * code model whose small-signal gain in a noise run is taken at the AC solution instead of the
+ * operating point (measured: 520 V/V falls to 460 above 10 kHz); the behavioural pwl() keeps it.
+ * The code model rounds each corner within 10 % of the next segment; pwl() does not. NULL when
+ * the text is no TABLE with plain numeric, rising x values (it then stays as written) or when
+ * out of memory.
+ */
+const char *sch_augment_table_as_value(struct sch_arena *arena, const char *text);
+
+/*
  * Writes aug (built from deck with opt->plain) to out as a plain deck: its cards, then one
  * generator per carrier instance of set at the top level, across the instance's flat node names
  * ("x1.x2.k"), its resistor a literal value sized for 2q|I|G with the operating-point current at

@@ -59,12 +59,25 @@ struct sch_carrier {
 				      operating-point value); NULL otherwise */
 };
 
+/*
+ * The amplifier-shape rule: a current element instance across a diode is a bias, clamp or offset
+ * construct, not a carrier, when its path passes (at any depth) through an instance of a subcircuit
+ * with at least this many ports
+ * and this many controlled sources (E, F, G, H, B) of its own, the shape of an op-amp or
+ * comparator macro-model. A photodiode model (anode, cathode, maybe a light pin; one generator)
+ * is not of that shape. The name rule, --carrier and the gain options still make it a carrier.
+ */
+#define SCH_AMP_SHAPE_MIN_PORTS 4
+#define SCH_AMP_SHAPE_MIN_CONTROLLED 3
+
 /* A DC current element that is not a carrier (noiseless in the simulator). */
 struct sch_source {
 	const char *name;
 	const char *sim_name;
 	int element;
 	double dc_current_a;     /* NaN until simulated */
+	/* why a current element across a diode is not a carrier (the amplifier-shape rule); NULL otherwise */
+	const char *reason;
 };
 
 struct sch_carrier_set {

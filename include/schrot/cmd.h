@@ -26,6 +26,7 @@ int cmd_carriers(int argc, char **argv, struct sch_ctx *ctx);
 int cmd_augment(int argc, char **argv, struct sch_ctx *ctx);
 int cmd_sweep(int argc, char **argv, struct sch_ctx *ctx);
 int cmd_arrivals(int argc, char **argv, struct sch_ctx *ctx);
+int cmd_levers(int argc, char **argv, struct sch_ctx *ctx);
 /* merge takes partial sweep JSON files, not a netlist: schrot merge PART.json... [--json OUT] */
 int cmd_merge(int argc, char **argv, struct sch_ctx *ctx);
 

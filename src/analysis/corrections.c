@@ -8,6 +8,7 @@
 #include <stdio.h>
 #include <string.h>
 #include "analysis_int.h"
+#include "schrot/si.h"
 #include "schrot/physics.h"
 
 /*
@@ -151,14 +152,15 @@ static enum sch_err correct_bipolars(struct sch_row_build *rb, int *n_corrected)
  */
 static const char *junction_note(struct sch_arena *a, int n_applied, int n_listed, double gmin)
 {
-	char left_out[160] = "";
+	char left_out[160] = "", gmin_text[48];
 
 	if (n_listed < n_applied)
 		snprintf(left_out, sizeof(left_out), "; %d of these row%s below 1e-9 of the output noise power, "
 			 "left out of the table", n_applied - n_listed, n_applied - n_listed == 1 ? " is" : "s are");
 	return sch_arena_printf(a, "junction correction applied to %d diode instance%s: 2q*I_j*coth(qV_j/2kT) in "
-				   "place of the simulator's 2q|I_D| (GMIN %g S kept out)%s",
-				n_applied, n_applied == 1 ? "" : "s", gmin, left_out);
+				   "place of the simulator's 2q|I_D| (GMIN %s kept out)%s",
+				n_applied, n_applied == 1 ? "" : "s", sch_si_format(gmin_text, sizeof(gmin_text), gmin, 3, "S"),
+				left_out);
 }
 
 enum sch_err sch_analysis_correct(struct sch_analysis *an, struct sch_row_build *rb)

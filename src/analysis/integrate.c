@@ -100,7 +100,8 @@ static void sum_rows(struct sch_result *res, double total)
 		for (size_t i = 0; i < nf; i++)
 			res->total_psd[i] += ct->psd[i];
 		ct->share = total != 0 ? ct->band_power / total : 0;
-		ct->output_rms_v = sqrt(fabs(ct->band_power));
+		/* signed: a row that removes noise shows it in every output */
+		ct->output_rms_v = copysign(sqrt(fabs(ct->band_power)), ct->band_power);
 		if (ct->origin == SCH_ORIGIN_ADDED)
 			res->carrier_power_v2 += ct->band_power;
 	}
@@ -132,13 +133,14 @@ static enum sch_err refer_to_input(struct sch_result *res, const struct sch_run_
 	res->responsivity_a_per_w = opt->responsivity_a_per_w;
 	res->signal = opt->signal;
 	res->nep_band_w_per_rthz = NAN;
+	res->input_gain_m = sch_analysis_input_gain(res);
 	*input_psd = psd;
 	if (res->spot_run) { /* no band: the spots carry the figures */
 		res->input_rms = NAN;
 		return SCH_OK;
 	}
 	if (has_nep(res, opt) && t->enbw_hz > 0)
-		res->nep_band_w_per_rthz = res->input_rms / sqrt(t->enbw_hz) / opt->responsivity_a_per_w;
+		res->nep_band_w_per_rthz = res->input_rms / sqrt(t->enbw_hz) / (opt->responsivity_a_per_w * res->input_gain_m);
 	if (!isnan(opt->signal) && res->total_power_v2 > 0) {
 		double out_signal = opt->signal * t->mid_band;
 		res->snr = out_signal * out_signal / res->total_power_v2;
@@ -174,15 +176,17 @@ static enum sch_err take_spots(struct sch_result *res, const struct sch_run_opti
 		sp->input_per_rthz = sqrt(fabs(sch_spectra_at(res->freq_hz, input_psd, nf, f)));
 		sp->nep_w_per_rthz = NAN;
 		if (has_nep(res, opt))
-			sp->nep_w_per_rthz = sp->input_per_rthz / opt->responsivity_a_per_w;
+			sp->nep_w_per_rthz = sp->input_per_rthz / (opt->responsivity_a_per_w * res->input_gain_m);
 	}
 	for (size_t c = 0; c < res->n_contributions; c++) {
 		struct sch_contribution *ct = &res->contributions[c];
 		ct->spot_density = sch_arena_alloc(a, (n_spots + 1) * sizeof(double));
 		if (!ct->spot_density)
 			return SCH_ERR_NOMEM;
-		for (size_t s = 0; s < n_spots; s++)
-			ct->spot_density[s] = sqrt(fabs(sch_spectra_at(res->freq_hz, ct->psd, nf, spots_hz[s])));
+		for (size_t s = 0; s < n_spots; s++) {
+			double psd = sch_spectra_at(res->freq_hz, ct->psd, nf, spots_hz[s]);
+			ct->spot_density[s] = copysign(sqrt(fabs(psd)), psd);
+		}
 	}
 	return SCH_OK;
 }

@@ -196,6 +196,8 @@ enum sch_err sch_analysis_plan_report(struct sch_analysis *an)
 		if (ret != SCH_OK)
 			return ret;
 	}
+	if ((ret = sch_analysis_note_light_input(an)) != SCH_OK || (ret = sch_analysis_note_tables(an)) != SCH_OK)
+		return ret;
 	an->aopt.junction_probes = an->opt->junction_correction;
 	an->aopt.share_paired_junctions = true;
 	return SCH_OK;

@@ -94,6 +94,37 @@ double sch_sweep_crossover_of(const struct sch_sweep *s)
 	return crossover_shifted(s->points, s->n_points, strcmp(s->unit, "C") == 0 ? SCH_ZERO_C_K : 0);
 }
 
+/* A batch point's step: its own commands, then an->commands. */
+static enum sch_err batch_step(struct sch_analysis *an, size_t k, struct sch_sim_step *step)
+{
+	const struct sch_batch_point *bp = &an->vary->batch->points[k];
+	const char **cmds = sch_arena_alloc(&an->res->arena, (bp->n_commands + an->n_commands + 1) * sizeof(*cmds));
+	size_t nc = 0;
+
+	if (!cmds)
+		return SCH_ERR_NOMEM;
+	for (size_t c = 0; c < bp->n_commands; c++)
+		cmds[nc++] = bp->commands[c];
+	for (size_t c = 0; c < an->n_commands; c++)
+		cmds[nc++] = an->commands[c];
+	step->commands = cmds;
+	step->n_commands = nc;
+	return SCH_OK;
+}
+
+enum sch_err sch_analysis_batch_quantities(struct sch_analysis *an)
+{
+	const struct sch_batch *b = an->vary ? an->vary->batch : NULL;
+	enum sch_err ret;
+
+	an->q.extra = an->q.names.n;
+	for (size_t k = 0; b && k < b->n_quantities; k++) {
+		if ((ret = sch_strlist_push(&an->res->arena, &an->q.names, b->quantities[k])) != SCH_OK)
+			return ret;
+	}
+	return SCH_OK;
+}
+
 /* Point k's step: the command that sets the quantity, a reset for a .param, then an->commands. */
 static enum sch_err point_step(struct sch_analysis *an, size_t k, struct sch_sim_step *step)
 {
@@ -131,7 +162,7 @@ enum sch_err sch_analysis_sweep_steps(struct sch_analysis *an)
 	if (!(steps = sch_arena_alloc(&an->res->arena, (an->vary->n + 1) * sizeof(*steps))))
 		return SCH_ERR_NOMEM;
 	for (size_t k = 0; k < an->vary->n; k++) {
-		if ((ret = point_step(an, k, &steps[k])) != SCH_OK)
+		if ((ret = (an->vary->batch ? batch_step : point_step)(an, k, &steps[k])) != SCH_OK)
 			return ret;
 	}
 	an->steps = steps;
@@ -163,7 +194,7 @@ static void point_record(struct sch_analysis *an, size_t k)
 	const struct sch_result *res = an->res;
 	struct sch_sweep_point *p = &an->vary->sweep->points[k];
 
-	p->value = an->vary->values[k];
+	p->value = an->vary->values ? an->vary->values[k] : (double)k;
 	p->output_rms_v = res->output_rms_v;
 	p->input_rms = res->input_rms;
 	p->carrier_power_v2 = res->carrier_power_v2;
@@ -200,10 +231,15 @@ static enum sch_err sweep_point_done(void *ctx, size_t step, const struct sch_si
 {
 	struct sch_analysis *an = ctx;
 	struct sch_arena kept = an->res->arena;
+	const struct sch_batch *b = an->vary->batch;
 	enum sch_err ret;
 
-	if ((ret = point_begin(an)) == SCH_OK && (ret = sch_analysis_take_step(an, o)) == SCH_OK)
+	if ((ret = point_begin(an)) == SCH_OK && (!b || !b->prepare || (ret = b->prepare(b->ctx, step, an->res)) == SCH_OK) &&
+	    (ret = sch_analysis_take_step(an, o)) == SCH_OK &&
+	    (!b || !b->take || (ret = b->take(b->ctx, step, an->res, o->quantities + an->q.extra)) == SCH_OK))
 		point_record(an, step);
+	if (b && b->undo)
+		b->undo(b->ctx, step, an->res);
 	point_end(an, kept);
 	return ret;
 }

@@ -8,6 +8,9 @@
 #include "analysis_int.h"
 #include "schrot/spectra.h"
 
+/* |H|^2 within this fraction of its peak counts as the peak (a flat response's rounding). */
+#define SCH_FLAT 1e-6
+
 /* The relative slack with which a frequency counts as the simulated range's end. */
 #define SCH_FREQ_SLACK 1e-9
 
@@ -28,8 +31,8 @@ static bool same_freq(double a, double b)
 }
 
 /*
- * The frequency of largest |H| within the band, the band's ends included (*g2 its |H|^2);
- * NaN where no point has a finite transfer.
+ * The frequency of largest |H| within the band, the band's ends included (*g2 its |H|^2), the
+ * lowest one where |H|^2 comes within SCH_FLAT of the peak; NaN where no point has a finite transfer.
  */
 static double peak_in_band(const struct sch_result *res, double *g2)
 {
@@ -49,6 +52,18 @@ static double peak_in_band(const struct sch_result *res, double *g2)
 		if (g > best) {
 			best = g;
 			best_f = ends[k];
+		}
+	}
+	/* a flat response peaks anywhere by rounding: take the lowest frequency within 1e-6 of the peak */
+	if (res->band_lo_hz < best_f && gain2_at(res, res->band_lo_hz) >= best * (1 - SCH_FLAT)) {
+		*g2 = gain2_at(res, res->band_lo_hz);
+		return res->band_lo_hz;
+	}
+	for (size_t i = 0; i < res->n_freq; i++) {
+		double f = res->freq_hz[i];
+		if (f > res->band_lo_hz && f < best_f && !same_freq(f, res->band_lo_hz) && res->gain2[i] >= best * (1 - SCH_FLAT)) {
+			*g2 = res->gain2[i];
+			return f;
 		}
 	}
 	*g2 = best;
@@ -99,8 +114,8 @@ enum sch_err sch_analysis_transfer(struct sch_result *res, const struct sch_run_
 	if (!isnan(opt->signal_freq_hz)) {
 		if (!(opt->signal_freq_hz >= lo * (1 - SCH_FREQ_SLACK) && opt->signal_freq_hz <= hi * (1 + SCH_FREQ_SLACK)))
 			return sch_diag_error(d, SCH_ERR_USAGE, NULL, 0,
-					      "signal frequency %g Hz is outside the simulated range %g:%g Hz",
-					      opt->signal_freq_hz, lo, hi);
+					      "signal frequency %.6g Hz is outside the simulated range %.6g:%.6g Hz",
+					      opt->signal_freq_hz, res->run_lo_hz, res->run_hi_hz);
 		t->ref_hz = opt->signal_freq_hz;
 		ref_g2 = gain2_at(res, t->ref_hz);
 	} else {

@@ -706,6 +706,7 @@ static enum sch_err simulate(const struct sch_arrivals *a, const char **lines, s
 	req.tran_n_samples = a->n_windows;
 	req.code_models = models;
 	req.n_code_models = 1;
+	req.compat_mode = a->op.compat_mode; /* the operating-point run's, so both read the deck alike */
 	return sch_sim_run(&req, sim, d);
 }
 

@@ -208,6 +208,12 @@ static const char *card_text(const struct sch_deck *deck, const struct sch_card 
 {
 	const char *text = card->text;
 
+	if (card->element >= 0 && (deck->elements[card->element].letter == 'e' ||
+				   deck->elements[card->element].letter == 'g')) {
+		const char *pwl = sch_augment_table_as_value(arena, text);
+
+		text = pwl ? pwl : text;
+	}
 	if (card->element >= 0 && opt && opt->ac_source && card->subckt < 0 &&
 	    strcmp(deck->elements[card->element].name, opt->ac_source) == 0 &&
 	    !has_ac_value(&deck->elements[card->element]))
@@ -382,6 +388,15 @@ static double probe_ohms(const struct sch_carrier *c, double temp_k)
 	return s / (4.0 * SCH_SIM_K * temp_k);
 }
 
+/* Whether the deck holds a code-model (A) element: a card line starting with its letter. */
+static bool has_code_model_device(const struct sch_augmented *aug)
+{
+	for (size_t k = 1; k < aug->n_lines; k++)
+		if (aug->line_card[k] >= 0 && (aug->lines[k][0] == 'a' || aug->lines[k][0] == 'A'))
+			return true;
+	return false;
+}
+
 enum sch_err sch_augment_flat_nodes(struct sch_arena *arena, const struct sch_deck *deck, int element,
 				    const char *path, const char **n_plus, const char **n_minus)
 {
@@ -435,6 +450,9 @@ enum sch_err sch_augment_write(const struct sch_augmented *aug, const struct sch
 		if ((ret = write_generator(deck, &set->carriers[k], k, temp_k, arena, out, d)) != SCH_OK)
 			return ret;
 	}
+	if (has_code_model_device(aug))
+		fprintf(out, "* schrot: a one-point AC analysis first sets the code models' small-signal state for\n"
+			     "* the noise run (ngspice 39)\n.ac lin 1 1 1\n");
 	fprintf(out, "* schrot: the noise analysis (pts_per_summary 1 keeps each device's spectrum)\n.%s\n.end\n",
 		noise_command);
 	if (ferror(out))

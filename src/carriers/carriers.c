@@ -160,6 +160,113 @@ struct elem_info {
 	bool without_dc;  /* an I element whose netlist value has no DC current */
 };
 
+/* Which definitions are amplifier-shaped, and how to follow an instance path through X elements. */
+struct amp_index {
+	const struct sch_deck *deck;
+	int *n_controlled;          /* per definition: its own E F G H B elements */
+	bool *amp;                  /* per definition: amplifier-shaped */
+	bool any;                   /* some definition is */
+	int *xdef;                  /* per element: the definition an X element instantiates, -1 */
+	struct sch_strmap scoped;   /* "scope name" of every X element -> element index (only when any) */
+};
+
+static bool is_controlled_source(char letter)
+{
+	return letter == 'e' || letter == 'f' || letter == 'g' || letter == 'h' || letter == 'b';
+}
+
+/* The definition each X element instantiates (-1 for other elements), names looked up once each. */
+static int *x_definitions(const struct sch_deck *deck, struct sch_arena *arena)
+{
+	int *def = sch_arena_alloc(arena, (deck->n_elements + 1) * sizeof(int));
+	struct sch_strmap seen;
+
+	if (!def)
+		return NULL;
+	sch_strmap_init(&seen);
+	for (size_t k = 0; k < deck->n_elements; k++) {
+		const char *sub = deck->elements[k].letter == 'x' ? sch_deck_x_subckt(deck, &deck->elements[k]) : NULL;
+		int got;
+
+		def[k] = -1;
+		if (!sub)
+			continue;
+		got = sch_strmap_get(&seen, sub, strlen(sub));
+		if (got == -1) {
+			got = sch_deck_find_subckt(deck, sub);
+			if (sch_strmap_put(&seen, sub, strlen(sub), got < 0 ? -2 : got) != SCH_OK) {
+				def = NULL;
+				break;
+			}
+		}
+		def[k] = got < 0 ? -1 : got;
+	}
+	sch_strmap_release(&seen);
+	return def;
+}
+
+/* Fills ix (its map initialised by the caller). SCH_ERR_NOMEM on failure. */
+static enum sch_err amp_index_build(const struct sch_deck *deck, struct sch_arena *arena, struct amp_index *ix)
+{
+	size_t n = deck->n_subckts;
+
+	ix->deck = deck;
+	ix->n_controlled = sch_arena_alloc(arena, (n + 1) * sizeof(int));
+	ix->amp = sch_arena_alloc(arena, (n + 1) * sizeof(bool));
+	if (!ix->n_controlled || !ix->amp)
+		return SCH_ERR_NOMEM;
+	memset(ix->n_controlled, 0, (n + 1) * sizeof(int));
+	for (size_t k = 0; k < deck->n_elements; k++)
+		if (deck->elements[k].subckt >= 0 && is_controlled_source(deck->elements[k].letter))
+			ix->n_controlled[deck->elements[k].subckt]++;
+	for (size_t s = 0; s < n; s++) {
+		ix->amp[s] = deck->subckts[s].n_ports >= SCH_AMP_SHAPE_MIN_PORTS &&
+			     ix->n_controlled[s] >= SCH_AMP_SHAPE_MIN_CONTROLLED;
+		ix->any = ix->any || ix->amp[s];
+	}
+	if (!ix->any)
+		return SCH_OK;
+	if (!(ix->xdef = x_definitions(deck, arena)))
+		return SCH_ERR_NOMEM;
+	for (size_t k = 0; k < deck->n_elements; k++) {
+		const char *key;
+
+		if (ix->xdef[k] < 0)
+			continue;
+		key = sch_arena_printf(arena, "%d %s", deck->elements[k].subckt, deck->elements[k].name);
+		if (!key || sch_strmap_put(&ix->scoped, key, strlen(key), (int)k) != SCH_OK)
+			return SCH_ERR_NOMEM;
+	}
+	return SCH_OK;
+}
+
+/*
+ * The outermost amplifier-shaped definition on an instance's path ("xop.x1.iclp": the
+ * definitions of xop, then of xop's x1), or -1.
+ */
+static int instance_amp(const struct amp_index *ix, const char *path)
+{
+	int scope = -1;
+	const char *dot;
+
+	if (!ix->any)
+		return -1;
+	while ((dot = strchr(path, '.')) != NULL) {
+		char key[512];
+		int n = snprintf(key, sizeof(key), "%d %.*s", scope, (int)(dot - path), path), k;
+
+		if (n < 0 || (size_t)n >= sizeof(key) || (k = sch_strmap_get(&ix->scoped, key, (size_t)n)) < 0)
+			return -1;
+		scope = ix->xdef[k];
+		if (scope < 0)
+			return -1;
+		if (ix->amp[scope])
+			return scope;
+		path = dot + 1;
+	}
+	return -1;
+}
+
 /* Most --avalanche and --fano rules one run takes, each. */
 #define MAX_GAIN_RULES 64
 
@@ -169,6 +276,7 @@ struct rules {
 	struct sch_pattern *name_rule, *add, *ignore;
 	struct sch_pattern *aval[MAX_GAIN_RULES], *fano[MAX_GAIN_RULES];
 	size_t n_aval, n_fano;
+	struct amp_index amp;
 };
 
 /* Compiles the default name rule and the user's regexes, in the order their errors are reported. */
@@ -177,6 +285,7 @@ static enum sch_err rules_compile(struct rules *ru, const struct sch_carrier_opt
 	enum sch_err ret;
 
 	memset(ru, 0, sizeof(*ru));
+	sch_strmap_init(&ru->amp.scoped);
 	ru->opt = opt;
 	ru->n_aval = opt ? opt->n_avalanche : 0;
 	ru->n_fano = opt ? opt->n_fano : 0;
@@ -202,6 +311,7 @@ static void rules_release(struct rules *ru)
 	sch_pattern_free(ru->name_rule);
 	sch_pattern_free(ru->add);
 	sch_pattern_free(ru->ignore);
+	sch_strmap_release(&ru->amp.scoped);
 }
 
 /* Per element: whether it forces a current, its paired diode, the name rule's verdict. NULL when out of memory. */
@@ -251,13 +361,13 @@ static const struct sch_gain_rule *first_rule(struct sch_pattern *const *pats, c
 }
 
 /* Why an instance is a carrier (SCH_WHY_* bits, 0 when it is none or --ignore names it); the gain rules it takes. */
-static unsigned instance_why(const struct rules *ru, const struct elem_info *ei, const char *path,
+static unsigned instance_why(const struct rules *ru, const struct elem_info *ei, const char *path, int amp,
 			     const struct sch_gain_rule **aval, const struct sch_gain_rule **fano)
 {
 	size_t plen = strlen(path);
 	unsigned why = 0;
 
-	if (ei->diode)
+	if (ei->diode && amp < 0)
 		why |= SCH_WHY_DIODE;
 	if (ei->name_rule)
 		why |= SCH_WHY_NAME;
@@ -303,6 +413,20 @@ static void write_reason(char *reason, size_t size, unsigned why, const struct s
 			 *reason ? "; " : "", fano->regex);
 }
 
+/* Why a current element across a diode inside an amplifier-shaped subcircuit is no carrier. */
+static enum sch_err construct_reason(struct sch_source *s, struct sch_arena *arena, const struct sch_instance *in,
+				     const struct elem_info *ei, const struct amp_index *ix, int amp)
+{
+	const char *dot = strrchr(in->path, '.');
+
+	s->reason = sch_arena_printf(arena,
+		"across diode %.*s%s%s in amplifier-shaped '%s' (%d ports, %d controlled sources): "
+		"a bias, clamp or offset construct",
+		dot ? (int)(dot - in->path) : 0, in->path, dot ? "." : "", ei->diode->name, ix->deck->subckts[amp].name,
+		ix->deck->subckts[amp].n_ports, ix->n_controlled[amp]);
+	return s->reason ? SCH_OK : SCH_ERR_NOMEM;
+}
+
 /* Files instance k as a carrier or as noiseless (current-forcing instances only). SCH_ERR_NOMEM on failure. */
 static enum sch_err sort_instance(struct sch_carrier_set *set, struct sch_arena *arena, const struct rules *ru,
 				  const struct elem_info *info, size_t k)
@@ -316,13 +440,18 @@ static enum sch_err sort_instance(struct sch_carrier_set *set, struct sch_arena 
 
 	if (!ei->current)
 		return SCH_OK;
-	why = instance_why(ru, ei, in->path, &aval, &fano);
+	int amp = ei->diode ? instance_amp(&ru->amp, in->path) : -1;
+
+	why = instance_why(ru, ei, in->path, amp, &aval, &fano);
 	if (!why) {
 		struct sch_source *s = &set->noiseless[set->n_noiseless++];
 		s->name = in->path;
 		s->sim_name = in->sim_name;
 		s->element = in->element;
 		s->dc_current_a = NAN;
+		s->reason = NULL;
+		if (amp >= 0 && !(ru->ignore && sch_pattern_match(ru->ignore, in->path, strlen(in->path))))
+			return construct_reason(s, arena, in, ei, &ru->amp, amp);
 		return SCH_OK;
 	}
 	write_reason(reason, sizeof(reason), why, in, ei, ru, aval, fano);
@@ -466,9 +595,9 @@ static enum sch_err check_matches(const struct sch_carrier_set *set, const struc
 		const struct sch_instance *in = &set->instances[other];
 		if (across)
 			return sch_diag_error(d, SCH_ERR_USAGE, NULL, 0,
-					      "%s pattern '%s' names the diode %s, not a current element: name the "
-					      "current across it, %s '%s%s'",
-					      what, regex, in->path, what, across, value);
+					      "%s pattern '%s' names the diode '%s', not a current: the rule belongs to "
+					      "the current source across it, '%s' (use %s '%s%s')",
+					      what, regex, in->path, across, what, across, value);
 		snprintf(names, sizeof(names), ", only %s", in->path);
 	} else {
 		names[0] = '\0';
@@ -529,7 +658,7 @@ enum sch_err sch_carriers_find(const struct sch_deck *deck, const struct sch_car
 		goto out;
 	ret = SCH_ERR_NOMEM;
 	info = classify_elements(deck, arena, &ru, &pairs);
-	if (!info || alloc_lists(set, info, arena) != SCH_OK)
+	if (!info || amp_index_build(deck, arena, &ru.amp) != SCH_OK || alloc_lists(set, info, arena) != SCH_OK)
 		goto out;
 	for (size_t k = 0; k < set->n_instances; k++) {
 		if (sort_instance(set, arena, &ru, info, k) != SCH_OK)

@@ -39,7 +39,7 @@ int cmd_report(int argc, char **argv, struct sch_ctx *ctx)
 			goto out;
 	}
 	if (cli.verbosity >= 0 && !(cli.json_path && strcmp(cli.json_path, "-") == 0))
-		sch_report_table(&res, stdout);
+		sch_report_table_split(&res, stdout, cli.show_corrections);
 	if (!isnan(cli.budget_v) && res.output_rms_v > cli.budget_v) {
 		char got[64], lim[64], over[64];
 		sch_si_format(got, sizeof(got), res.output_rms_v, 4, "V");

@@ -174,6 +174,29 @@ out:
 	return ret;
 }
 
+/*
+ * Code models that read a file the netlist names (or, in later ngspice, start a process or load a
+ * library). The worker loads the standard code-model libraries, so A devices run; these stay out,
+ * because netlist text must never make the simulator read or run what the netlist names.
+ */
+static const char *const file_code_models[] = {
+	"filesource", "d_source", "d_state", "table2d", "table3d", "d_process", "d_cosim",
+};
+
+static enum sch_err check_code_models(struct sch_deck_load *ld)
+{
+	for (size_t i = 0; i < ld->n_models; i++) {
+		const struct sch_card *c = &ld->cards[ld->models[i].card];
+
+		for (size_t k = 0; k < sizeof(file_code_models) / sizeof(file_code_models[0]); k++)
+			if (strcasecmp(ld->models[i].type, file_code_models[k]) == 0)
+				return sch_diag_error(ld->d, SCH_ERR_INPUT, c->file, c->line,
+						      "code model '%s' reads a file or starts a program the netlist names; "
+						      "schrot never lets the simulator do that", file_code_models[k]);
+	}
+	return SCH_OK;
+}
+
 /* Whether node is a node of some top-level element; true as well when that cannot be told. */
 static bool top_node_exists(const struct sch_deck_load *ld, const char *node, size_t len)
 {
@@ -266,6 +289,8 @@ enum sch_err sch_deck_load_finish(struct sch_deck_load *ld)
 		return sch_diag_error(ld->d, SCH_ERR_INPUT, c->file, c->line, "'.subckt%s' has no matching '.ends'", q);
 	}
 	ret = check_names(ld);
+	if (ret == SCH_OK)
+		ret = check_code_models(ld);
 	if (ret == SCH_OK)
 		ret = check_noise_nodes(ld);
 	if (ret == SCH_OK)

@@ -303,7 +303,7 @@ static void text_at(cairo_t *cr, double x, double y, const char *s, double align
 
 	cairo_text_extents(cr, s, &te);
 	cairo_move_to(cr, x - te.x_advance * align_x, y);
-	cairo_show_text(cr, s);
+	sch_report_show_text(cr, s);
 }
 
 /* One histogram panel: bars counted, dots Poisson (counts only), line Gaussian. */
@@ -465,8 +465,11 @@ static enum sch_err draw(cairo_t *cr, const struct sch_arrivals *a)
 	for (size_t k = 0; k < n_panels; k++) {
 		const struct sch_arrival_counts *c = &a->counts[k];
 		count_hist(c, h);
-		snprintf(title, sizeof(title), "%s: N = %.4g expected, mean %.4g, variance %.4g, P(0) %.4f (Poisson %.4f)",
-			 c->carrier, c->expected_count, c->mean_count, c->var_count, c->p_zero, exp(-c->expected_count));
+		char n[48], m[48], v[48];
+		snprintf(title, sizeof(title), "%s: N = %s expected, mean %s, variance %s, P(0) %.4f (Poisson %.4f)",
+			 c->carrier, sch_report_ratio(n, sizeof(n), c->expected_count),
+			 sch_report_ratio(m, sizeof(m), c->mean_count), sch_report_ratio(v, sizeof(v), c->var_count), c->p_zero,
+			 exp(-c->expected_count));
 		draw_panel(cr, PLOT_TOP + PANEL_H * (double)(k + 1), title, "primary electrons per window", h);
 	}
 	free(h);

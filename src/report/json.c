@@ -125,6 +125,8 @@ static json_t *noiseless_json(const struct sch_result *r, int *bad)
 		json_t *o = json_object();
 		put(o, "name", text(r->set.noiseless[i].name), bad);
 		put(o, "dc_current_a", num(r->set.noiseless[i].dc_current_a), bad);
+		if (r->set.noiseless[i].reason)
+			put(o, "reason", text(r->set.noiseless[i].reason), bad);
 		append(arr, o, bad);
 	}
 	return arr;
@@ -222,7 +224,9 @@ static json_t *verdict_json(const struct sch_result *r, int *bad)
 	json_t *o = json_object();
 	char line[512];
 
-	put(o, "shot_noise_limited", json_boolean(r->set.n_carriers && (isnan(r->shot_to_rest) || r->shot_to_rest >= 1)), bad);
+	bool limited = r->set.n_carriers && r->carrier_power_v2 > 0 && (isnan(r->shot_to_rest) || r->shot_to_rest >= 1);
+
+	put(o, "shot_noise_limited", json_boolean(limited), bad);
 	put(o, "shot_to_rest_power", num(r->shot_to_rest), bad);
 	put(o, "dominant_other", r->dominant_other ? text(r->dominant_other->device) : json_null(), bad);
 	put(o, "dominant_other_generator", r->dominant_other ? text(r->dominant_other->generator) : json_null(), bad);
@@ -252,6 +256,8 @@ static json_t *result_json(const struct sch_result *r)
 	put(doc, "netlist", text(r->netlist), &bad);
 	put(doc, "temperature_k", num(r->temp_k), &bad);
 	put(doc, "simulator", text(r->sim_version), &bad);
+	if (r->compat_mode)
+		put(doc, "simulator_compat_mode", text(r->compat_mode), &bad);
 	put(doc, "schrot_version", text(SCH_VERSION), &bad);
 	if (r->n_freq > 0) {
 		put(doc, "output", text(r->output), &bad);
@@ -266,6 +272,7 @@ static json_t *result_json(const struct sch_result *r)
 		put(doc, "spot", spots_json(r, &bad), &bad);
 		put(doc, "contributions", contributions_json(r, &bad), &bad);
 		put(doc, "responsivity_a_per_w", num(r->responsivity_a_per_w), &bad);
+		put(doc, "input_gain_m", num(r->input_gain_m), &bad);
 		if (!isnan(r->signal))
 			put(doc, "snr", snr_json(r, &bad), &bad);
 		put(doc, "notes", notes_json(r, &bad), &bad);

@@ -11,15 +11,22 @@
 #include "schrot/outfile.h"
 #include "schrot/report.h"
 #include "schrot/si.h"
+#include "report_int.h"
 
 static json_t *real_or_null(double x)
 {
 	return isfinite(x) ? json_real(x) : json_null();
 }
 
+/* The printf field width that right-aligns s in width display columns (UTF-8 counted by code points). */
+static int cols(const char *s, int width)
+{
+	return width + (int)(strlen(s) - sch_report_width(s));
+}
+
 enum sch_err sch_report_sweep_table(const struct sch_result *r, const struct sch_sweep *s, FILE *out)
 {
-	char v[64], o[64], in[64];
+	char v[64], o[64], in[64], ratio[64];
 	const char *in_unit = r->input_unit && strcmp(r->input_unit, "A") == 0 ? "A" : "V";
 
 	fprintf(out, "schrot sweep: %s, varying %s, band %s to %s\n\n", r->netlist, s->name,
@@ -35,8 +42,9 @@ enum sch_err sch_report_sweep_table(const struct sch_result *r, const struct sch
 			sch_si_format(v, sizeof(v), p->value, 3, s->unit);
 		sch_si_format(o, sizeof(o), p->output_rms_v, 3, "V");
 		sch_si_format(in, sizeof(in), p->input_rms, 3, in_unit);
-		fprintf(out, "  %12s  %14s  %14s  %16.3g\n", v, o, in,
-			p->other_power_v2 > 0 ? p->carrier_power_v2 / p->other_power_v2 : NAN);
+		sch_report_ratio(ratio, sizeof(ratio), p->other_power_v2 > 0 ? p->carrier_power_v2 / p->other_power_v2 : NAN);
+		/* widths in display columns: "µ" and "×" take two bytes and one column */
+		fprintf(out, "  %*s  %*s  %*s  %*s\n", cols(v, 12), v, cols(o, 14), o, cols(in, 14), in, cols(ratio, 16), ratio);
 	}
 	if (isnan(s->crossover)) {
 		fprintf(out, "\n  no crossover: the carriers' shot noise stays %s the rest over the whole sweep\n",

@@ -23,7 +23,7 @@ itest 0 a ac 1
 .noise v(a) itest dec 10 1 1k 1
 .end
 """
-rc, data, out, err = run(ZERO_BIAS, "report", "--spot", "100")
+rc, data, out, err = run(ZERO_BIAS, "report", "--spot", "100", "--show-corrections")
 if data:
     rows = [c for c in data["contributions"] if c["device"] == "d1" and c["origin"] == "correction"]
     true("[P9] the zero-bias junction's row is thermal noise of its conductance, with no DC current beside it",

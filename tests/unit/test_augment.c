@@ -1,5 +1,6 @@
 /* SPDX-License-Identifier: BSD-3-Clause */
-/* test_augment.c - unit tests of the augmenter: flat node names and the plain deck's cards. */
+/* test_augment.c - the augmenter: E/G TABLE sources as behavioural pwl(), flat node names, the plain deck's cards. */
+#include <stddef.h>
 #include <stdio.h>
 #include <string.h>
 #include "check.h"
@@ -7,6 +8,33 @@
 #include "schrot/carriers.h"
 
 static struct sch_diag diag;
+
+static void test_augment__table_becomes_pwl_with_flat_ends(void)
+{
+	struct sch_arena a;
+
+	sch_arena_init(&a);
+	/* d = (10m - 0) / 2: one extra point each side holds the end values */
+	CHECK_STR(sch_augment_table_as_value(&a, "G1 K A TABLE {V(LIGHT)} = (0,0) (1m,0.52m) (10m,5.2m)"),
+		  "G1 K A value={pwl(V(LIGHT), -0.005, 0, 0, 0, 1m, 0.52m, 10m, 5.2m, 0.015, 5.2m)}");
+	/* no '=', blanks inside the pairs, an E source */
+	CHECK_STR(sch_augment_table_as_value(&a, "ecomp 3 0 table {v(1,2)} (-1 0) (1 10)"),
+		  "ecomp 3 0 value={pwl(v(1,2), -2, 0, -1, 0, 1, 10, 2, 10)}");
+	sch_arena_release(&a);
+}
+
+static void test_augment__table_it_cannot_read_stays(void)
+{
+	struct sch_arena a;
+
+	sch_arena_init(&a);
+	CHECK(sch_augment_table_as_value(&a, "g1 k a {v(l)*2}") == NULL);                     /* no TABLE */
+	CHECK(sch_augment_table_as_value(&a, "g1 k a table {v(l)} = (0,0) ({p1},1)") == NULL); /* x from a parameter */
+	CHECK(sch_augment_table_as_value(&a, "g1 k a table {v(l)} = (1,0) (0,1)") == NULL);    /* x not rising */
+	CHECK(sch_augment_table_as_value(&a, "g1 k a table {v(l)} = (0,0)") == NULL);          /* one point */
+	CHECK(sch_augment_table_as_value(&a, "g1 k a table {v(l) = (0,0) (1,1)") == NULL);     /* unbalanced */
+	sch_arena_release(&a);
+}
 
 /* Two cells in series inside a pair, a pair at the top, one .global node (invented). */
 static const char *const NESTED = "nested cells\n"
@@ -105,5 +133,6 @@ static void test_augment__plain_deck_keeps_analyses_and_no_probes(void)
 	sch_deck_release(&deck);
 }
 
-CHECK_MAIN(CASE(test_augment__flat_nodes_follow_ports_up_the_hierarchy),
+CHECK_MAIN(CASE(test_augment__table_becomes_pwl_with_flat_ends), CASE(test_augment__table_it_cannot_read_stays),
+	   CASE(test_augment__flat_nodes_follow_ports_up_the_hierarchy),
 	   CASE(test_augment__plain_deck_keeps_analyses_and_no_probes))
