@@ -128,6 +128,30 @@ if proc.returncode == 0:
     got, plots, log = plain_ngspice(deck, elsewhere)
     close("[A] ... and plain ngspice gives the report's total", got, report_total(netlist), 1e-6)
 
+# A code-model (A) device in the noise path: ngspice 39 takes its small-signal state from an AC
+# analysis, so the plain deck runs a one-point '.ac' card before its '.noise' (as schrot does);
+# plain ngspice then gives the report's total (the simulator is the reference).
+CODE_MODEL = """photocurrent through an s-domain low-pass code model
+itest 0 l dc 0
+ipd 0 l dc 1u
+rl l 0 1k
+a1 l o filt
+.model filt s_xfer(in_offset=0 gain=1 num_coeff=[1] den_coeff=[1e-3 1] int_ic=[0] denormalized_freq=1)
+ro o 0 1k
+.noise v(o) itest dec 10 10 10k 1
+.end
+"""
+cm = os.path.join(work, "code-model.cir")
+with open(cm, "w") as f:
+    f.write(CODE_MODEL)
+deck = os.path.join(work, "aug-cm.cir")
+proc = schrot("augment", cm, "-o", deck)
+true("[A] augment of a deck with a code model exits 0 and primes it with '.ac lin 1 1 1'",
+     proc.returncode == 0 and ".ac lin 1 1 1\n.noise" in open(deck).read().replace(
+         "* schrot: the noise analysis (pts_per_summary 1 keeps each device's spectrum)\n", ""), proc.stderr)
+got, plots, log = plain_ngspice(deck, elsewhere)
+close("[A] plain ngspice on the code-model deck = schrot report's total", got, report_total(cm), 1e-6)
+
 # the second instance really is sized apart from the first: ignoring it must change the total
 full = report_total(netlist)
 part = report_total(netlist, "--ignore", "x2\\.iph")
