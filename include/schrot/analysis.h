@@ -208,6 +208,13 @@ struct sch_sweep {
 double sch_sweep_crossover(const struct sch_sweep_point *points, size_t n);
 
 /*
+ * The crossover of a whole sweep, as sch_sweep_crossover over its n_points, except that a
+ * temperature sweep (unit "C") is interpolated in kelvin, where the shot-to-thermal power ratio
+ * goes as 1/T, and the result is handed back in degrees C. This function can't fail.
+ */
+double sch_sweep_crossover_of(const struct sch_sweep *s);
+
+/*
  * Repeats the noise run of sch_analysis_run over values of one quantity (a current source's DC
  * value, a top-level .param through alterparam and reset, or "temp"), loading the circuit once per worker; opt->n_workers workers share the points.
  * The result res describes the last point; sweep gets every point and the crossover (log-log

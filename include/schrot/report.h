@@ -57,6 +57,22 @@ enum sch_err sch_report_sweep_table(const struct sch_result *r, const struct sch
 enum sch_err sch_report_sweep_json(const struct sch_result *r, const struct sch_sweep *s, const char *path,
 				   struct sch_diag *d);
 
+/*
+ * Sweep CSV, one row per point, written atomically: value_a (a current), value_c (temp) or value
+ * (a .param), output_rms_v, input_rms_a or input_rms_v, carrier_power_v2, other_power_v2,
+ * shot_to_rest. SCH_ERR_IO when the file cannot be written.
+ */
+enum sch_err sch_report_sweep_csv(const struct sch_result *r, const struct sch_sweep *s, const char *path,
+				  struct sch_diag *d);
+
+/*
+ * Plot of a sweep (.svg or .png by the name, written atomically): output rms, the carriers' shot
+ * noise and all other noise over the band against the varied value (log axis over more than a
+ * decade of positive values), the crossover as a dashed line. SCH_ERR_USAGE for another extension
+ * or nothing positive to draw, SCH_ERR_IO when cairo or the file fails.
+ */
+enum sch_err sch_report_sweep_plot(const struct sch_sweep *s, const char *path, struct sch_diag *d);
+
 /* Where a partial sweep (sweep --shard K/N) sits in the whole one. */
 struct sch_sweep_shard {
 	int index;                /* K: 1..count */

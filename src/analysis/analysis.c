@@ -156,6 +156,7 @@ enum sch_err sch_analysis_sweep(const char *path, const struct sch_run_options *
 				struct sch_diag *d)
 {
 	struct sch_vary_plan vary = { name, values, n_values, sweep, NULL };
+	struct sch_run_options swept = *opt; /* the swept source is a carrier even at "dc 0" in the netlist */
 
 	memset(sweep, 0, sizeof(*sweep));
 	sweep->crossover = NAN;
@@ -166,7 +167,8 @@ enum sch_err sch_analysis_sweep(const char *path, const struct sch_run_options *
 		return SCH_ERR_NOMEM;
 	if (opt->mode != SCH_RUN_REPORT || n_values < 2)
 		return sch_diag_error(d, SCH_ERR_USAGE, NULL, 0, "a sweep needs a noise run and at least two points");
-	return analysis_core(path, opt, &vary, res, d);
+	swept.carriers.swept = name;
+	return analysis_core(path, &swept, &vary, res, d);
 }
 
 enum sch_err sch_analysis_batch(const char *path, const struct sch_run_options *opt, const struct sch_batch *batch,

@@ -112,6 +112,9 @@ struct sch_analysis {
 	struct sch_source *noiseless_all;   /* sweeps: the sources before any point compacted them */
 	size_t n_noiseless_all;
 	size_t n_done;                      /* sweeps: points taken so far */
+	long junction_note;                 /* index in notes of the junction correction's note, -1: none */
+	int n_junction_rows;                /* junction correction rows made (before small ones are dropped) */
+	double gmin;                        /* the deck's GMIN, for that note */
 };
 
 /* One noise outcome being turned into rows: what the parts of sch_analysis_take_noise share. */
@@ -265,6 +268,26 @@ enum sch_err sch_analysis_transfer(struct sch_result *res, const struct sch_run_
  * ranked by band power. Returns SCH_ERR_NOMEM on failure.
  */
 enum sch_err sch_analysis_verdict(struct sch_result *res);
+
+/*
+ * After integration: when the table dropped junction correction rows too small to matter, the
+ * junction note says how many (so its count matches the rows). SCH_ERR_NOMEM.
+ */
+enum sch_err sch_analysis_junction_note_recount(struct sch_analysis *an);
+
+/*
+ * After integration: a note per carrier with a --fano rule (2q|I|F holds well below its electron
+ * rate |I|/q) and, outside sweeps, a warning when the band reaches within a decade of that rate.
+ * SCH_ERR_NOMEM.
+ */
+enum sch_err sch_analysis_fano_notes(struct sch_analysis *an);
+
+/*
+ * After the operating point: a note per carrier whose netlist value is a time function (PULSE,
+ * SIN, ...) naming the DC operating-point current its generator is sized from and, outside
+ * sweeps, a warning when that current is zero. SCH_ERR_NOMEM.
+ */
+enum sch_err sch_analysis_time_source_notes(struct sch_analysis *an);
 
 /*
  * dialect.c: the compatibility mode (--dialect, else a .spiceinit's one setting read as data) in

@@ -258,13 +258,17 @@ enum sch_err sch_analysis_take_step(struct sch_analysis *an, const struct sch_si
 	enum sch_err ret;
 
 	if ((ret = take_operating_point(an->res, &an->q, o, an->d)) != SCH_OK ||
-	    (ret = sch_analysis_take_values(an, o)) != SCH_OK)
+	    (ret = sch_analysis_take_values(an, o)) != SCH_OK ||
+	    (ret = sch_analysis_time_source_notes(an)) != SCH_OK)
 		return ret;
 	if (an->opt->mode != SCH_RUN_REPORT)
 		return SCH_OK;
-	if ((ret = sch_analysis_take_noise(an, o)) != SCH_OK)
+	if ((ret = sch_analysis_take_noise(an, o)) != SCH_OK ||
+	    (ret = sch_analysis_integrate(an->res, an->opt, an->d)) != SCH_OK)
 		return ret;
-	return sch_analysis_integrate(an->res, an->opt, an->d);
+	if ((ret = sch_analysis_junction_note_recount(an)) != SCH_OK)
+		return ret;
+	return sch_analysis_fano_notes(an);
 }
 
 enum sch_err sch_analysis_take_outcome(struct sch_analysis *an)

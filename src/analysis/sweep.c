@@ -9,6 +9,7 @@
 #include <string.h>
 #include <strings.h>
 #include "analysis_int.h"
+#include "schrot/physics.h"
 
 /* True when a top-level .param card defines name (lower case). */
 static bool deck_defines_param(const struct sch_deck *deck, const char *name)
@@ -62,20 +63,35 @@ static enum sch_err vary_command(const struct sch_result *res, const char *name,
 			      name);
 }
 
-double sch_sweep_crossover(const struct sch_sweep_point *p, size_t n)
+/*
+ * The crossover with every value read as value + shift (273.15 puts degrees C on the kelvin scale,
+ * where the shot-to-thermal ratio goes as 1/T), handed back on the values' own scale.
+ */
+static double crossover_shifted(const struct sch_sweep_point *p, size_t n, double shift)
 {
 	for (size_t i = 0; i + 1 < n; i++) {
 		double r0 = p[i].carrier_power_v2 / p[i].other_power_v2;
 		double r1 = p[i + 1].carrier_power_v2 / p[i + 1].other_power_v2;
+		double v0 = p[i].value + shift, v1 = p[i + 1].value + shift;
 		if (!(r0 > 0) || !(r1 > 0) || !isfinite(r0) || !isfinite(r1) || (r0 - 1) * (r1 - 1) > 0 || r0 == r1)
 			continue;
-		if (p[i].value > 0 && p[i + 1].value > 0) {
+		if (v0 > 0 && v1 > 0) {
 			double t = -log(r0) / (log(r1) - log(r0));
-			return exp(log(p[i].value) + t * (log(p[i + 1].value) - log(p[i].value)));
+			return exp(log(v0) + t * (log(v1) - log(v0))) - shift;
 		}
-		return p[i].value + (1 - r0) / (r1 - r0) * (p[i + 1].value - p[i].value);
+		return v0 + (1 - r0) / (r1 - r0) * (v1 - v0) - shift;
 	}
 	return NAN;
+}
+
+double sch_sweep_crossover(const struct sch_sweep_point *p, size_t n)
+{
+	return crossover_shifted(p, n, 0);
+}
+
+double sch_sweep_crossover_of(const struct sch_sweep *s)
+{
+	return crossover_shifted(s->points, s->n_points, strcmp(s->unit, "C") == 0 ? SCH_ZERO_C_K : 0);
 }
 
 /* A batch point's step: its own commands, then an->commands. */
@@ -253,6 +269,6 @@ enum sch_err sch_analysis_sweep_finish(struct sch_analysis *an)
 			return sch_diag_error(an->d, SCH_ERR_SIM, NULL, 0, "simulator: sweep point %zu gave no result", k + 1);
 	}
 	an->vary->sweep->n_points = an->n_steps;
-	an->vary->sweep->crossover = sch_sweep_crossover(an->vary->sweep->points, an->n_steps);
+	an->vary->sweep->crossover = sch_sweep_crossover_of(an->vary->sweep);
 	return SCH_OK;
 }

@@ -1,10 +1,13 @@
 /* SPDX-License-Identifier: BSD-3-Clause */
 /* carriers.c - the carrier finder: diode pairing, the name rule and the user's regexes, per instance. */
+#include <ctype.h>
 #include <math.h>
+#include <stdint.h>
 #include <stdio.h>
 #include <string.h>
 #include "schrot/carriers.h"
 #include "schrot/physics.h"
+#include "schrot/si.h"
 #include "schrot/strmap.h"
 
 /* True for elements that force a current: I; G; F; B with i=. */
@@ -19,6 +22,59 @@ static bool is_current_element(const struct sch_element *e)
 		}
 	}
 	return false;
+}
+
+/* The time-dependent source function token t starts ("pulse(...)", "sin", ...), upper case; NULL for none. */
+static const char *time_function(const char *t)
+{
+	static const char *const fns[] = { "pulse", "sin", "exp", "pwl", "sffm", "am", "trrandom", "trnoise" };
+	static const char *const names[] = { "PULSE", "SIN", "EXP", "PWL", "SFFM", "AM", "TRRANDOM", "TRNOISE" };
+	for (size_t k = 0; k < sizeof(fns) / sizeof(fns[0]); k++) {
+		size_t n = strlen(fns[k]);
+		if (strncmp(t, fns[k], n) == 0 && (t[n] == '\0' || t[n] == '('))
+			return names[k];
+	}
+	return NULL;
+}
+
+static bool is_time_function(const char *t)
+{
+	return time_function(t) != NULL;
+}
+
+/* The time function of an I element's value, NULL when it has none. */
+static const char *element_time_function(const struct sch_element *e)
+{
+	for (int j = 2; e->letter == 'i' && j < e->n_tok; j++) {
+		const char *fn = time_function(e->tok[j]);
+		if (fn)
+			return fn;
+	}
+	return NULL;
+}
+
+/*
+ * True for an I element whose netlist value carries no DC current: no value, "dc 0", a bare 0, or
+ * only an AC value ("itest 0 in ac 1"), and no time function (PULSE, SIN, ...: their DC value is
+ * the function's value at the operating point). An expression ("{ip}") may be anything: false.
+ */
+static bool without_dc(const struct sch_element *e)
+{
+	const char *const *t = e->tok + 2;
+	int n = e->n_tok - 2, k = 0;
+	double v = 0;
+
+	if (e->letter != 'i')
+		return false;
+	for (int j = 0; j < n; j++) {
+		if (is_time_function(t[j]))
+			return false;
+		if (strcmp(t[j], "dc") == 0)
+			k = j + 1; /* "ac 1 dc 2n": the DC value may come anywhere */
+	}
+	if (k >= n || strcmp(t[k], "ac") == 0 || strncmp(t[k], "ac=", 3) == 0)
+		return true;
+	return sch_si_parse(t[k], &v) == SCH_OK && v == 0;
 }
 
 static const char *leaf_name(const char *path)
@@ -97,9 +153,11 @@ double sch_carrier_gain(const struct sch_carrier *c)
 
 /* The diode-pairing result per element, computed once per definition rather than per instance. */
 struct elem_info {
+	const struct sch_element *self;
 	const struct sch_element *diode;
 	bool name_rule;
 	bool current;
+	bool without_dc;  /* an I element whose netlist value has no DC current */
 };
 
 /* Which definitions are amplifier-shaped, and how to follow an instance path through X elements. */
@@ -266,10 +324,12 @@ static struct elem_info *classify_elements(const struct sch_deck *deck, struct s
 		return NULL;
 	for (size_t k = 0; k < deck->n_elements; k++) {
 		const struct sch_element *e = &deck->elements[k];
+		info[k].self = e;
 		info[k].current = is_current_element(e);
 		if (!info[k].current)
 			continue;
 		info[k].diode = paired_diode(deck, arena, pairs, e);
+		info[k].without_dc = without_dc(e);
 		info[k].name_rule = sch_pattern_match(ru->name_rule, e->name, strlen(e->name));
 	}
 	return info;
@@ -319,6 +379,9 @@ static unsigned instance_why(const struct rules *ru, const struct elem_info *ei,
 		why |= SCH_WHY_AVALANCHE;
 	if (*fano)
 		why |= SCH_WHY_FANO;
+	/* a source with no DC current (an AC test source across a diode) carries no shot noise unless named */
+	if (ei->without_dc && !(ru->opt && ru->opt->swept && strcmp(ru->opt->swept, path) == 0))
+		why &= ~(unsigned)(SCH_WHY_DIODE | SCH_WHY_NAME);
 	if (ru->ignore && sch_pattern_match(ru->ignore, path, plen))
 		why = 0;
 	return why;
@@ -402,7 +465,179 @@ static enum sch_err sort_instance(struct sch_carrier_set *set, struct sch_arena 
 	c->gain_m = aval ? aval->gain_m : 1.0;
 	c->excess_f = (aval ? sch_mcintyre_f(aval->gain_m, aval->k_ratio) : 1.0) * (fano ? fano->fano : 1.0);
 	c->dc_current_a = NAN;
+	c->time_function = element_time_function(ei->self);
 	return c->reason ? SCH_OK : SCH_ERR_NOMEM;
+}
+
+/* Edit distance between a and b (lower case, at most 63 characters of each counted). */
+static size_t edit_distance(const char *a, const char *b)
+{
+	size_t la = strlen(a), lb = strlen(b);
+	size_t row[64];
+
+	la = la > 63 ? 63 : la;
+	lb = lb > 63 ? 63 : lb;
+	for (size_t j = 0; j <= lb; j++)
+		row[j] = j;
+	for (size_t i = 1; i <= la; i++) {
+		size_t diag = row[0];
+		row[0] = i;
+		for (size_t j = 1; j <= lb; j++) {
+			size_t up = row[j];
+			size_t cost = tolower((unsigned char)a[i - 1]) != tolower((unsigned char)b[j - 1]);
+			size_t best = diag + cost;
+			if (up + 1 < best)
+				best = up + 1;
+			if (row[j - 1] + 1 < best)
+				best = row[j - 1] + 1;
+			row[j] = best;
+			diag = up;
+		}
+	}
+	return row[lb];
+}
+
+/* The rule's text as a name: regex escapes and anchors dropped ("x1\.iph$" reads "x1.iph"). */
+static void plain_text(const char *regex, char *out, size_t size)
+{
+	size_t n = 0;
+	for (const char *p = regex; *p && n + 1 < size; p++) {
+		if (*p != '\\' && *p != '^' && *p != '$')
+			out[n++] = *p;
+	}
+	out[n] = '\0';
+}
+
+/* How far a current element's name is from what the user typed: its whole name or its own name. */
+static size_t name_distance(const char *typed, const char *path)
+{
+	size_t whole = edit_distance(typed, path), leaf = edit_distance(typed, leaf_name(path));
+	return leaf < whole ? leaf : whole;
+}
+
+/* Up to three current-element names closest to the typed pattern, "'a', 'b' or 'c'" into out. */
+static void closest_names(const struct sch_carrier_set *set, const struct elem_info *info, const char *regex,
+			  char *out, size_t size)
+{
+	const char *best[3] = { NULL, NULL, NULL };
+	size_t best_d[3] = { SIZE_MAX, SIZE_MAX, SIZE_MAX };
+	char typed[128];
+	size_t n = 0;
+
+	plain_text(regex, typed, sizeof(typed));
+	for (size_t k = 0; k < set->n_instances; k++) {
+		const char *path = set->instances[k].path;
+		size_t dist;
+		if (!info[set->instances[k].element].current)
+			continue;
+		dist = name_distance(typed, path);
+		for (size_t b = 0; b < 3; b++) {
+			if (dist < best_d[b]) {
+				for (size_t m = 2; m > b; m--) {
+					best[m] = best[m - 1];
+					best_d[m] = best_d[m - 1];
+				}
+				best[b] = path;
+				best_d[b] = dist;
+				break;
+			}
+		}
+	}
+	out[0] = '\0';
+	for (size_t b = 0; b < 3 && best[b]; b++)
+		n++;
+	for (size_t b = 0; b < n; b++)
+		snprintf(out + strlen(out), size - strlen(out), "%s'%s'", b == 0 ? "" : b + 1 == n ? " or " : ", ",
+			 best[b]);
+}
+
+/*
+ * The current element across diode instance k (same enclosing instance), for a rule that names the
+ * diode rather than its current; NULL if none.
+ */
+static const char *current_across(const struct sch_carrier_set *set, const struct elem_info *info, size_t k)
+{
+	const struct sch_instance *dio = &set->instances[k];
+	for (size_t j = 0; j < set->n_instances; j++) {
+		const struct sch_instance *in = &set->instances[j];
+		const struct elem_info *ei = &info[in->element];
+		if (ei->current && ei->diode && in->parent == dio->parent && ei->diode == info[dio->element].self)
+			return in->path;
+	}
+	return NULL;
+}
+
+/*
+ * A rule whose pattern matches no current element would do nothing: SCH_ERR_USAGE naming the
+ * pattern and what to write instead (the current across a diode it names, or the closest names).
+ */
+static enum sch_err check_matches(const struct sch_carrier_set *set, const struct elem_info *info,
+				  const struct sch_pattern *pat, const char *what, const char *regex, const char *value,
+				  struct sch_diag *d)
+{
+	char names[512];
+	long other = -1, leaf = -1;
+
+	for (size_t k = 0; k < set->n_instances; k++) {
+		const char *path = set->instances[k].path;
+		if (!info[set->instances[k].element].current) {
+			if (other < 0 && sch_pattern_match(pat, path, strlen(path)))
+				other = (long)k;
+			continue;
+		}
+		if (sch_pattern_match(pat, path, strlen(path)))
+			return SCH_OK;
+		if (leaf < 0 && sch_pattern_match(pat, leaf_name(path), strlen(leaf_name(path))))
+			leaf = (long)k;
+	}
+	if (other >= 0) {
+		const char *across = current_across(set, info, (size_t)other);
+		const struct sch_instance *in = &set->instances[other];
+		if (across)
+			return sch_diag_error(d, SCH_ERR_USAGE, NULL, 0,
+					      "%s pattern '%s' names the diode '%s', not a current: the rule belongs to "
+					      "the current source across it, '%s' (use %s '%s%s')",
+					      what, regex, in->path, across, what, across, value);
+		snprintf(names, sizeof(names), ", only %s", in->path);
+	} else {
+		names[0] = '\0';
+	}
+	if (leaf >= 0)
+		return sch_diag_error(d, SCH_ERR_USAGE, NULL, 0,
+				      "%s pattern '%s' matches no current element: patterns match the whole "
+				      "hierarchical name, such as '%s' (try 'schrot carriers NETLIST')",
+				      what, regex, set->instances[leaf].path);
+	{
+		char closest[400];
+		closest_names(set, info, regex, closest, sizeof(closest));
+		return sch_diag_error(d, SCH_ERR_USAGE, NULL, 0,
+				      "%s pattern '%s' matches no current element (I, G, F or B with i=)%s; %s%s "
+				      "(try 'schrot carriers NETLIST')",
+				      what, regex, names, *closest ? "closest: " : "the netlist has none", closest);
+	}
+}
+
+/* Every --carrier, --ignore, --avalanche and --fano pattern names at least one current element. */
+static enum sch_err check_rules(const struct sch_carrier_set *set, const struct elem_info *info,
+				const struct rules *ru, struct sch_diag *d)
+{
+	enum sch_err ret = SCH_OK;
+
+	char value[96];
+
+	if (ru->add)
+		ret = check_matches(set, info, ru->add, "--carrier", ru->opt->carrier_regex, "", d);
+	if (ret == SCH_OK && ru->ignore)
+		ret = check_matches(set, info, ru->ignore, "--ignore", ru->opt->ignore_regex, "", d);
+	for (size_t r = 0; ret == SCH_OK && r < ru->n_aval; r++) {
+		snprintf(value, sizeof(value), "=%g:%g", ru->opt->avalanche[r].gain_m, ru->opt->avalanche[r].k_ratio);
+		ret = check_matches(set, info, ru->aval[r], "--avalanche", ru->opt->avalanche[r].regex, value, d);
+	}
+	for (size_t r = 0; ret == SCH_OK && r < ru->n_fano; r++) {
+		snprintf(value, sizeof(value), "=%g", ru->opt->fano[r].fano);
+		ret = check_matches(set, info, ru->fano[r], "--fano", ru->opt->fano[r].regex, value, d);
+	}
+	return ret;
 }
 
 enum sch_err sch_carriers_find(const struct sch_deck *deck, const struct sch_carrier_options *opt,
@@ -429,7 +664,7 @@ enum sch_err sch_carriers_find(const struct sch_deck *deck, const struct sch_car
 		if (sort_instance(set, arena, &ru, info, k) != SCH_OK)
 			goto out;
 	}
-	ret = SCH_OK;
+	ret = check_rules(set, info, &ru, d);
 out:
 	sch_strmap_release(&pairs);
 	rules_release(&ru);

@@ -104,8 +104,10 @@ static enum sch_err set_dialect(struct sch_cli *, const struct cli_option *, cha
 /*
  * Which command honours what was read from src/cmd and src/analysis: an operating-point run
  * (carriers, augment, arrivals) reads only the carrier rules; augment's deck takes the noise run's
- * output, input and range but no junction probes; a sweep reports band rms only (no spots, NEP,
- * SNR or budget); only report and carriers and augment write the shared output files.
+ * output, input and range but no junction probes; a sweep reports band rms only (no spots, NEP or
+ * SNR) and gates --budget on its worst point (merge likewise on the joined sweep); sweep, merge
+ * and arrivals write JSON, CSV and a plot (a shard only its JSON), and every command that reads a
+ * netlist a depfile naming what it wrote; none of them has an HTML page.
  */
 static const struct cli_option options[] = {
 	{ "--out", "-o", "FILE", CMD_AUGMENT, TEXT(out_path), "the augmented netlist ('-': the standard output)" },
@@ -169,8 +171,9 @@ static const struct cli_option options[] = {
 	  "the signal's frequency in Hz: the transfer there refers the band's\n"
 	  "noise to the input and carries the signal (default: where |H|\n"
 	  "peaks in the band)" },
-	{ "--budget", NULL, "VRMS", CMD_REPORT, NUMBER(budget_v, CHECK_POSITIVE, "a positive rms voltage"),
-	  "exit 1 when the band's output rms exceeds it (SI suffixes: 50u)" },
+	{ "--budget", NULL, "VRMS", CMD_REPORT | CMD_SWEEP | CMD_MERGE,
+	  NUMBER(budget_v, CHECK_POSITIVE, "a positive rms voltage"),
+	  "exit 1 when the band's output rms exceeds it (SI suffixes: 50u);\na sweep: at its worst point" },
 	{ "--output", NULL, "EXPR", CMD_REPORT | CMD_AUGMENT | CMD_SWEEP | CMD_ARRIVALS | CMD_LEVERS, TEXT(run.output_expr),
 	  "v(node) or v(node,ref) when the netlist has no .noise line" },
 	{ "--input", NULL, "SRC", CMD_REPORT | CMD_AUGMENT | CMD_SWEEP | CMD_LEVERS, TEXT(run.input_src),
@@ -178,16 +181,17 @@ static const struct cli_option options[] = {
 	{ "--freq", NULL, "F1:F2[:PPD]", CMD_REPORT | CMD_AUGMENT | CMD_SWEEP | CMD_LEVERS, OWN(set_freq, NULL),
 	  "noise run range in Hz and points per decade (default 20)\nwhen the netlist has no .noise line" },
 	{ "--json", NULL, "FILE", CMD_ALL, TEXT(json_path), "the result as JSON ('-': the standard output, no table)" },
-	{ "--csv", NULL, "FILE", CMD_REPORT | CMD_LEVERS, TEXT(csv_path), "one row per contribution (levers: per lever)" },
+	{ "--csv", NULL, "FILE", CMD_REPORT | CMD_SWEEP | CMD_ARRIVALS | CMD_MERGE | CMD_LEVERS, TEXT(csv_path),
+	  "one row per contribution (sweep, merge: per point; arrivals: per\nwindow; levers: per lever)" },
 	{ "--spectrum", NULL, "FILE.csv", CMD_REPORT, TEXT(spectrum_path),
 	  "output noise density per frequency: total, the --top largest\ncontributions, the rest" },
 	{ "--top", NULL, "N", CMD_REPORT, set_whole_int, AT(top_n), CHECK_WHOLE, 1, 100, "a whole number 1..100",
 	  "contributions with their own --spectrum column (default 8)" },
-	{ "--plot", NULL, "FILE.svg|png", CMD_REPORT | CMD_ARRIVALS | CMD_LEVERS, TEXT(plot_path),
+	{ "--plot", NULL, "FILE.svg|png", CMD_REPORT | CMD_SWEEP | CMD_ARRIVALS | CMD_MERGE | CMD_LEVERS, TEXT(plot_path),
 	  "a plot, SVG or PNG by the name (levers: SNR against avalanche gain)" },
 	{ "--html", NULL, "FILE", CMD_REPORT | CMD_CARRIERS | CMD_AUGMENT, TEXT(html_path),
 	  "a self-contained review page" },
-	{ "--depfile", NULL, "FILE", CMD_REPORT | CMD_CARRIERS | CMD_AUGMENT, TEXT(depfile_path),
+	{ "--depfile", NULL, "FILE", CMD_REPORT | CMD_CARRIERS | CMD_AUGMENT | CMD_SWEEP | CMD_ARRIVALS, TEXT(depfile_path),
 	  "make dependency file: the output files depend on the netlist\nand its includes" },
 	{ "--quiet", "-q", NULL, CMD_ALL, OWN(set_flag, NULL), "only errors" },
 	{ "--verbose", "-v", NULL, CMD_ALL, OWN(set_flag, NULL), "notes and simulator messages too" },

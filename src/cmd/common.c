@@ -81,8 +81,6 @@ enum sch_err sch_cmd_write_outputs(const struct sch_cli *cli, const struct sch_r
 static enum sch_err write_outputs(const struct sch_cli *cli, const struct sch_result *res, struct sch_diag *d)
 {
 	enum sch_err ret = SCH_OK;
-	const char *targets[8];
-	size_t n_targets = 0;
 
 	if (cli->json_path && (ret = sch_report_json(res, cli->json_path, d)) != SCH_OK)
 		return ret;
@@ -99,17 +97,24 @@ static enum sch_err write_outputs(const struct sch_cli *cli, const struct sch_re
 	/* the review page also serves an operating-point run: carriers, currents, assumptions */
 	if (cli->html_path && (ret = sch_report_html(res, cli->html_path, d)) != SCH_OK)
 		return ret;
-	if (cli->depfile_path) {
-		const char *outs[] = { cli->json_path, cli->csv_path, cli->spectrum_path, cli->plot_path, cli->html_path,
-				       cli->out_path };
-		for (size_t k = 0; k < sizeof(outs) / sizeof(outs[0]); k++) {
-			if (outs[k] && !(outs[k][0] == '-' && outs[k][1] == '\0'))
-				targets[n_targets++] = outs[k];
-		}
-		if (n_targets == 0)
-			return sch_diag_error(d, SCH_ERR_USAGE, NULL, 0,
-					      "--depfile needs at least one output file (--json, --csv, ...) as its target");
-		ret = sch_report_depfile(res, cli->depfile_path, targets, n_targets, d);
-	}
+	if (cli->depfile_path)
+		ret = sch_cmd_write_depfile(cli, res, d);
 	return ret;
+}
+
+enum sch_err sch_cmd_write_depfile(const struct sch_cli *cli, const struct sch_result *res, struct sch_diag *d)
+{
+	const char *outs[] = { cli->json_path, cli->csv_path, cli->spectrum_path, cli->plot_path, cli->html_path,
+			       cli->out_path };
+	const char *targets[8];
+	size_t n_targets = 0;
+
+	for (size_t k = 0; k < sizeof(outs) / sizeof(outs[0]); k++) {
+		if (outs[k] && !(outs[k][0] == '-' && outs[k][1] == '\0'))
+			targets[n_targets++] = outs[k];
+	}
+	if (n_targets == 0)
+		return sch_diag_error(d, SCH_ERR_USAGE, NULL, 0,
+				      "--depfile needs at least one output file (--json, --csv, ...) as its target");
+	return sch_report_depfile(res, cli->depfile_path, targets, n_targets, d);
 }

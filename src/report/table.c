@@ -347,6 +347,7 @@ out:
 struct table_row {
 	const struct sch_contribution *c; /* the row itself, or the simulator row a correction folds into */
 	const char *origin;               /* "corrected" when a correction was folded in */
+	enum sch_mechanism mechanism;     /* thermal when a zero-bias junction's correction was folded in */
 	double dc_current_a;
 	double power, share;              /* signed band power and share, corrections included */
 	double *spot_power;               /* signed spot powers, corrections included */
@@ -388,7 +389,8 @@ static struct table_row *table_rows(const struct sch_result *r, bool fold, struc
 		return NULL;
 	for (size_t i = 0; i < n; i++) {
 		const struct sch_contribution *c = &r->contributions[i];
-		rows[i] = (struct table_row){ c, sch_origin_name(c->origin), c->dc_current_a, c->band_power, c->share,
+		rows[i] = (struct table_row){ c, sch_origin_name(c->origin), c->mechanism, c->dc_current_a, c->band_power,
+					      c->share,
 					      sch_arena_alloc(a, (r->n_spots + 1) * sizeof(double)), false };
 		if (!rows[i].spot_power)
 			return NULL;
@@ -410,6 +412,8 @@ static struct table_row *table_rows(const struct sch_result *r, bool fold, struc
 				rows[t].spot_power[j] += rows[i].spot_power[j];
 			rows[t].origin = "corrected";
 			rows[t].dc_current_a = rows[i].dc_current_a; /* the junction's own current, GMIN's kept out */
+			if (rows[i].c->mechanism == SCH_MECH_THERMAL)
+				rows[t].mechanism = SCH_MECH_THERMAL; /* zero bias: the Nyquist noise of g_j */
 			rows[i].gone = true;
 			break;
 		}
@@ -472,7 +476,7 @@ static enum sch_err print_contributions(const struct sch_result *r, FILE *out, b
 		grid_set(&g, row, 0, buf);
 		grid_set(&g, row, 1, or_dash(c->device));
 		grid_set(&g, row, 2, or_dash(c->generator));
-		grid_set(&g, row, 3, sch_mechanism_name(c->mechanism));
+		grid_set(&g, row, 3, sch_mechanism_name(tr->mechanism));
 		grid_set(&g, row, 4, tr->origin);
 		grid_set(&g, row, 5, sch_si_format(buf, sizeof(buf), tr->dc_current_a, 3, "A"));
 		for (size_t j = 0; j < r->n_spots; j++)

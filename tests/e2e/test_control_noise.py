@@ -3,7 +3,7 @@
 """A noise analysis stated inside .control (read as data, never run) reports exactly as the same deck
 with a .noise card; a single-frequency run is a spot analysis checked against closed forms."""
 import math
-from schrot_check import run, close, true, contribution, finish, Q, K, SCHROT as SCHROT_BIN
+from schrot_check import run, close, true, contribution, finish, read_raw, Q, K, SCHROT as SCHROT_BIN
 
 CIRCUIT = """range-finder receiver front end (invented values)
 iph 0 pd dc 2u
@@ -100,21 +100,22 @@ if data and swept:
     close("[C3] the spot run equals the swept run's spot at 1 kHz", data["spot"][0]["output_v_per_rthz"],
           swept["spot"][0]["output_v_per_rthz"], 1e-6)
 
-# The augmented deck of a spot run: plain ngspice runs it (exit 0, no noise2 totals needed) and its one
-# density equals schrot's spot (the same generators, sized from the same operating point).
+# The augmented deck of a spot run: plain 'ngspice -b -r' runs it (exit 0, no noise2 totals needed) and
+# the one density in its raw file equals schrot's spot (the same generators, sized from the same
+# operating point).
 if data:
-    import os, re, subprocess, tempfile
+    import os, subprocess, tempfile
     d = tempfile.mkdtemp(prefix="schrot-e2e-")
-    src, aug = os.path.join(d, "spot.cir"), os.path.join(d, "spot.aug.cir")
+    src, aug, raw = os.path.join(d, "spot.cir"), os.path.join(d, "spot.aug.cir"), os.path.join(d, "spot.raw")
     with open(src, "w") as f:
         f.write(SPOT)
     subprocess.run([SCHROT_BIN, "augment", src, "-o", aug], capture_output=True, timeout=300)
-    proc = subprocess.run(["ngspice", "-b", aug], capture_output=True, text=True, timeout=300, cwd=d)
-    m = re.search(r"^onoise_spectrum\s*=\s*(\S+)", proc.stdout, re.M)
-    true("[C4] plain ngspice runs the augmented spot deck and exits 0", proc.returncode == 0 and m is not None,
-         proc.stdout[-2000:] + proc.stderr[-2000:])
-    if m:
-        close("[C4] plain ngspice's density of the augmented spot deck = schrot's spot", float(m.group(1)),
+    proc = subprocess.run(["ngspice", "-b", "-r", raw, aug], capture_output=True, text=True, timeout=300, cwd=d)
+    dens = [v["onoise_spectrum"] for _, v in (read_raw(raw) if os.path.exists(raw) else []) if "onoise_spectrum" in v]
+    true("[C4] plain ngspice runs the augmented spot deck, exits 0 and writes its one density",
+         proc.returncode == 0 and len(dens) == 1 and len(dens[0]) == 1, proc.stdout[-2000:] + proc.stderr[-2000:])
+    if dens:
+        close("[C4] plain ngspice's density of the augmented spot deck = schrot's spot", dens[0][0],
               data["spot"][0]["output_v_per_rthz"], 1e-5)
 
 finish()
