@@ -87,8 +87,11 @@ static const struct dot_rule rules[] = {
 	{ ".endif", true, DOT_REFUSE, NULL },
 };
 
-/* Options kept (all others are dropped): they set the operating point, its convergence or noise. */
-enum opt_kind { OPT_NUMBER, OPT_TEMP, OPT_FLAG, OPT_SEED };
+/*
+ * Options kept (all others are dropped): they set the operating point, its convergence or noise,
+ * or the transient run of 'schrot arrivals'. All are simulator numbers, none a front-end path.
+ */
+enum opt_kind { OPT_NUMBER, OPT_TEMP, OPT_FLAG, OPT_SEED, OPT_METHOD };
 
 static const struct {
 	const char *name;
@@ -103,6 +106,8 @@ static const struct {
 	{ "oldlimit", OPT_FLAG }, { "bypass", OPT_NUMBER },
 	{ "defm", OPT_NUMBER }, { "defl", OPT_NUMBER }, { "defw", OPT_NUMBER }, { "defad", OPT_NUMBER },
 	{ "defas", OPT_NUMBER }, { "scale", OPT_NUMBER }, { "seed", OPT_SEED },
+	{ "method", OPT_METHOD }, { "maxord", OPT_NUMBER }, { "trtol", OPT_NUMBER }, { "xmu", OPT_NUMBER },
+	{ "itl3", OPT_NUMBER }, { "itl4", OPT_NUMBER }, { "itl5", OPT_NUMBER }, { "minbreak", OPT_NUMBER },
 };
 
 /* Front-end variables that name a file, a directory or a command: dropped with a warning. */
@@ -277,7 +282,7 @@ static void drop_option(struct sch_deck_load *ld, const char *file, long line, c
 			       : "the simulator does not need it for the operating point and noise");
 }
 
-/* A kept option's value: a number (its range checked), an expression, or 'random' for seed. */
+/* A kept option's value: a number (its range checked), an expression, 'random' for seed, a method name. */
 static enum sch_err check_option_value(struct sch_deck_load *ld, const char *file, long line, int opt,
 				       const char *value)
 {
@@ -287,6 +292,9 @@ static enum sch_err check_option_value(struct sch_deck_load *ld, const char *fil
 		return SCH_OK;
 	if (options[opt].kind == OPT_SEED && strcmp(value, "random") == 0)
 		return SCH_OK;
+	if (options[opt].kind == OPT_METHOD)
+		return strcmp(value, "gear") == 0 || strcmp(value, "trap") == 0 || strcmp(value, "trapezoidal") == 0 ?
+		       SCH_OK : sch_diag_error(ld->d, SCH_ERR_INPUT, file, line, "option 'method' needs 'gear' or 'trap'");
 	if (sch_si_parse(value, &v) != SCH_OK)
 		return sch_diag_error(ld->d, SCH_ERR_INPUT, file, line, "option '%s' needs a number", options[opt].name);
 	return options[opt].kind == OPT_TEMP ? check_temperature(ld, file, line, v) : SCH_OK;

@@ -308,6 +308,34 @@ static size_t without_dos_eof(struct reader *r, const char *path, const char *te
 }
 
 /*
+ * Reads an include or library file into *text (malloc'd) within what is left of the cap on all
+ * text read for the netlist; a failure is reported at the including card inc_file:inc_line.
+ */
+static enum sch_err read_included(struct reader *r, const char *path, bool lib, const char *inc_file,
+				  long inc_line, char **text, size_t *len)
+{
+	size_t left = DECK_MAX_TOTAL - r->total_bytes;
+	size_t limit = left < DECK_MAX_FILE ? left : DECK_MAX_FILE;
+	int err_no;
+	char why[128];
+	enum sch_err ret = slurp(path, true, limit, text, len, &err_no);
+
+	if (ret == SCH_ERR_INPUT && err_no == EFBIG && limit < DECK_MAX_FILE)
+		/* many includes of a large file: the cap is on all text read, not only per file */
+		return sch_diag_error(r->ld.d, SCH_ERR_INPUT, inc_file, inc_line,
+				      "the netlist and its includes hold more than %zu bytes in all (at '%s')",
+				      DECK_MAX_TOTAL, path);
+	if (ret == SCH_ERR_INPUT)
+		return sch_diag_error(r->ld.d, SCH_ERR_INPUT, inc_file, inc_line, err_no == EISDIR ?
+				      "%s file '%s' is a directory%s" : "cannot open %s file '%s': %s",
+				      lib ? "library" : "include", path,
+				      err_no == EISDIR ? "" : reason(err_no, why, sizeof(why)));
+	if (ret == SCH_OK)
+		r->total_bytes += *len;
+	return ret;
+}
+
+/*
  * Reads path (named by the card at inc_file:inc_line) as an include file or, when section is
  * given, for that library section.
  */
@@ -317,9 +345,7 @@ static enum sch_err open_source(struct reader *r, const char *path, const char *
 	struct sch_deck_load *ld = &r->ld;
 	struct src src = { 0 };
 	char *text = NULL;
-	size_t len, limit;
-	int err_no;
-	char why[128];
+	size_t len;
 	enum sch_err ret;
 
 	if (r->depth > SCH_MAX_INCLUDE_DEPTH) {
@@ -352,25 +378,9 @@ static enum sch_err open_source(struct reader *r, const char *path, const char *
 			goto out;
 		}
 	}
-	limit = DECK_MAX_TOTAL - r->total_bytes < DECK_MAX_FILE ? DECK_MAX_TOTAL - r->total_bytes : DECK_MAX_FILE;
-	ret = slurp(path, true, limit, &text, &len, &err_no);
-	if (ret == SCH_ERR_INPUT && err_no == EFBIG && limit < DECK_MAX_FILE) {
-		/* many includes of a large file: the cap is on all text read, not only per file */
-		ret = sch_diag_error(ld->d, SCH_ERR_INPUT, inc_file, inc_line,
-				     "the netlist and its includes hold more than %zu bytes in all (at '%s')",
-				     DECK_MAX_TOTAL, path);
-		goto out;
-	}
-	if (ret == SCH_ERR_INPUT) {
-		ret = sch_diag_error(ld->d, SCH_ERR_INPUT, inc_file, inc_line, err_no == EISDIR ?
-				     "%s file '%s' is a directory%s" : "cannot open %s file '%s': %s",
-				     section ? "library" : "include", path,
-				     err_no == EISDIR ? "" : reason(err_no, why, sizeof(why)));
-		goto out;
-	}
+	ret = read_included(r, path, section != NULL, inc_file, inc_line, &text, &len);
 	if (ret != SCH_OK)
 		goto out;
-	r->total_bytes += len;
 	len = without_dos_eof(r, path, text, len);
 	ret = SCH_ERR_NOMEM;
 	if (note_file(r, path, src.id) != SCH_OK)

@@ -1396,7 +1396,9 @@ static void test_deck__filters_options_to_the_allow_list(void)
 	expect_error("t\n.options gmin=(1 2)\n", INLINE_NAME ":2: option 'gmin' needs a number");
 	expect_error("t\n.options noopiter=1\n", INLINE_NAME ":2: option 'noopiter' takes no value");
 	expect_error("t\n.options tnom=-280\n", INLINE_NAME ":2: temperature -280 °C is below absolute zero (-273.15 °C)");
-	CHECK(load_text(&deck, "t\n.options temp={tamb} seed=random\n") == SCH_OK);
+	expect_error("t\n.options method=euler\n", INLINE_NAME ":2: option 'method' needs 'gear' or 'trap'");
+	CHECK(load_text(&deck, "t\n.options temp={tamb} seed=random method=gear\n") == SCH_OK);
+	CHECK_STR(deck.cards[0].text, ".options temp={tamb} seed=random method=gear");
 	sch_deck_release(&deck);
 }
 
