@@ -709,6 +709,17 @@ static enum sch_err card_start(struct reader *r, struct src *src, struct lines *
 	return SCH_OK;
 }
 
+/*
+ * ngspice continues a line that ends in two backslashes (comments included) on the next one, so
+ * the card after it would become part of this one for the simulator and not for the reader.
+ */
+static bool ends_in_double_backslash(const char *s, size_t n)
+{
+	while (n > 0 && is_blank(s[n - 1]))
+		n--;
+	return n >= 2 && s[n - 1] == '\\' && s[n - 2] == '\\';
+}
+
 /* One physical line s[0..n), without its newline and carriage return. */
 static enum sch_err read_line(struct reader *r, struct src *src, struct lines *ls, const char *s, size_t n)
 {
@@ -736,6 +747,10 @@ static enum sch_err read_line(struct reader *r, struct src *src, struct lines *l
 			warn_dropped(r, src, ls->lineno, false);
 		return SCH_OK;
 	}
+	if (src->state == ST_CARDS && ends_in_double_backslash(s, n))
+		return sch_diag_error(r->ld.d, SCH_ERR_INPUT, src->path, ls->lineno,
+				      "line ends in '\\\\', which the simulator joins to the next card: "
+				      "continue it with a '+' line");
 	if (s[0] == '+')
 		return continuation_line(r, src, ls, s, n);
 	return card_start(r, src, ls, s, n);

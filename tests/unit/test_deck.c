@@ -1496,6 +1496,13 @@ static void test_deck__refuses_unterminated_quotes_and_open_lib_sections(void)
 		     INLINE_NAME ":3: library section 'typ' has no '.endl': the rest of the file would be skipped");
 }
 
+static void test_deck__refuses_a_double_backslash_line_end(void)
+{
+	/* ngspice joins such a line to the next card; the reader would see two cards */
+	expect_error("t\nr1 a 0 1k \\\\ \nr2 a 0 1k\n", INLINE_NAME ":2: line ends in '\\\\', which the simulator joins to the next "
+						     "card: continue it with a '+' line");
+}
+
 CHECK_MAIN(CASE(test_deck__joins_plus_continuation_lines), CASE(test_deck__drops_star_comment_lines),
 	   CASE(test_deck__strips_semicolon_and_dollar_comments),
 	   CASE(test_deck__comment_only_line_does_not_end_a_card), CASE(test_deck__title_is_never_a_card),
@@ -1547,4 +1554,5 @@ CHECK_MAIN(CASE(test_deck__joins_plus_continuation_lines), CASE(test_deck__drops
 	   CASE(test_deck__refuses_cards_the_simulator_reads_as_circuit_cards), CASE(test_deck__checks_temp_cards),
 	   CASE(test_deck__caps_sweep_points), CASE(test_deck__refuses_element_names_the_simulator_misreads),
 	   CASE(test_deck__refuses_source_values_out_of_range),
-	   CASE(test_deck__refuses_unterminated_quotes_and_open_lib_sections))
+	   CASE(test_deck__refuses_unterminated_quotes_and_open_lib_sections),
+	   CASE(test_deck__refuses_a_double_backslash_line_end))
