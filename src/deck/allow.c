@@ -164,7 +164,7 @@ static bool ci_starts(const char *s, size_t n, const char *prefix)
 static const char *name_of(struct sch_deck_load *ld, const char *file, const char *word, const char *canonical,
 			   char *buf, size_t size)
 {
-	char fallback[48] = " a";
+	char fallback[48] = " a dot";
 
 	if (canonical)
 		snprintf(fallback, sizeof(fallback), " '%s'", canonical);
@@ -277,7 +277,7 @@ static void drop_option(struct sch_deck_load *ld, const char *file, long line, c
 
 	snprintf(tok, sizeof(tok), "%.*s", (int)(n < SCH_DECK_QUOTE_MAX + 1 ? n : SCH_DECK_QUOTE_MAX + 1), name);
 	sch_diag_report(ld->d, danger ? SCH_WARNING : SCH_NOTE, file, line, "option%s dropped: %s",
-			sch_deck_quote(ld->deck, file, tok, danger ? " naming a file or command" : "", q, sizeof(q)),
+			sch_deck_quote(ld->deck, file, tok, "", q, sizeof(q)),
 			danger ? "it names a file, a directory or a command of the simulator"
 			       : "the simulator does not need it for the operating point and noise");
 }
