@@ -1503,6 +1503,39 @@ static void test_deck__refuses_a_double_backslash_line_end(void)
 						     "card: continue it with a '+' line");
 }
 
+static void test_deck__allow_list_messages_never_quote_included_text(void)
+{
+	char path[256], text[512], *out = NULL;
+	size_t out_len = 0;
+	struct sch_deck deck;
+	FILE *inc, *sink;
+
+	snprintf(path, sizeof(path), "%s/allow.inc", check_scratch_dir());
+	inc = fopen(path, "w");
+	CHECK(inc != NULL);
+	if (!inc)
+		return;
+	fputs(".foosecret x\n.options secretopt=1 measoutfile=secretfile gmin=1e-13\n.meassecret\n"
+	      ".title secret\ni(secret) a 0 1n\n", inc);
+	fclose(inc);
+	snprintf(text, sizeof(text), "t\n.include %s\n", path);
+	sink = open_memstream(&out, &out_len);
+	CHECK(sink != NULL);
+	if (!sink)
+		return;
+	sch_deck_init(&deck);
+	sch_diag_init(&diag, sink, 1);
+	CHECK(sch_deck_load_text(&deck, INLINE_NAME, text, strlen(text), &diag) == SCH_ERR_INPUT);
+	fclose(sink);
+	CHECK(out && strstr(out, "allow.inc:1: note: a dot card dropped") != NULL);
+	CHECK(out && strstr(out, "allow.inc:2: warning: option dropped: it names a file") != NULL);
+	CHECK(out && strstr(out, "allow.inc:3: warning: '.meas' card dropped") != NULL);
+	CHECK(out && strstr(out, "allow.inc:5: error: element name holds '('") != NULL);
+	CHECK(out && strstr(out, "secret") == NULL);
+	free(out);
+	sch_deck_release(&deck);
+}
+
 CHECK_MAIN(CASE(test_deck__joins_plus_continuation_lines), CASE(test_deck__drops_star_comment_lines),
 	   CASE(test_deck__strips_semicolon_and_dollar_comments),
 	   CASE(test_deck__comment_only_line_does_not_end_a_card), CASE(test_deck__title_is_never_a_card),
@@ -1555,4 +1588,5 @@ CHECK_MAIN(CASE(test_deck__joins_plus_continuation_lines), CASE(test_deck__drops
 	   CASE(test_deck__caps_sweep_points), CASE(test_deck__refuses_element_names_the_simulator_misreads),
 	   CASE(test_deck__refuses_source_values_out_of_range),
 	   CASE(test_deck__refuses_unterminated_quotes_and_open_lib_sections),
-	   CASE(test_deck__refuses_a_double_backslash_line_end))
+	   CASE(test_deck__refuses_a_double_backslash_line_end),
+	   CASE(test_deck__allow_list_messages_never_quote_included_text))
