@@ -50,6 +50,11 @@ static const struct dot_rule rules[] = {
 	{ ".global", false, DOT_KEEP, NULL },
 	{ ".ic", false, DOT_KEEP, NULL },
 	{ ".nodeset", false, DOT_KEEP, NULL },
+	/* conditional netlists: numparam picks the branch, the simulator reads only that one */
+	{ ".if", false, DOT_KEEP, NULL },
+	{ ".elseif", false, DOT_KEEP, NULL },
+	{ ".else", false, DOT_KEEP, NULL },
+	{ ".endif", false, DOT_KEEP, NULL },
 	{ ".temp", false, DOT_TEMP, NULL },
 	{ ".opt", true, DOT_OPTIONS, NULL },  /* inp_getopts: every '.opt...' card */
 	/* analyses and outputs: the tool runs its own, augment keeps them for plain ngspice */
@@ -81,10 +86,10 @@ static const struct dot_rule rules[] = {
 	{ ".temp", true, DOT_REFUSE, "is read by the simulator as '.temp': write '.temp'" },
 	{ ".macro", true, DOT_REFUSE, "is read by the simulator as '.subckt': write '.subckt'" },
 	{ ".eom", true, DOT_REFUSE, "is read by the simulator as '.ends': write '.ends'" },
-	{ ".if", true, DOT_REFUSE, NULL },
-	{ ".elseif", true, DOT_REFUSE, NULL },
-	{ ".else", true, DOT_REFUSE, NULL },
-	{ ".endif", true, DOT_REFUSE, NULL },
+	{ ".if", true, DOT_REFUSE, "is read by the simulator as '.if': write '.if'" },
+	{ ".elseif", true, DOT_REFUSE, "is read by the simulator as '.elseif': write '.elseif'" },
+	{ ".else", true, DOT_REFUSE, "is read by the simulator as '.else': write '.else'" },
+	{ ".endif", true, DOT_REFUSE, "is read by the simulator as '.endif': write '.endif'" },
 };
 
 /*
@@ -406,10 +411,6 @@ enum sch_err sch_deck_screen_dot(struct sch_deck_load *ld, const char *file, lon
 				name_of(ld, file, word, r->word, q, sizeof(q)) + 1, r->why);
 		return SCH_OK;
 	case DOT_REFUSE:
-		if (!r->why)
-			return sch_diag_error(ld->d, SCH_ERR_INPUT, file, line,
-					      "%s blocks are not supported: dropping the card would change the circuit",
-					      name_of(ld, file, word, r->word, q, sizeof(q)) + 1);
 		return sch_diag_error(ld->d, SCH_ERR_INPUT, file, line, "%s %s",
 				      name_of(ld, file, word, r->word, q, sizeof(q)) + 1, r->why);
 	case DOT_NOTE:

@@ -1373,6 +1373,10 @@ static void test_deck__drops_cards_outside_the_allow_list(void)
 	CHECK_STR(deck.cards[0].keyword, ".four");
 	CHECK(diag.n_warnings == 1); /* .csparam; the rest are notes */
 	sch_deck_release(&deck);
+	/* a conditional netlist is kept whole: numparam picks the branch the simulator reads */
+	CHECK(load_text(&deck, "t\n.param s=1\n.if (s == 1)\nr1 a 0 1k\n.else\nr1 a 0 2k\n.endif\n") == SCH_OK);
+	CHECK(deck.n_cards == 6);
+	sch_deck_release(&deck);
 	/* '.para...' is read as .param by the simulator, so it is kept as written */
 	CHECK(load_text(&deck, "t\n.params k=2\nr1 a 0 {k}\n") == SCH_OK);
 	CHECK(deck.n_cards == 2);
@@ -1433,8 +1437,8 @@ static void test_deck__refuses_cards_the_simulator_reads_as_circuit_cards(void)
 	expect_error("t\n.cmodel m d\n", INLINE_NAME ":2: '.cmodel' is read by the simulator as '.model': write '.model'");
 	expect_error("t\n.modelx m d\n", INLINE_NAME ":2: '.modelx' is read by the simulator as '.model': write '.model'");
 	expect_error("t\n.temperature 50\n", INLINE_NAME ":2: '.temperature' is read by the simulator as '.temp': write '.temp'");
-	expect_error("t\n.if (1)\n", INLINE_NAME ":2: '.if' blocks are not supported: dropping the card would change the circuit");
-	expect_error("t\n.endif\n", INLINE_NAME ":2: '.endif' blocks are not supported: dropping the card would change the circuit");
+	expect_error("t\n.ifdef fast\n", INLINE_NAME ":2: '.ifdef' is read by the simulator as '.if': write '.if'");
+	expect_error("t\n.endifx\n", INLINE_NAME ":2: '.endifx' is read by the simulator as '.endif': write '.endif'");
 }
 
 static void test_deck__checks_temp_cards(void)
