@@ -9,6 +9,7 @@ Each case directory holds:
   expected.stdout  optional: every non-empty line must occur in stdout (substring)
   expected.stderr  optional: every non-empty line must occur in stderr (substring)
   expected.stderr.lines  optional: the number of lines stderr must have (1: one message, nothing else)
+  unexpected.stdout  optional: no non-empty line of it may occur in stdout (substring)
   absent           optional: files (relative to the case) that must not exist afterwards
   setup            optional: shell commands run first in the case directory
   env              optional: KEY=VALUE lines added to schrot's environment; KEY+=VALUE appends
@@ -77,6 +78,9 @@ def run_case(schrot, case):
         for line in exp.splitlines():
             if line.strip() and line.strip() not in text:
                 problems.append("%s lacks %r" % (stream, line.strip()))
+    for line in (read("unexpected.stdout") or "").splitlines():
+        if line.strip() and line.strip() in out:
+            problems.append("stdout holds %r" % line.strip())
     for f in absent:
         if os.path.exists(os.path.join(case, f)):
             problems.append("file %s exists" % f)

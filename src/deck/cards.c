@@ -73,11 +73,13 @@ static enum sch_err check_element(struct sch_deck_load *ld, const char *file, lo
 	case 'v':
 		if (n < 2)
 			return too_few(ld, file, line, e->name, "2 nodes");
-		if (n > 2 && sch_deck_check_number(ld, file, line, t[2]) != SCH_OK)
+		if (n > 2 && (sch_deck_check_number(ld, file, line, t[2]) != SCH_OK ||
+			      sch_deck_check_source_value(ld, file, line, t[2]) != SCH_OK))
 			return SCH_ERR_INPUT;
 		for (int i = 2; i + 1 < n; i++)
 			if ((strcmp(t[i], "dc") == 0 || strcmp(t[i], "ac") == 0) &&
-			    sch_deck_check_number(ld, file, line, t[i + 1]) != SCH_OK)
+			    (sch_deck_check_number(ld, file, line, t[i + 1]) != SCH_OK ||
+			     sch_deck_check_source_value(ld, file, line, t[i + 1]) != SCH_OK))
 				return SCH_ERR_INPUT;
 		return SCH_OK;
 	case 'b':
@@ -126,6 +128,8 @@ static enum sch_err element_card(struct sch_deck_load *ld, const char *file, lon
 		return sch_diag_error(ld->d, SCH_ERR_INPUT, file, line, "element name%s does not start with a letter",
 				      sch_deck_quote(ld->deck, file, name, "", q, sizeof(q)));
 	}
+	if (sch_deck_check_element_name(ld, file, line, text, len) != SCH_OK)
+		return SCH_ERR_INPUT;
 	if (sch_deck_tokenize(ld, text, len, SIZE_MAX) != SCH_OK || sch_deck_pack(ld, text, len, &stored, &toks) != SCH_OK ||
 	    ARENA_GROW(ld, ld->elements, ld->n_elements, ld->a_elements) != SCH_OK)
 		return SCH_ERR_NOMEM;
@@ -355,9 +359,16 @@ static enum sch_err dot_card(struct sch_deck_load *ld, const char *file, long li
 enum sch_err sch_deck_load_card(struct sch_deck_load *ld, const char *file, long line,
 				const char *text, size_t len)
 {
+	bool keep;
+	enum sch_err ret;
+
 	if (len == 0)
 		return SCH_OK;
-	if (text[0] == '.')
-		return dot_card(ld, file, line, text, len);
-	return element_card(ld, file, line, text, len);
+	if (text[0] != '.')
+		return element_card(ld, file, line, text, len);
+	/* the allow-list: a dropped card never reaches the deck, an options card may come back rewritten */
+	ret = sch_deck_screen_dot(ld, file, line, &text, &len, &keep);
+	if (ret != SCH_OK || !keep)
+		return ret;
+	return dot_card(ld, file, line, text, len);
 }

@@ -17,6 +17,7 @@
 
 #define DECK_MAX_FILE ((size_t)1 << 30) /* a netlist file larger than this is refused */
 #define DECK_MAX_OPENS 10000            /* include/library reads per deck: bounds fan-out, not depth */
+#define DECK_MAX_TOTAL ((size_t)1 << 30) /* bytes of all files read for one netlist together */
 
 enum src_mode { SRC_TOP, SRC_INCLUDE, SRC_LIB };
 
@@ -36,6 +37,8 @@ struct src {
 	enum src_state state;
 	bool found;          /* SRC_LIB: the section was seen */
 	bool stop;           /* .end in the top file, .endl closing the wanted section */
+	long def_line;       /* ST_DEF_SKIP: line of the .lib NAME card that opened the definition */
+	const char *def_name; /* ST_DEF_SKIP: its NAME (arena) */
 };
 
 struct reader {
@@ -44,6 +47,7 @@ struct reader {
 	int depth;
 	int n_opens;
 	long script_line; /* line of a '*ng_script' title marker in the top file, 0 without one */
+	size_t total_bytes;  /* read so far, top file included: at most DECK_MAX_TOTAL */
 };
 
 static enum sch_err read_source(struct reader *r, struct src *src, const char *text, size_t len);
@@ -157,7 +161,8 @@ static enum sch_err check_text(struct reader *r, const struct src *src, long lin
  * Reads a whole file. *err_no is set on failure (EISDIR for a directory, EFBIG when too large,
  * ENODEV for a device or pipe when regular_only: an include must never block on /dev/stdin).
  */
-static enum sch_err slurp(const char *path, bool regular_only, char **out, size_t *out_len, int *err_no)
+static enum sch_err slurp(const char *path, bool regular_only, size_t limit, char **out, size_t *out_len,
+			  int *err_no)
 {
 	enum sch_err ret = SCH_ERR_INPUT;
 	struct stat st;
@@ -185,6 +190,10 @@ static enum sch_err slurp(const char *path, bool regular_only, char **out, size_
 		*err_no = ENODEV;
 		goto out;
 	}
+	if (S_ISREG(st.st_mode) && (uintmax_t)st.st_size > limit) {
+		*err_no = EFBIG;
+		goto out;
+	}
 	for (;;) {
 		ssize_t got;
 
@@ -192,7 +201,7 @@ static enum sch_err slurp(const char *path, bool regular_only, char **out, size_
 			size_t want = alloc ? alloc * 2 : (S_ISREG(st.st_mode) && st.st_size > 0 ? (size_t)st.st_size + 2 : 65536);
 			char *p;
 
-			if (alloc > DECK_MAX_FILE) {
+			if (alloc > limit) {
 				*err_no = EFBIG;
 				goto out;
 			}
@@ -215,7 +224,7 @@ static enum sch_err slurp(const char *path, bool regular_only, char **out, size_
 			break;
 		len += (size_t)got;
 	}
-	if (len > DECK_MAX_FILE) {
+	if (len > limit) {
 		*err_no = EFBIG;
 		goto out;
 	}
@@ -299,6 +308,34 @@ static size_t without_dos_eof(struct reader *r, const char *path, const char *te
 }
 
 /*
+ * Reads an include or library file into *text (malloc'd) within what is left of the cap on all
+ * text read for the netlist; a failure is reported at the including card inc_file:inc_line.
+ */
+static enum sch_err read_included(struct reader *r, const char *path, bool lib, const char *inc_file,
+				  long inc_line, char **text, size_t *len)
+{
+	size_t left = DECK_MAX_TOTAL - r->total_bytes;
+	size_t limit = left < DECK_MAX_FILE ? left : DECK_MAX_FILE;
+	int err_no;
+	char why[128];
+	enum sch_err ret = slurp(path, true, limit, text, len, &err_no);
+
+	if (ret == SCH_ERR_INPUT && err_no == EFBIG && limit < DECK_MAX_FILE)
+		/* many includes of a large file: the cap is on all text read, not only per file */
+		return sch_diag_error(r->ld.d, SCH_ERR_INPUT, inc_file, inc_line,
+				      "the netlist and its includes hold more than %zu bytes in all (at '%s')",
+				      DECK_MAX_TOTAL, path);
+	if (ret == SCH_ERR_INPUT)
+		return sch_diag_error(r->ld.d, SCH_ERR_INPUT, inc_file, inc_line, err_no == EISDIR ?
+				      "%s file '%s' is a directory%s" : "cannot open %s file '%s': %s",
+				      lib ? "library" : "include", path,
+				      err_no == EISDIR ? "" : reason(err_no, why, sizeof(why)));
+	if (ret == SCH_OK)
+		r->total_bytes += *len;
+	return ret;
+}
+
+/*
  * Reads path (named by the card at inc_file:inc_line) as an include file or, when section is
  * given, for that library section.
  */
@@ -309,8 +346,6 @@ static enum sch_err open_source(struct reader *r, const char *path, const char *
 	struct src src = { 0 };
 	char *text = NULL;
 	size_t len;
-	int err_no;
-	char why[128];
 	enum sch_err ret;
 
 	if (r->depth > SCH_MAX_INCLUDE_DEPTH) {
@@ -343,14 +378,7 @@ static enum sch_err open_source(struct reader *r, const char *path, const char *
 			goto out;
 		}
 	}
-	ret = slurp(path, true, &text, &len, &err_no);
-	if (ret == SCH_ERR_INPUT) {
-		ret = sch_diag_error(ld->d, SCH_ERR_INPUT, inc_file, inc_line, err_no == EISDIR ?
-				     "%s file '%s' is a directory%s" : "cannot open %s file '%s': %s",
-				     section ? "library" : "include", path,
-				     err_no == EISDIR ? "" : reason(err_no, why, sizeof(why)));
-		goto out;
-	}
+	ret = read_included(r, path, section != NULL, inc_file, inc_line, &text, &len);
 	if (ret != SCH_OK)
 		goto out;
 	len = without_dos_eof(r, path, text, len);
@@ -386,6 +414,17 @@ static const char *card_arg(struct reader *r, const struct sch_pattern *re, cons
 	return s;
 }
 
+/*
+ * An argument that still starts with a quote after card_arg: its closing quote is missing, most
+ * often because a ';' inside the quotes started a comment (ngspice cuts there too).
+ */
+static bool open_quote(const char *arg)
+{
+	return arg[0] == '"' || arg[0] == '\'';
+}
+
+#define OPEN_QUOTE_MSG "unterminated quote in '%s' file name (';' starts a comment, even inside quotes)"
+
 static enum sch_err include_card(struct reader *r, struct src *src, long line, const char *text, size_t len)
 {
 	struct sch_arena *a = &r->ld.deck->arena;
@@ -395,6 +434,8 @@ static enum sch_err include_card(struct reader *r, struct src *src, long line, c
 
 	if (!name || n == 0)
 		return sch_diag_error(r->ld.d, SCH_ERR_INPUT, src->path, line, "'.include' needs a file name");
+	if (open_quote(name))
+		return sch_diag_error(r->ld.d, SCH_ERR_INPUT, src->path, line, OPEN_QUOTE_MSG, ".include");
 	path = resolve(a, src->path, name, n);
 	if (!path)
 		return SCH_ERR_NOMEM;
@@ -412,10 +453,14 @@ static enum sch_err lib_card(struct reader *r, struct src *src, long line, const
 	if (!file || n1 == 0)
 		return sch_diag_error(r->ld.d, SCH_ERR_INPUT, src->path, line,
 				      "'.lib' needs a file name and a section");
+	if (open_quote(file) || (sec && open_quote(sec)))
+		return sch_diag_error(r->ld.d, SCH_ERR_INPUT, src->path, line, OPEN_QUOTE_MSG, ".lib");
 	if (!sec) {
 		/* ".lib NAME" opens a section definition; it is read only when a .lib FILE NAME asks. */
 		src->state = ST_DEF_SKIP;
-		return SCH_OK;
+		src->def_line = line;
+		src->def_name = sch_arena_strndup(a, file, n1);
+		return src->def_name ? SCH_OK : SCH_ERR_NOMEM;
 	}
 	path = resolve(a, src->path, file, n1);
 	section = sch_arena_strndup(a, sec, n2);
@@ -664,6 +709,17 @@ static enum sch_err card_start(struct reader *r, struct src *src, struct lines *
 	return SCH_OK;
 }
 
+/*
+ * ngspice continues a line that ends in two backslashes (comments included) on the next one, so
+ * the card after it would become part of this one for the simulator and not for the reader.
+ */
+static bool ends_in_double_backslash(const char *s, size_t n)
+{
+	while (n > 0 && is_blank(s[n - 1]))
+		n--;
+	return n >= 2 && s[n - 1] == '\\' && s[n - 2] == '\\';
+}
+
 /* One physical line s[0..n), without its newline and carriage return. */
 static enum sch_err read_line(struct reader *r, struct src *src, struct lines *ls, const char *s, size_t n)
 {
@@ -691,6 +747,10 @@ static enum sch_err read_line(struct reader *r, struct src *src, struct lines *l
 			warn_dropped(r, src, ls->lineno, false);
 		return SCH_OK;
 	}
+	if (src->state == ST_CARDS && ends_in_double_backslash(s, n))
+		return sch_diag_error(r->ld.d, SCH_ERR_INPUT, src->path, ls->lineno,
+				      "line ends in '\\\\', which the simulator joins to the next card: "
+				      "continue it with a '+' line");
 	if (s[0] == '+')
 		return continuation_line(r, src, ls, s, n);
 	return card_start(r, src, ls, s, n);
@@ -718,6 +778,14 @@ static enum sch_err read_source(struct reader *r, struct src *src, const char *t
 		ret = flush_pending(r, src, &ls);
 	if (src->state == ST_CONTROL)
 		sch_deck_control_end(&r->ld);
+	if (ret == SCH_OK && src->state == ST_DEF_SKIP) {
+		char q[SCH_DECK_QUOTE_MAX + 8];
+
+		/* silently skipping to the end of the file hid the rest of the netlist */
+		ret = sch_diag_error(r->ld.d, SCH_ERR_INPUT, src->path, src->def_line,
+				     "library section%s has no '.endl': the rest of the file would be skipped",
+				     sch_deck_quote(r->ld.deck, src->path, src->def_name, "", q, sizeof(q)));
+	}
 	sch_buf_release(&ls.card);
 	return ret;
 }
@@ -791,6 +859,7 @@ enum sch_err sch_deck_load_text(struct sch_deck *deck, const char *name, const c
 	}
 	top.mode = SRC_TOP;
 	top.state = ST_CARDS;
+	r.total_bytes = len < DECK_MAX_TOTAL ? len : DECK_MAX_TOTAL;
 	if (note_file(&r, top.path, top.id) != SCH_OK)
 		goto out;
 	r.stack[r.depth++] = &top;
@@ -820,7 +889,7 @@ enum sch_err sch_deck_load(struct sch_deck *deck, const char *path, struct sch_d
 		sch_deck_release(deck);
 		return sch_diag_error(d, SCH_ERR_INPUT, NULL, 0, "no netlist given");
 	}
-	ret = slurp(path, false, &text, &len, &err_no);
+	ret = slurp(path, false, DECK_MAX_FILE, &text, &len, &err_no);
 	if (ret == SCH_ERR_INPUT) {
 		sch_deck_release(deck);
 		if (err_no == EISDIR)

@@ -183,6 +183,24 @@ size_t sch_deck_binned_base(const char *name);
  */
 enum sch_err sch_deck_check_dc_paths(struct sch_deck_load *ld);
 
+/*
+ * The allow-list of dot cards (allow.c; docs/security.md lists it with its reasons), matched the
+ * way the simulator matches them. *keep is false when the card is dropped (a located note or
+ * warning was reported). A kept options card comes back rewritten to its kept entries in *text and
+ * *len (arena). SCH_ERR_INPUT with a located message when the card is refused (it would change the
+ * circuit if dropped, would make a script title, or holds a value out of range); SCH_ERR_NOMEM.
+ */
+enum sch_err sch_deck_screen_dot(struct sch_deck_load *ld, const char *file, long line, const char **text,
+				 size_t *len, bool *keep);
+
+/* SCH_ERR_INPUT with a located message when an element name (text up to the first blank) holds a
+ * character the simulator's parser ends a name at ('=', '(', ')', ',') or numparam reads ('{', '}', quotes). */
+enum sch_err sch_deck_check_element_name(struct sch_deck_load *ld, const char *file, long line,
+					 const char *text, size_t len);
+
+/* SCH_ERR_INPUT with a located message when tok is a number above the source range (1e6 A or V). */
+enum sch_err sch_deck_check_source_value(struct sch_deck_load *ld, const char *file, long line, const char *tok);
+
 /* Adds one ordinary card (an element or a dot card other than include/lib/control/end). */
 enum sch_err sch_deck_load_card(struct sch_deck_load *ld, const char *file, long line,
 				const char *text, size_t len);

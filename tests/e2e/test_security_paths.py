@@ -81,6 +81,19 @@ attempt("'*ng_script' title", {"input.cir": deck("{s0}", title="*ng_script harml
 attempt("'*NG_SCRIPT' title", {"input.cir": deck("{s0}", title="*NG_SCRIPT")}, rc=(3,))
 attempt("'*ng_script' after a blank first line",
         {"input.cir": "\n*ng_script\n" + deck("{s0}").split("\n", 1)[1]}, rc=(3,))
+# 3b. cards the simulator acts on by its own prefix rules (issue 16): a .title card copied over the
+# title line, measurement cards with a measurement file, command-language variables, and options read
+# when the next circuit is loaded; all caught by the reader's allow-list
+attempt("'.title *ng_script' card", {"input.cir": deck(".title *ng_script\n{s0}")}, rc=(2,))
+attempt("'.TITLEx *NG_SCRIPT' card in an .include", {"input.cir": deck(".include parts.inc"),
+        "parts.inc": "r9 a 0 1g\n.TITLEx   *NG_SCRIPT\n{s0}\necho x `touch {m1}` y 1\n"}, rc=(2,), markers=2)
+attempt(".options measoutfile with a '.meas(x)' card", {"input.cir": deck(
+        ".options measoutfile={m0}\n.meas(x) noise pk max v(a)")}, args=("report",))
+attempt("'.OPTX measoutfile' with '.Measure=y'", {"input.cir": deck(
+        ".OPTX measoutfile={m0}\n.Measure=y op pk find v(a)")})
+attempt("'.csparam' with a backquote", {"input.cir": deck(".csparam big=`touch {m0}`")}, args=("report",))
+attempt("'.options addcontrol rawfile' over a sweep's reloads", {"input.cir": deck(
+        ".options addcontrol rawfile={m0}")}, args=("sweep", "--vary", "iph=1n:2n:3"))
 # 4. the same inside .include and .lib files, nested
 attempt(".control in an .include file", {"input.cir": deck(".include parts.inc"),
                                           "parts.inc": "r9 a 0 10meg\n.control\n{s0}\n.endc\n"})

@@ -702,9 +702,10 @@ static void test_deck__survives_odd_shapes(void)
 	CHECK(load_text(&deck, "odd\nr1 a 0 1k\n.control\nr2 a 0 1k\n") == SCH_OK);
 	CHECK(deck.n_elements == 1 && deck.n_dropped_control == 1);
 	sch_deck_release(&deck);
-	/* '.con' + 'trol' over a continuation is not a control block (ngspice does not run it) */
+	/* '.con' + 'trol' over a continuation is not a control block (ngspice does not run it); the
+	 * card '.con trol' is not on the allow-list, so it is dropped with a note */
 	CHECK(load_text(&deck, "odd\n.con\n+trol\n") == SCH_OK);
-	CHECK(deck.n_cards == 1 && deck.n_dropped_control == 0);
+	CHECK(deck.n_cards == 0 && deck.n_dropped_control == 0);
 	sch_deck_release(&deck);
 	expect_error("odd\n.include\n", INLINE_NAME ":2: '.include' needs a file name");
 	expect_error("odd\n.lib\n", INLINE_NAME ":2: '.lib' needs a file name and a section");
@@ -1363,6 +1364,182 @@ static void test_deck__script_title_without_a_circuit_is_bad_input(void)
 		     INLINE_NAME ":2: a '*ng_script' title and no circuit: the file is a simulator script, not a netlist");
 }
 
+static void test_deck__drops_cards_outside_the_allow_list(void)
+{
+	struct sch_deck deck;
+
+	CHECK(load_text(&deck, "t\n.foo bar\n.backanno\n.title plain\n.csparam x=1\n.four 1k v(a)\nr1 a 0 1k\n") == SCH_OK);
+	CHECK(deck.n_cards == 2 && deck.n_elements == 1);
+	CHECK_STR(deck.cards[0].keyword, ".four");
+	CHECK(diag.n_warnings == 1); /* .csparam; the rest are notes */
+	sch_deck_release(&deck);
+	/* a conditional netlist is kept whole: numparam picks the branch the simulator reads */
+	CHECK(load_text(&deck, "t\n.param s=1\n.if (s == 1)\nr1 a 0 1k\n.else\nr1 a 0 2k\n.endif\n") == SCH_OK);
+	CHECK(deck.n_cards == 6);
+	sch_deck_release(&deck);
+	/* '.para...' is read as .param by the simulator, so it is kept as written */
+	CHECK(load_text(&deck, "t\n.params k=2\nr1 a 0 {k}\n") == SCH_OK);
+	CHECK(deck.n_cards == 2);
+	sch_deck_release(&deck);
+}
+
+static void test_deck__filters_options_to_the_allow_list(void)
+{
+	struct sch_deck deck;
+
+	CHECK(load_text(&deck, "t\n.options reltol = 1e-4 measoutfile=/tmp/x sqrnoise noopiter temp 50\n") == SCH_OK);
+	CHECK(deck.n_cards == 1 && diag.n_warnings == 1);
+	CHECK_STR(deck.cards[0].text, ".options reltol=1e-4 noopiter temp=50");
+	sch_deck_release(&deck);
+	/* every '.opt...' card is an options card to the simulator; one with nothing kept is dropped */
+	CHECK(load_text(&deck, "t\n.OPTX rawfile=x\n.optionsfoo gmin=1e-13\n") == SCH_OK);
+	CHECK(deck.n_cards == 1);
+	CHECK_STR(deck.cards[0].text, ".options gmin=1e-13");
+	CHECK_STR(deck.cards[0].keyword, ".options");
+	sch_deck_release(&deck);
+	expect_error("t\n.options gmin=(1 2)\n", INLINE_NAME ":2: option 'gmin' needs a number");
+	expect_error("t\n.options noopiter=1\n", INLINE_NAME ":2: option 'noopiter' takes no value");
+	expect_error("t\n.options tnom=-280\n", INLINE_NAME ":2: temperature -280 °C is below absolute zero (-273.15 °C)");
+	expect_error("t\n.options method=euler\n", INLINE_NAME ":2: option 'method' needs 'gear' or 'trap'");
+	CHECK(load_text(&deck, "t\n.options temp={tamb} seed=random method=gear\n") == SCH_OK);
+	CHECK_STR(deck.cards[0].text, ".options temp={tamb} seed=random method=gear");
+	sch_deck_release(&deck);
+}
+
+static void test_deck__drops_measurement_cards_by_prefix(void)
+{
+	struct sch_deck deck;
+
+	CHECK(load_text(&deck, "t\n.meas(x) tran a max v(1)\n.MEASURE=y ac b\n.meas,z op c\n.measurements d\nr1 a 0 1k\n")
+	      == SCH_OK);
+	CHECK(deck.n_cards == 1 && diag.n_warnings == 4);
+	sch_deck_release(&deck);
+}
+
+static void test_deck__refuses_a_script_title_card(void)
+{
+	struct sch_deck deck;
+
+	expect_error("t\n.title *ng_script\nr1 a 0 1k\n",
+		     INLINE_NAME ":2: '.title' card would make the deck a command script ('*ng_script'): nothing in a netlist runs");
+	expect_error("t\n.TITLEfoo    *NG_SCRIPT x\n",
+		     INLINE_NAME ":2: '.title' card would make the deck a command script ('*ng_script'): nothing in a netlist runs");
+	/* any other title card is dropped: the simulator gets schrot's own title */
+	CHECK(load_text(&deck, "t\n.title a probe\nr1 a 0 1k\n") == SCH_OK);
+	CHECK(deck.n_cards == 1);
+	sch_deck_release(&deck);
+}
+
+static void test_deck__refuses_cards_the_simulator_reads_as_circuit_cards(void)
+{
+	expect_error("t\n.macro c a b\n", INLINE_NAME ":2: '.macro' is read by the simulator as '.subckt': write '.subckt'");
+	expect_error("t\n.eom\n", INLINE_NAME ":2: '.eom' is read by the simulator as '.ends': write '.ends'");
+	expect_error("t\n.cmodel m d\n", INLINE_NAME ":2: '.cmodel' is read by the simulator as '.model': write '.model'");
+	expect_error("t\n.modelx m d\n", INLINE_NAME ":2: '.modelx' is read by the simulator as '.model': write '.model'");
+	expect_error("t\n.temperature 50\n", INLINE_NAME ":2: '.temperature' is read by the simulator as '.temp': write '.temp'");
+	expect_error("t\n.ifdef fast\n", INLINE_NAME ":2: '.ifdef' is read by the simulator as '.if': write '.if'");
+	expect_error("t\n.endifx\n", INLINE_NAME ":2: '.endifx' is read by the simulator as '.endif': write '.endif'");
+}
+
+static void test_deck__checks_temp_cards(void)
+{
+	struct sch_deck deck;
+
+	expect_error("t\n.temp 50 60\n",
+		     INLINE_NAME ":2: '.temp' takes one temperature: the simulator would ignore a list and run at 27 °C");
+	expect_error("t\n.temp -300\n", INLINE_NAME ":2: temperature -300 °C is below absolute zero (-273.15 °C)");
+	expect_error("t\n.temp warm\n", INLINE_NAME ":2: '.temp' needs a number");
+	CHECK(load_text(&deck, "t\n.temp=85\n.temp {tamb}\n.temp -273.15\n") == SCH_OK);
+	CHECK(deck.n_cards == 3);
+	sch_deck_release(&deck);
+}
+
+static void test_deck__caps_sweep_points(void)
+{
+	struct sch_deck deck;
+
+	expect_error("t\niph a 0 dc 1n\nr1 a 0 1k\n.noise v(a) iph lin 100001 1 1k\n",
+		     INLINE_NAME ":4: '.noise' asks for 100001 frequency points: at most 100000 are allowed");
+	expect_error("t\n.ac oct 10000 1 1g\n", INLINE_NAME ":2: '.ac' asks for 298975 frequency points: at most 100000 are allowed");
+	expect_error("t\n.ac dec 1e300 1 1e300\n",
+		     INLINE_NAME ":2: '.ac' asks for 3e+302 frequency points: at most 100000 are allowed");
+	CHECK(load_text(&deck, "t\niph a 0 dc 1n\nr1 a 0 1k\n.noise v(a) iph dec 10000 1 1g 1\n.ac lin {n} 1 1k\n") == SCH_OK);
+	sch_deck_release(&deck);
+}
+
+static void test_deck__refuses_element_names_the_simulator_misreads(void)
+{
+	struct sch_deck deck;
+
+	expect_error("t\ni(v1) a 0 dc 1n\n", INLINE_NAME ":2: element name 'i(v1)' holds '(', which the simulator reads as a separator");
+	expect_error("t\nr=1 a 0 1k\n", INLINE_NAME ":2: element name 'r=1' holds '=', which the simulator reads as a separator");
+	expect_error("t\nr{x} a 0 1k\n", INLINE_NAME ":2: element name 'r{x}' holds '{', which the simulator reads as a separator");
+	CHECK(load_text(&deck, "t\nr[1] a 0 1k\nr-2 a 0 1k\nr#3 a 0 1k\n") == SCH_OK);
+	CHECK(deck.n_elements == 3);
+	sch_deck_release(&deck);
+}
+
+static void test_deck__refuses_source_values_out_of_range(void)
+{
+	struct sch_deck deck;
+
+	expect_error("t\niph a 0 dc 1e308\n", INLINE_NAME ":2: source value '1e308' is out of range: at most 1e+06 A or V");
+	expect_error("t\nv1 a 0 2meg\n", INLINE_NAME ":2: source value '2meg' is out of range: at most 1e+06 A or V");
+	expect_error("t\nv1 a 0 dc 0 ac -1e7\n", INLINE_NAME ":2: source value '-1e7' is out of range: at most 1e+06 A or V");
+	CHECK(load_text(&deck, "t\nv1 a 0 dc 1meg ac 1\nr1 a 0 1e18\n") == SCH_OK);
+	sch_deck_release(&deck);
+}
+
+static void test_deck__refuses_unterminated_quotes_and_open_lib_sections(void)
+{
+	expect_error("t\n.lib \"a;b.lib\" typ\n",
+		     INLINE_NAME ":2: unterminated quote in '.lib' file name (';' starts a comment, even inside quotes)");
+	expect_error("t\n.include 'x;y.inc'\n",
+		     INLINE_NAME ":2: unterminated quote in '.include' file name (';' starts a comment, even inside quotes)");
+	expect_error("t\nr1 a 0 1k\n.lib typ\nr2 a 0 1k\n",
+		     INLINE_NAME ":3: library section 'typ' has no '.endl': the rest of the file would be skipped");
+}
+
+static void test_deck__refuses_a_double_backslash_line_end(void)
+{
+	/* ngspice joins such a line to the next card; the reader would see two cards */
+	expect_error("t\nr1 a 0 1k \\\\ \nr2 a 0 1k\n", INLINE_NAME ":2: line ends in '\\\\', which the simulator joins to the next "
+						     "card: continue it with a '+' line");
+}
+
+static void test_deck__allow_list_messages_never_quote_included_text(void)
+{
+	char path[256], text[512], *out = NULL;
+	size_t out_len = 0;
+	struct sch_deck deck;
+	FILE *inc, *sink;
+
+	snprintf(path, sizeof(path), "%s/allow.inc", check_scratch_dir());
+	inc = fopen(path, "w");
+	CHECK(inc != NULL);
+	if (!inc)
+		return;
+	fputs(".foosecret x\n.options secretopt=1 measoutfile=secretfile gmin=1e-13\n.meassecret\n"
+	      ".title secret\ni(secret) a 0 1n\n", inc);
+	fclose(inc);
+	snprintf(text, sizeof(text), "t\n.include %s\n", path);
+	sink = open_memstream(&out, &out_len);
+	CHECK(sink != NULL);
+	if (!sink)
+		return;
+	sch_deck_init(&deck);
+	sch_diag_init(&diag, sink, 1);
+	CHECK(sch_deck_load_text(&deck, INLINE_NAME, text, strlen(text), &diag) == SCH_ERR_INPUT);
+	fclose(sink);
+	CHECK(out && strstr(out, "allow.inc:1: note: a dot card dropped") != NULL);
+	CHECK(out && strstr(out, "allow.inc:2: warning: option dropped: it names a file") != NULL);
+	CHECK(out && strstr(out, "allow.inc:3: warning: '.meas' card dropped") != NULL);
+	CHECK(out && strstr(out, "allow.inc:5: error: element name holds '('") != NULL);
+	CHECK(out && strstr(out, "secret") == NULL);
+	free(out);
+	sch_deck_release(&deck);
+}
+
 CHECK_MAIN(CASE(test_deck__joins_plus_continuation_lines), CASE(test_deck__drops_star_comment_lines),
 	   CASE(test_deck__strips_semicolon_and_dollar_comments),
 	   CASE(test_deck__comment_only_line_does_not_end_a_card), CASE(test_deck__title_is_never_a_card),
@@ -1408,4 +1585,12 @@ CHECK_MAIN(CASE(test_deck__joins_plus_continuation_lines), CASE(test_deck__drops
 	   CASE(test_deck__ends_with_glued_text_closes_the_subckt),
 	   CASE(test_deck__dos_eof_byte_ends_an_included_file_only),
 	   CASE(test_deck__node_counts_follow_the_model_type_and_keywords),
-	   CASE(test_deck__script_title_without_a_circuit_is_bad_input))
+	   CASE(test_deck__script_title_without_a_circuit_is_bad_input),
+	   CASE(test_deck__drops_cards_outside_the_allow_list), CASE(test_deck__filters_options_to_the_allow_list),
+	   CASE(test_deck__drops_measurement_cards_by_prefix), CASE(test_deck__refuses_a_script_title_card),
+	   CASE(test_deck__refuses_cards_the_simulator_reads_as_circuit_cards), CASE(test_deck__checks_temp_cards),
+	   CASE(test_deck__caps_sweep_points), CASE(test_deck__refuses_element_names_the_simulator_misreads),
+	   CASE(test_deck__refuses_source_values_out_of_range),
+	   CASE(test_deck__refuses_unterminated_quotes_and_open_lib_sections),
+	   CASE(test_deck__refuses_a_double_backslash_line_end),
+	   CASE(test_deck__allow_list_messages_never_quote_included_text))
