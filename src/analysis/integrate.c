@@ -217,7 +217,8 @@ enum sch_err sch_analysis_integrate(struct sch_result *res, const struct sch_run
 	if ((ret = take_band(res, opt, &range, d)) != SCH_OK)
 		return ret;
 	sum_rows(res, drop_tiny_corrections(res, band_powers(res)));
-	qsort(res->contributions, res->n_contributions, sizeof(*res->contributions), by_band_power);
+	if (res->n_contributions > 1) /* qsort's array may not be NULL, even for no rows */
+		qsort(res->contributions, res->n_contributions, sizeof(*res->contributions), by_band_power);
 	if ((ret = sch_analysis_verdict(res)) != SCH_OK || (ret = sch_analysis_transfer(res, opt, d)) != SCH_OK ||
 	    (ret = refer_to_input(res, opt, &input_psd)) != SCH_OK)
 		return ret;

@@ -188,7 +188,8 @@ static enum sch_err device_powers(const struct sch_result *res, struct device_po
 		}
 		v[at].power += ct->band_power;
 	}
-	qsort(v, n, sizeof(*v), by_power);
+	if (n > 1)
+		qsort(v, n, sizeof(*v), by_power);
 	*out = v;
 	*n_out = n;
 	v = NULL;
@@ -775,7 +776,8 @@ static enum sch_err run_points(struct lever_ctx *c, const char *path, struct sch
 	}
 	c->out->n_levers = c->n_points;
 	c->out->n_runs = c->n_points;
-	qsort(c->out->levers, c->out->n_levers, sizeof(*c->out->levers), by_ratio);
+	if (c->out->n_levers > 1)
+		qsort(c->out->levers, c->out->n_levers, sizeof(*c->out->levers), by_ratio);
 out:
 	sch_result_release(&res);
 	return ret;

@@ -421,7 +421,7 @@ static struct table_row *table_rows(const struct sch_result *r, bool fold, struc
 	for (size_t i = 0; i < n; i++)
 		if (!rows[i].gone)
 			rows[keep++] = rows[i];
-	if (fold)
+	if (fold && keep > 1)
 		qsort(rows, keep, sizeof(*rows), by_row_power);
 	*n_rows = keep;
 	return rows;
