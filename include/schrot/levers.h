@@ -102,6 +102,9 @@ enum sch_err sch_levers_find(const char *path, const struct sch_run_options *opt
  */
 double sch_levers_gain_opt(double a, double b, double k_ratio, double m_max);
 
+/* M^2 / (a M^2 F(M) + b), F McIntyre's with ratio k: SNR(M) up to a constant. This function can't fail. */
+double sch_levers_snr_shape(double m, double a, double b, double k_ratio);
+
 /* Outputs (src/report/levers.c); r is the unchanged circuit's result that sch_levers_find filled. */
 
 /* The ranked table, the gain optimum and the notes. SCH_ERR_IO when out fails. */

@@ -644,42 +644,6 @@ static int by_ratio(const void *pa, const void *pb)
 	return a->factor < b->factor ? -1 : a->factor > b->factor;
 }
 
-/* SNR(M) / SNR at the largest: M^2 / (a M^2 F(M) + b). */
-static double snr_shape(double m, double a, double b, double k)
-{
-	return m * m / (a * m * m * sch_mcintyre_f(m, k) + b);
-}
-
-double sch_levers_gain_opt(double a, double b, double k, double m_max)
-{
-	enum { N = 2000 };
-	double best = -1, lo, hi;
-	size_t at = 0;
-
-	if (!(a > 0) || !(b >= 0) || !(k > 0) || !(m_max > 1))
-		return NAN;
-	for (size_t i = 0; i <= N; i++) {
-		double m = exp(log(m_max) * (double)i / N);
-		double s = snr_shape(m, a, b, k);
-		if (s > best) {
-			best = s;
-			at = i;
-		}
-	}
-	if (at == N)
-		return NAN;
-	lo = log(m_max) * (double)(at ? at - 1 : 0) / N;
-	hi = log(m_max) * (double)(at + 1) / N;
-	for (int it = 0; it < 100; it++) { /* golden section in log M: the shape has one maximum */
-		double x1 = hi - 0.6180339887498949 * (hi - lo), x2 = lo + 0.6180339887498949 * (hi - lo);
-		if (snr_shape(exp(x1), a, b, k) < snr_shape(exp(x2), a, b, k))
-			lo = x1;
-		else
-			hi = x2;
-	}
-	return exp((lo + hi) / 2);
-}
-
 /*
  * One rule's SNR(M) from the report's rows: its carriers' band power P_a scales as M^2 F(M) with
  * the primary current held (density 2q I M F with I = I_p M), the rest P_r stays, and the signal
@@ -706,11 +670,11 @@ static enum sch_err gain_curve(struct lever_ctx *c, const struct gain_rule *g, s
 	gc->carrier_share = res->total_power_v2 > 0 ? p_a / res->total_power_v2 : NAN;
 	a = p_a / (m0 * m0 * sch_mcintyre_f(m0, k));
 	b = res->total_power_v2 - p_a;
-	s0 = snr_shape(m0, a, b, k);
+	s0 = sch_levers_snr_shape(m0, a, b, k);
 	gc->gain_opt = sch_levers_gain_opt(a, b < 0 ? 0 : b, k, GAIN_MAX);
-	gc->snr_change_opt_db = isnan(gc->gain_opt) ? NAN : 10 * log10(snr_shape(gc->gain_opt, a, b, k) / s0);
+	gc->snr_change_opt_db = isnan(gc->gain_opt) ? NAN : 10 * log10(sch_levers_snr_shape(gc->gain_opt, a, b, k) / s0);
 	gc->snr_at_rule = res->snr;
-	gc->snr_at_opt = isnan(gc->gain_opt) ? NAN : res->snr * snr_shape(gc->gain_opt, a, b, k) / s0;
+	gc->snr_at_opt = isnan(gc->gain_opt) ? NAN : res->snr * sch_levers_snr_shape(gc->gain_opt, a, b, k) / s0;
 	top = 10 * fmax(m0, isnan(gc->gain_opt) ? m0 : gc->gain_opt);
 	top = fmin(fmax(top, 10), GAIN_MAX);
 	gc->n = CURVE_POINTS;
@@ -720,7 +684,7 @@ static enum sch_err gain_curve(struct lever_ctx *c, const struct gain_rule *g, s
 		return SCH_ERR_NOMEM;
 	for (size_t i = 0; i < gc->n; i++) {
 		gc->gain[i] = exp(log(top) * (double)i / (double)(gc->n - 1));
-		gc->snr_change_db[i] = 10 * log10(snr_shape(gc->gain[i], a, b, k) / s0);
+		gc->snr_change_db[i] = 10 * log10(sch_levers_snr_shape(gc->gain[i], a, b, k) / s0);
 	}
 	return SCH_OK;
 }

@@ -102,50 +102,13 @@ static size_t strip_inline(const char *s, size_t n, bool *odd)
 	return i;
 }
 
-/* Offset of the first byte that is not valid UTF-8 in s[0..n), or n. */
-static size_t utf8_bad(const char *str, size_t n)
-{
-	const unsigned char *s = (const unsigned char *)str;
-	size_t i = 0;
-
-	while (i < n) {
-		unsigned c = s[i];
-		size_t k;
-		unsigned cp, min;
-
-		if (c < 0x80) {
-			i++;
-			continue;
-		}
-		if (c >= 0xc2 && c <= 0xdf)
-			k = 1, cp = c & 0x1f, min = 0x80;
-		else if (c >= 0xe0 && c <= 0xef)
-			k = 2, cp = c & 0x0f, min = 0x800;
-		else if (c >= 0xf0 && c <= 0xf4)
-			k = 3, cp = c & 0x07, min = 0x10000;
-		else
-			return i;
-		if (n - i <= k)
-			return i;
-		for (size_t j = 1; j <= k; j++) {
-			if ((s[i + j] & 0xc0) != 0x80)
-				return i;
-			cp = (cp << 6) | (s[i + j] & 0x3f);
-		}
-		if (cp < min || cp > 0x10ffff || (cp >= 0xd800 && cp <= 0xdfff))
-			return i;
-		i += k + 1;
-	}
-	return n;
-}
-
 /*
  * Netlist text is UTF-8 without control bytes: a carriage return inside a line or a terminal
  * escape must never reach the simulator or a message.
  */
 static enum sch_err check_text(struct reader *r, const struct src *src, long line, const char *s, size_t n)
 {
-	size_t bad = utf8_bad(s, n);
+	size_t bad = sch_deck_utf8_bad(s, n);
 
 	for (size_t i = 0; i < bad; i++)
 		if (is_control((unsigned char)s[i]))
@@ -155,108 +118,6 @@ static enum sch_err check_text(struct reader *r, const struct src *src, long lin
 		return SCH_OK;
 	return sch_diag_error(r->ld.d, SCH_ERR_INPUT, src->path, line, "invalid utf-8 (byte 0x%02x)",
 			      (unsigned char)s[bad]);
-}
-
-/*
- * Reads a whole file. *err_no is set on failure (EISDIR for a directory, EFBIG when too large,
- * ENODEV for a device or pipe when regular_only: an include must never block on /dev/stdin).
- */
-static enum sch_err slurp(const char *path, bool regular_only, size_t limit, char **out, size_t *out_len,
-			  int *err_no)
-{
-	enum sch_err ret = SCH_ERR_INPUT;
-	struct stat st;
-	char *data = NULL;
-	size_t len = 0, alloc = 0;
-	/* O_NONBLOCK: opening a FIFO that nobody writes must not hang the reader. */
-	int fd = open(path, O_RDONLY | O_CLOEXEC | (regular_only ? O_NONBLOCK : 0));
-
-	*out = NULL;
-	*out_len = 0;
-	*err_no = 0;
-	if (fd < 0) {
-		*err_no = errno;
-		goto out;
-	}
-	if (fstat(fd, &st) != 0) {
-		*err_no = errno;
-		goto out;
-	}
-	if (S_ISDIR(st.st_mode)) {
-		*err_no = EISDIR;
-		goto out;
-	}
-	if (regular_only && !S_ISREG(st.st_mode)) {
-		*err_no = ENODEV;
-		goto out;
-	}
-	if (S_ISREG(st.st_mode) && (uintmax_t)st.st_size > limit) {
-		*err_no = EFBIG;
-		goto out;
-	}
-	for (;;) {
-		ssize_t got;
-
-		if (len + 1 >= alloc) {
-			size_t want = alloc ? alloc * 2 : (S_ISREG(st.st_mode) && st.st_size > 0 ? (size_t)st.st_size + 2 : 65536);
-			char *p;
-
-			if (alloc > limit) {
-				*err_no = EFBIG;
-				goto out;
-			}
-			p = realloc(data, want);
-			if (!p) {
-				ret = SCH_ERR_NOMEM;
-				goto out;
-			}
-			data = p;
-			alloc = want;
-		}
-		got = read(fd, data + len, alloc - len - 1);
-		if (got < 0 && errno == EINTR)
-			continue;
-		if (got < 0) {
-			*err_no = errno;
-			goto out;
-		}
-		if (got == 0)
-			break;
-		len += (size_t)got;
-	}
-	if (len > limit) {
-		*err_no = EFBIG;
-		goto out;
-	}
-	data[len] = '\0';
-	*out = data;
-	*out_len = len;
-	data = NULL;
-	ret = SCH_OK;
-out:
-	free(data);
-	if (fd >= 0)
-		close(fd);
-	return ret;
-}
-
-static const char *reason(int err_no, char *buf, size_t size)
-{
-	snprintf(buf, size, "%s", err_no == EFBIG ? "file too large" : err_no == ENODEV ? "not a regular file" :
-				  strerror(err_no));
-	if (buf[0] >= 'A' && buf[0] <= 'Z')
-		buf[0] = (char)(buf[0] - 'A' + 'a');
-	return buf;
-}
-
-/* The directory part of path joined with name; name itself when absolute or path has no '/'. */
-static const char *resolve(struct sch_arena *a, const char *including, const char *name, size_t n)
-{
-	const char *slash = strrchr(including, '/');
-
-	if (name[0] == '/' || !slash)
-		return sch_arena_strndup(a, name, n);
-	return sch_arena_printf(a, "%.*s/%.*s", (int)(slash - including), including, (int)n, name);
 }
 
 static enum sch_err note_file(struct reader *r, const char *path, const char *id)
@@ -318,7 +179,7 @@ static enum sch_err read_included(struct reader *r, const char *path, bool lib, 
 	size_t limit = left < DECK_MAX_FILE ? left : DECK_MAX_FILE;
 	int err_no;
 	char why[128];
-	enum sch_err ret = slurp(path, true, limit, text, len, &err_no);
+	enum sch_err ret = sch_deck_slurp(path, true, limit, text, len, &err_no);
 
 	if (ret == SCH_ERR_INPUT && err_no == EFBIG && limit < DECK_MAX_FILE)
 		/* many includes of a large file: the cap is on all text read, not only per file */
@@ -329,7 +190,7 @@ static enum sch_err read_included(struct reader *r, const char *path, bool lib, 
 		return sch_diag_error(r->ld.d, SCH_ERR_INPUT, inc_file, inc_line, err_no == EISDIR ?
 				      "%s file '%s' is a directory%s" : "cannot open %s file '%s': %s",
 				      lib ? "library" : "include", path,
-				      err_no == EISDIR ? "" : reason(err_no, why, sizeof(why)));
+				      err_no == EISDIR ? "" : sch_deck_errno_text(err_no, why, sizeof(why)));
 	if (ret == SCH_OK)
 		r->total_bytes += *len;
 	return ret;
@@ -436,7 +297,7 @@ static enum sch_err include_card(struct reader *r, struct src *src, long line, c
 		return sch_diag_error(r->ld.d, SCH_ERR_INPUT, src->path, line, "'.include' needs a file name");
 	if (open_quote(name))
 		return sch_diag_error(r->ld.d, SCH_ERR_INPUT, src->path, line, OPEN_QUOTE_MSG, ".include");
-	path = resolve(a, src->path, name, n);
+	path = sch_deck_resolve(a, src->path, name, n);
 	if (!path)
 		return SCH_ERR_NOMEM;
 	return open_source(r, path, NULL, src->path, line);
@@ -462,7 +323,7 @@ static enum sch_err lib_card(struct reader *r, struct src *src, long line, const
 		src->def_name = sch_arena_strndup(a, file, n1);
 		return src->def_name ? SCH_OK : SCH_ERR_NOMEM;
 	}
-	path = resolve(a, src->path, file, n1);
+	path = sch_deck_resolve(a, src->path, file, n1);
 	section = sch_arena_strndup(a, sec, n2);
 	if (!path || !section)
 		return SCH_ERR_NOMEM;
@@ -889,14 +750,14 @@ enum sch_err sch_deck_load(struct sch_deck *deck, const char *path, struct sch_d
 		sch_deck_release(deck);
 		return sch_diag_error(d, SCH_ERR_INPUT, NULL, 0, "no netlist given");
 	}
-	ret = slurp(path, false, DECK_MAX_FILE, &text, &len, &err_no);
+	ret = sch_deck_slurp(path, false, DECK_MAX_FILE, &text, &len, &err_no);
 	if (ret == SCH_ERR_INPUT) {
 		sch_deck_release(deck);
 		if (err_no == EISDIR)
 			ret = sch_diag_error(d, SCH_ERR_INPUT, NULL, 0, "netlist '%s' is a directory", path);
 		else
 			ret = sch_diag_error(d, SCH_ERR_INPUT, NULL, 0, "cannot open netlist '%s': %s", path,
-					     reason(err_no, why, sizeof(why)));
+					     sch_deck_errno_text(err_no, why, sizeof(why)));
 	} else if (ret == SCH_OK) {
 		ret = sch_deck_load_text(deck, path, text, len, d);
 	} else {

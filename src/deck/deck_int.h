@@ -232,4 +232,22 @@ enum sch_err sch_deck_load_finish(struct sch_deck_load *ld);
 /* Frees the load state's own storage (not the deck). */
 void sch_deck_load_release(struct sch_deck_load *ld);
 
+/*
+ * Reads a whole file into *out (malloc'd, NUL-terminated; the caller frees it) and its length.
+ * On failure *out is NULL and *err_no is set (EISDIR for a directory, EFBIG over limit, ENODEV for
+ * a device or pipe when regular_only: an include must never block on /dev/stdin); SCH_ERR_INPUT,
+ * or SCH_ERR_NOMEM.
+ */
+enum sch_err sch_deck_slurp(const char *path, bool regular_only, size_t limit, char **out, size_t *out_len,
+			    int *err_no);
+
+/* A lower-case description of err_no in buf (the errors sch_deck_slurp sets included); returns buf. */
+const char *sch_deck_errno_text(int err_no, char *buf, size_t size);
+
+/* The directory part of including joined with name[0..n) in a; name itself when absolute. NULL on NOMEM. */
+const char *sch_deck_resolve(struct sch_arena *a, const char *including, const char *name, size_t n);
+
+/* Offset of the first byte that is not valid UTF-8 in s[0..n), or n. */
+size_t sch_deck_utf8_bad(const char *s, size_t n);
+
 #endif
