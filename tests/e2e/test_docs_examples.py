@@ -19,6 +19,9 @@ only when stderr is a terminal, are not drawn). Conventions:
   - Masked as volatile: the scratch directory's absolute path (shown as the relative path).
     Nothing else (no numbers, no version) is masked: the docs say which ngspice made them.
 Also checked:
+  - Every netlist in netlists/examples/ (the small invented netlists of the guide's examples) is run
+    by an example, and one the guide shows in full (a fence opening with its title line) is
+    shown exactly.
   - The help blocks ("$ schrot --help", "$ schrot CMD --help") are examples like the rest, without
     "..."; the guide must show `schrot --help`.
   - Every command of the man page's EXAMPLES section runs (exit 0, or 1 for a broken budget).
@@ -153,6 +156,20 @@ def check_help_blocks():
         true("guide's `%s` has no elided lines" % cmd, not any(w.strip() == "..." for w in want))
 
 
+def check_example_netlists():
+    """Each netlists/examples/ file is run by an example, and one the guide shows in full is shown as it is."""
+    guide = read("docs/guide.md")
+    shown = {lines[0]: lines for _, lines in fences(guide) if lines}
+    d = os.path.join(ROOT, "netlists", "examples")
+    for name in sorted(os.listdir(d)):
+        rel = "netlists/examples/" + name
+        true("%s is run by an example" % rel, any(rel in cmd for doc in DOCS for _, steps in examples(read(doc))
+                                                   for cmd, _ in steps))
+        lines = read(rel).rstrip("\n").split("\n")
+        if lines[0] in shown:
+            true("%s as the guide shows it" % rel, shown[lines[0]] == lines)
+
+
 def man_examples():
     text = read("docs/schrot.1")
     sect = text.split(".SH EXAMPLES", 1)[1].split("\n.SH ", 1)[0]
@@ -229,6 +246,7 @@ def check_install_line():
 total = sum(check_doc(rel) for rel in DOCS)
 true("examples found (%d)" % total, total > 40)
 check_help_blocks()
+check_example_netlists()
 man_examples()
 check_json_keys()
 check_install_line()
