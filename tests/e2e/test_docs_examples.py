@@ -24,6 +24,7 @@ Also checked:
     shown exactly.
   - The help blocks ("$ schrot --help", "$ schrot CMD --help") are examples like the rest, without
     "..."; the guide must show `schrot --help`.
+  - Every option that `schrot --help` and `schrot CMD --help` list is in the man page and the guide.
   - Every command of the man page's EXAMPLES section runs (exit 0, or 1 for a broken budget).
   - Every JSON key written by report, carriers, sweep, arrivals and levers with --json on the demo
     netlists (collected recursively) is named in the guide as `key`, `key[]` or "key".
@@ -156,6 +157,21 @@ def check_help_blocks():
         true("guide's `%s` has no elided lines" % cmd, not any(w.strip() == "..." for w in want))
 
 
+def check_options_documented():
+    """Every option that `schrot --help` or `schrot CMD --help` lists is in the man page and the guide."""
+    opts = set()
+    for cmd in ["", "report", "carriers", "augment", "sweep", "arrivals", "levers", "merge"]:
+        p = subprocess.run([SCHROT] + cmd.split() + ["--help"], capture_output=True, text=True, timeout=60)
+        true("schrot %s --help exits 0" % cmd, p.returncode == 0, p.stderr)
+        opts |= set(re.findall(r"(?<![\w-])--[a-z][a-z-]*", p.stdout))
+    man, guide = read("docs/schrot.1"), read("docs/guide.md")
+    true("options listed by --help (%d)" % len(opts), len(opts) > 20)
+    true("every --help option is in schrot.1", all(o.replace("-", "\\-") in man for o in opts),
+         str(sorted(o for o in opts if o.replace("-", "\\-") not in man)))
+    true("every --help option is in the guide as `--opt...`", all("`" + o in guide for o in opts),
+         str(sorted(o for o in opts if "`" + o not in guide)))
+
+
 def check_example_netlists():
     """Each netlists/examples/ file is run by an example, and one the guide shows in full is shown as it is."""
     guide = read("docs/guide.md")
@@ -246,6 +262,7 @@ def check_install_line():
 total = sum(check_doc(rel) for rel in DOCS)
 true("examples found (%d)" % total, total > 40)
 check_help_blocks()
+check_options_documented()
 check_example_netlists()
 man_examples()
 check_json_keys()
