@@ -119,6 +119,24 @@ void sch_sim_result_release(struct sch_sim_result *res);
 /* The vector called name in an outcome, or NULL. */
 const struct sch_sim_vector *sch_sim_find_vector(const struct sch_sim_outcome *o, const char *name);
 
+/*
+ * What each worker process may use, set with setrlimit in the worker: CPU seconds (RLIMIT_CPU),
+ * memory in MiB (RLIMIT_DATA) and the size of the data file it writes (RLIMIT_FSIZE, the same
+ * MiB figure). A worker that hits one fails its run with that cause (exit 3).
+ */
+#define SCH_SIM_DEFAULT_CPU_S 3600.0
+#define SCH_SIM_DEFAULT_MEM_MIB 8192.0
+struct sch_sim_budget {
+	double cpu_s;
+	double mem_mib;
+};
+
+/* Sets the budget of every worker started from now on in this process. Values <= 0 keep the current one. */
+void sch_sim_set_budget(const struct sch_sim_budget *b);
+
+/* The budget workers get now (the defaults unless sch_sim_set_budget changed it). */
+struct sch_sim_budget sch_sim_get_budget(void);
+
 /* True when name consists only of [a-z0-9_.#+-] characters and is 1..200 bytes long. */
 bool sch_sim_name_is_safe(const char *name);
 

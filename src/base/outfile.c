@@ -7,6 +7,7 @@
 #include <string.h>
 #include <sys/stat.h>
 #include <unistd.h>
+#include "schrot/leftover.h"
 #include "schrot/outfile.h"
 
 /* Renames deferred by a batch: (temporary file, target), in commit order. Nested batches join the outermost. */
@@ -65,6 +66,7 @@ enum sch_err sch_outfile_batch_end(bool ok, struct sch_diag *d)
 			ret = sch_diag_error(d, SCH_ERR_IO, f->path, 0, "cannot replace output file: %s", strerror(errno));
 		if (!ok || ret != SCH_OK)
 			remove(f->tmp_path);
+		sch_leftover_drop_path(f->tmp_path);
 		free(f->tmp_path);
 		free(f->path);
 	}
@@ -77,8 +79,10 @@ enum sch_err sch_outfile_batch_end(bool ok, struct sch_diag *d)
 	return ret;
 }
 
+/* Every path to a temporary file ends here or in batch_end: the signal registry forgets it too. */
 static void outfile_clear(struct sch_outfile *o)
 {
+	sch_leftover_drop_path(o->tmp_path);
 	free(o->path);
 	free(o->tmp_path);
 	o->fp = NULL;
@@ -175,6 +179,7 @@ enum sch_err sch_outfile_open(struct sch_outfile *o, const char *path, struct sc
 		o->tmp_path = NULL;
 		goto out;
 	}
+	sch_leftover_add_path(o->tmp_path, false);
 	(void)fchmod(fd, target_mode(path));
 	o->fp = fdopen(fd, "w");
 	if (!o->fp) {

@@ -14,11 +14,17 @@
 #include <stdio.h>
 #include <stdlib.h>
 #include <string.h>
+#include <sys/mman.h>
+#include <sys/resource.h>
 #include <sys/stat.h>
 #include <sys/types.h>
 #include <sys/wait.h>
 #include <unistd.h>
+#ifdef __linux__
+#include <sys/prctl.h>
+#endif
 
+#include "schrot/leftover.h"
 #include "sim_int.h"
 
 #define SCH_SIM_TITLE "* schrot deck"
@@ -53,6 +59,94 @@ bool sch_sim_data_file_path(size_t step, char *out, size_t size)
 	int n = snprintf(out, size, "%s/s%zu.raw", sch_data_dir, step);
 
 	return sch_data_dir[0] && n > 0 && (size_t)n < size && sch_sim_path_is_command_safe(out);
+}
+
+/* ---- the workers' budget --------------------------------------------------------------- */
+
+static struct sch_sim_budget sch_budget = { SCH_SIM_DEFAULT_CPU_S, SCH_SIM_DEFAULT_MEM_MIB };
+
+void sch_sim_set_budget(const struct sch_sim_budget *b)
+{
+	if (b && b->cpu_s > 0)
+		sch_budget.cpu_s = b->cpu_s;
+	if (b && b->mem_mib > 0)
+		sch_budget.mem_mib = b->mem_mib;
+}
+
+struct sch_sim_budget sch_sim_get_budget(void)
+{
+	return sch_budget;
+}
+
+static void set_limit(int resource, double soft, double hard)
+{
+	struct rlimit rl;
+
+	if (getrlimit(resource, &rl) != 0)
+		return;
+	/* never above what we were given: an unprivileged process cannot raise its hard limit */
+	if (rl.rlim_max == RLIM_INFINITY || (double)rl.rlim_max > hard)
+		rl.rlim_max = (rlim_t)hard;
+	rl.rlim_cur = (double)rl.rlim_max < soft ? rl.rlim_max : (rlim_t)soft;
+	setrlimit(resource, &rl);
+}
+
+/*
+ * A library that does not check an allocation crashes on the NULL it got. errno still says
+ * ENOMEM then (nothing since has failed), or the budget has no room left, so the crash is told
+ * as what it is: out of memory.
+ * Anything else stays the crash it was.
+ */
+static void worker_on_crash(int sig)
+{
+	void *probe;
+
+	if (errno == ENOMEM)
+		_exit(SCH_WORKER_EXIT_NOMEM);
+	/* or the budget is nearly spent: a quarter MiB more is not to be had */
+	probe = mmap(NULL, 1 << 18, PROT_READ | PROT_WRITE, MAP_PRIVATE | MAP_ANONYMOUS, -1, 0);
+	if (probe == MAP_FAILED)
+		_exit(SCH_WORKER_EXIT_NOMEM);
+	signal(sig, SIG_DFL);
+	raise(sig);
+}
+
+void sch_sim_catch_crashes(void)
+{
+	static char alt_stack[64 * 1024]; /* a stack overflow leaves no room on the ordinary one */
+	stack_t ss = { .ss_sp = alt_stack, .ss_size = sizeof(alt_stack) };
+	struct sigaction sa;
+
+	memset(&sa, 0, sizeof(sa));
+	sa.sa_handler = worker_on_crash;
+	sa.sa_flags = SA_ONSTACK | SA_RESETHAND;
+	if (sigaltstack(&ss, NULL) != 0)
+		return;
+	sigaction(SIGSEGV, &sa, NULL);
+	sigaction(SIGBUS, &sa, NULL);
+}
+
+/*
+ * In the child: the budget, no core file (a crash must not drop 10 MB into the user's working
+ * directory), and death with the tool. The CPU soft limit sends SIGXCPU; the hard one, a little
+ * later, SIGKILL, should the library catch the first.
+ */
+static void worker_process_setup(pid_t parent)
+{
+	double mem = sch_budget.mem_mib * 1048576.0;
+
+#ifdef __linux__
+	prctl(PR_SET_PDEATHSIG, SIGKILL);
+#endif
+	if (getppid() != parent)
+		_exit(3); /* the tool died before the line above took effect */
+	sch_leftover_forget_in_child();
+	signal(SIGPIPE, SIG_DFL);
+	set_limit(RLIMIT_CORE, 0, 0);
+	set_limit(RLIMIT_CPU, sch_budget.cpu_s, sch_budget.cpu_s + 5);
+	set_limit(RLIMIT_DATA, mem, mem);
+	set_limit(RLIMIT_FSIZE, mem, mem);
+	sch_sim_catch_crashes();
 }
 
 /* ---- request checks and the deck ------------------------------------------------------- */
@@ -198,6 +292,8 @@ static void release_workers(struct sch_worker *wks, size_t n_wk)
 
 		if (wk->fd >= 0)
 			close(wk->fd);
+		if (wk->err_fd >= 0)
+			close(wk->err_fd);
 		if (wk->pid > 0) {
 			int st;
 
@@ -205,6 +301,7 @@ static void release_workers(struct sch_worker *wks, size_t n_wk)
 				kill(wk->pid, SIGKILL);
 			while (waitpid(wk->pid, &st, 0) < 0 && errno == EINTR)
 				;
+			sch_leftover_drop_pid(wk->pid);
 		}
 		for (size_t i = 0; i < wk->n_msgs; i++)
 			free(wk->msgs[i].text);
@@ -217,19 +314,28 @@ static void release_workers(struct sch_worker *wks, size_t n_wk)
 static enum sch_err start_workers(const struct sch_sim_request *req, char **const *decks, struct sch_worker *wks,
 				  size_t n_wk, char *why, size_t why_len)
 {
+	pid_t parent = getpid();
+
 	for (size_t w = 0; w < n_wk; w++) {
 		wks[w].fd = -1;
+		wks[w].err_fd = -1;
 		wks[w].status = -1;
 		wks[w].first = req->n_steps * w / n_wk;
 		wks[w].end = req->n_steps * (w + 1) / n_wk;
 	}
 	fflush(NULL); /* a child must not write out the parent's buffered output again */
 	for (size_t w = 0; w < n_wk; w++) {
-		int fds[2];
+		int fds[2], errs[2];
 		pid_t pid;
 
 		if (pipe(fds) != 0) {
 			snprintf(why, why_len, "cannot start the simulator: %s", strerror(errno));
+			return SCH_ERR_SIM;
+		}
+		if (pipe(errs) != 0) {
+			snprintf(why, why_len, "cannot start the simulator: %s", strerror(errno));
+			close(fds[0]);
+			close(fds[1]);
 			return SCH_ERR_SIM;
 		}
 		pid = fork();
@@ -237,17 +343,30 @@ static enum sch_err start_workers(const struct sch_sim_request *req, char **cons
 			snprintf(why, why_len, "cannot start the simulator: %s", strerror(errno));
 			close(fds[0]);
 			close(fds[1]);
+			close(errs[0]);
+			close(errs[1]);
 			return SCH_ERR_SIM;
 		}
 		if (pid == 0) {
 			close(fds[0]);
-			for (size_t k = 0; k < w; k++)
+			close(errs[0]);
+			for (size_t k = 0; k < w; k++) {
 				if (wks[k].fd >= 0)
 					close(wks[k].fd);
-			signal(SIGPIPE, SIG_DFL);
+				if (wks[k].err_fd >= 0)
+					close(wks[k].err_fd);
+			}
+			worker_process_setup(parent);
+			/* the library's own prints to stderr (an assertion) come to the tool, not the terminal */
+			if (dup2(errs[1], STDERR_FILENO) < 0)
+				_exit(3);
+			close(errs[1]);
 			sch_sim_worker_main(req, decks[w], wks[w].first, wks[w].end, fds[1]);
 		}
+		sch_leftover_add_pid(pid);
 		close(fds[1]);
+		close(errs[1]);
+		wks[w].err_fd = errs[0];
 #ifdef F_SETPIPE_SZ
 		fcntl(fds[0], F_SETPIPE_SZ, 1 << 20); /* fewer wake-ups for big vector sets; a hint only */
 #endif
@@ -270,6 +389,7 @@ static enum sch_err make_data_dir(struct sch_diag *d)
 		return sch_diag_error(d, SCH_ERR_SIM, NULL, 0, "simulator: cannot create a private directory in '%s': %s",
 				      tmp, strerror(errno));
 	}
+	sch_leftover_add_path(sch_data_dir, true);
 	return SCH_OK;
 }
 
@@ -284,6 +404,7 @@ static void remove_data_dir(size_t n_steps)
 		if (sch_sim_data_file_path(s, path, sizeof(path)))
 			unlink(path);
 	rmdir(sch_data_dir);
+	sch_leftover_drop_path(sch_data_dir);
 	sch_data_dir[0] = '\0';
 }
 
@@ -296,28 +417,68 @@ static void reap_workers(struct sch_worker *wks, size_t n_wk)
 		while ((r = waitpid(wks[w].pid, &st, 0)) < 0 && errno == EINTR)
 			;
 		wks[w].status = r == wks[w].pid ? st : 0;
+		sch_leftover_drop_pid(wks[w].pid);
 		wks[w].pid = 0;
 	}
 }
 
-/* Reads all workers' pipes until every one is closed, so that no worker blocks on a full pipe. */
+/*
+ * Keeps the first line a worker writes to stderr (an assertion, an allocation failure), blanks
+ * folded, at most sizeof(err_text) - 1 bytes; the rest is read and dropped, so the worker never
+ * blocks on a full pipe. Sets *eof at end of stream.
+ */
+static void read_worker_stderr(struct sch_worker *wk, bool *eof)
+{
+	char chunk[4096];
+	ssize_t n = read(wk->err_fd, chunk, sizeof(chunk));
+
+	if (n < 0 && errno == EINTR)
+		return;
+	if (n <= 0) {
+		*eof = true;
+		return;
+	}
+	for (ssize_t i = 0; i < n && !wk->err_line_done; i++) {
+		unsigned char ch = (unsigned char)chunk[i];
+
+		if (ch == '\n' && wk->err_len > 0) {
+			wk->err_line_done = true;
+			break;
+		}
+		if (ch < 0x20 || ch == 0x7f)
+			ch = ' ';
+		if (ch == ' ' && (wk->err_len == 0 || wk->err_text[wk->err_len - 1] == ' '))
+			continue;
+		if (wk->err_len + 1 < sizeof(wk->err_text))
+			wk->err_text[wk->err_len++] = (char)ch;
+	}
+	while (wk->err_len > 0 && wk->err_text[wk->err_len - 1] == ' ')
+		wk->err_len--;
+	wk->err_text[wk->err_len] = '\0';
+}
+
+/* Reads all workers' pipes (records and stderr) until every one is closed, so that no worker blocks on a full pipe. */
 static enum sch_err drain_workers(struct sch_worker *wks, size_t n, struct sch_collect *c)
 {
-	struct pollfd pfd[SCH_SIM_MAX_WORKERS];
-	size_t open_count = n;
+	struct pollfd pfd[2 * SCH_SIM_MAX_WORKERS];
+	size_t owner[2 * SCH_SIM_MAX_WORKERS];
 
-	while (open_count > 0) {
+	for (;;) {
 		size_t m = 0;
 		int r;
 
 		for (size_t i = 0; i < n; i++) {
-			if (wks[i].fd < 0)
-				continue;
-			pfd[m].fd = wks[i].fd;
-			pfd[m].events = POLLIN;
-			pfd[m].revents = 0;
-			m++;
+			int fds[2] = { wks[i].fd, wks[i].err_fd };
+
+			for (size_t k = 0; k < 2; k++) {
+				if (fds[k] < 0)
+					continue;
+				pfd[m] = (struct pollfd){ .fd = fds[k], .events = POLLIN };
+				owner[m++] = i;
+			}
 		}
+		if (m == 0)
+			return SCH_OK;
 		r = poll(pfd, (nfds_t)m, -1);
 		if (r < 0) {
 			if (errno == EINTR)
@@ -325,26 +486,31 @@ static enum sch_err drain_workers(struct sch_worker *wks, size_t n, struct sch_c
 			return SCH_ERR_SIM;
 		}
 		for (size_t j = 0; j < m; j++) {
-			struct sch_worker *wk = NULL;
+			struct sch_worker *wk = &wks[owner[j]];
 			bool eof = false;
 			enum sch_err err;
 
 			if (!pfd[j].revents)
 				continue;
-			for (size_t i = 0; i < n; i++)
-				if (wks[i].fd == pfd[j].fd)
-					wk = &wks[i];
+			if (pfd[j].fd == wk->err_fd) {
+				read_worker_stderr(wk, &eof);
+				if (eof) {
+					close(wk->err_fd);
+					wk->err_fd = -1;
+				}
+				continue;
+			}
 			err = sch_sim_collect_read(wk, c, &eof);
 			if (err != SCH_OK)
 				return err;
+			if (wk->malformed && wk->pid > 0)
+				kill(wk->pid, SIGKILL); /* its stderr then closes too */
 			if (eof || wk->malformed) {
 				close(wk->fd);
 				wk->fd = -1;
-				open_count--;
 			}
 		}
 	}
-	return SCH_OK;
 }
 
 enum sch_err sch_sim_run(const struct sch_sim_request *req, struct sch_sim_result *res, struct sch_diag *d)
@@ -359,6 +525,8 @@ enum sch_err sch_sim_run(const struct sch_sim_request *req, struct sch_sim_resul
 
 	memset(res, 0, sizeof(*res));
 	memset(wks, 0, sizeof(wks));
+	for (size_t w = 0; w < SCH_SIM_MAX_WORKERS; w++)
+		wks[w].fd = wks[w].err_fd = -1;
 	ret = check_commands(req, d);
 	if (ret != SCH_OK)
 		goto out;

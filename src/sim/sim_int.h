@@ -15,6 +15,8 @@
 #include "wire.h"
 
 #define SCH_SIM_MAX_COMMAND 1000
+/* A worker's exit status when an allocation failed (its own, or the library's followed by a crash). */
+#define SCH_WORKER_EXIT_NOMEM 4
 
 /* ---- worker side (runs in the child) ---------------------------------------------------- */
 
@@ -60,6 +62,12 @@ void sch_worker_noise_clear(struct sch_worker_ctx *w);
 void sch_worker_send_noise_names(struct sch_worker_ctx *w);
 /* Reads the density plot of the data file at path and sends it; a bad file flags the step (worker_file.c). */
 void sch_worker_send_data_file(struct sch_worker_ctx *w, const char *path);
+/*
+ * In the worker: a SIGSEGV or SIGBUS after a failed allocation exits with SCH_WORKER_EXIT_NOMEM;
+ * other crashes stay crashes. Called again after the library's start-up, which installs handlers
+ * of its own.
+ */
+void sch_sim_catch_crashes(void);
 /* The whole life of a worker process on steps [first, end), writing records to fd. Never returns. */
 void sch_sim_worker_main(const struct sch_sim_request *req, char **deck, size_t first, size_t end, int fd);
 
@@ -84,6 +92,10 @@ struct sch_worker {
 	uint32_t gave_up_step;      /* SCH_STEP_NONE: during set-up or load */
 	enum sch_phase gave_up_phase;
 	int status;                 /* from waitpid; -1 when unknown */
+	int err_fd;                 /* the read end of the worker's stderr, -1 once closed */
+	char err_text[512];         /* the first line the worker wrote to stderr, blanks folded */
+	size_t err_len;
+	bool err_line_done;         /* err_text holds a whole line: the rest is read and dropped */
 };
 
 /*

@@ -613,6 +613,7 @@ void sch_sim_worker_main(const struct sch_sim_request *req, char **deck, size_t 
 		_exit(4);
 	if (!worker_init_library(&w))
 		goto done;
+	sch_sim_catch_crashes();
 	worker_load_codemodel();
 	for (size_t k = 0; k < req->n_code_models; k++)
 		if (req->code_models[k])
