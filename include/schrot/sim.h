@@ -28,6 +28,12 @@ struct sch_sim_outcome;
 struct sch_sim_request {
 	const char *const *lines;      /* the deck: lines[0] is the title, the last line is ".end" */
 	size_t n_lines;
+	/*
+	 * n_lines flags, true for a line holding text of an included or library file; NULL: none.
+	 * Words only such lines hold are replaced by "…" in every simulator text the session passes
+	 * on (failure reasons, notes, messages), so included text never reaches a message.
+	 */
+	const bool *private_lines;
 	const struct sch_sim_step *steps;
 	size_t n_steps;
 	const char *const *quantities; /* read after each step, e.g. "@i.x1.iph[current]", "@d.x1.d1[vd]" */

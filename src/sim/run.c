@@ -283,6 +283,45 @@ static void report_notes(struct sch_worker *wks, size_t n_wk, struct sch_diag *d
 	}
 }
 
+/* Replaces *text by its redacted copy when it quotes included text. */
+static enum sch_err redact_one(const struct sch_redact *r, char **text)
+{
+	bool changed = false;
+	char *clean = *text ? sch_redact_text(r, *text, &changed) : NULL;
+
+	if (changed && !clean)
+		return SCH_ERR_NOMEM;
+	if (clean) {
+		free(*text);
+		*text = clean;
+	}
+	return SCH_OK;
+}
+
+/* Replaces, in place, every worker text that quotes included text (redact.c). */
+static enum sch_err redact_workers(const struct sch_sim_request *req, struct sch_worker *wks, size_t n_wk)
+{
+	struct sch_redact r;
+	enum sch_err ret = sch_redact_init(&r, req);
+
+	for (size_t w = 0; w < n_wk && ret == SCH_OK && r.active; w++) {
+		struct sch_worker *wk = &wks[w];
+		char *err_text = strdup(wk->err_text);
+
+		ret = err_text ? redact_one(&r, &err_text) : SCH_ERR_NOMEM;
+		if (ret == SCH_OK)
+			snprintf(wk->err_text, sizeof(wk->err_text), "%s", err_text);
+		free(err_text);
+		if (ret == SCH_OK)
+			ret = redact_one(&r, &wk->fatal);
+		for (size_t i = 0; i < wk->n_msgs && ret == SCH_OK; i++)
+			if (wk->msgs[i].phase != SCH_PHASE_INIT)
+				ret = redact_one(&r, &wk->msgs[i].text);
+	}
+	sch_redact_release(&r);
+	return ret;
+}
+
 /* ---- the workers' lives ---------------------------------------------------------------- */
 
 static void release_workers(struct sch_worker *wks, size_t n_wk)
@@ -574,6 +613,9 @@ enum sch_err sch_sim_run(const struct sch_sim_request *req, struct sch_sim_resul
 	}
 	reap_workers(wks, n_wk);
 	res->version = version_from(&wks[0]);
+	ret = redact_workers(req, wks, n_wk);
+	if (ret != SCH_OK)
+		goto out;
 	ret = sch_sim_judge(res, wks, n_wk, &c, &failed);
 	if (ret != SCH_OK)
 		goto out;

@@ -12,6 +12,7 @@
 #include <sys/types.h>
 
 #include "schrot/sim.h"
+#include "schrot/strmap.h"
 #include "wire.h"
 
 #define SCH_SIM_MAX_COMMAND 1000
@@ -139,6 +140,24 @@ char *sch_sim_judge_text(const struct sch_worker *wk, enum sch_phase phase, uint
 /* Sets every step's failure and res->failure; *failed says whether anything failed. */
 enum sch_err sch_sim_judge(struct sch_sim_result *res, struct sch_worker *wks, size_t n_wk,
 			   struct sch_collect *c, bool *failed);
+
+/* ---- keeping included text out of messages (redact.c) ---------------------------------- */
+
+struct sch_redact {
+	bool active;               /* the request marks private lines: texts are checked */
+	struct sch_strmap words;   /* lower-cased deck word -> 1 only in private lines, 2 elsewhere too */
+	char *text;                /* the keys' storage */
+};
+
+/* Learns the words of req's deck. SCH_ERR_NOMEM leaves r for sch_redact_release. */
+enum sch_err sch_redact_init(struct sch_redact *r, const struct sch_sim_request *req);
+/*
+ * A copy of text with every word only private lines hold replaced by "…" (numbers and the words
+ * "error", "warning", "on", "line" are kept), or NULL when nothing is replaced (*changed false)
+ * or memory ran out (*changed true). The caller owns the copy.
+ */
+char *sch_redact_text(const struct sch_redact *r, const char *text, bool *changed);
+void sch_redact_release(struct sch_redact *r);
 
 /* ---- shared by both sides (run.c) ------------------------------------------------------- */
 
