@@ -2,6 +2,7 @@
 /* outfile.c - atomic output files: a mkstemp file beside the target, renamed over it on commit. */
 #include <errno.h>
 #include <fcntl.h>
+#include <signal.h>
 #include <stdbool.h>
 #include <stdlib.h>
 #include <string.h>
@@ -53,12 +54,19 @@ void sch_outfile_batch_begin(void)
 enum sch_err sch_outfile_batch_end(bool ok, struct sch_diag *d)
 {
 	enum sch_err ret = SCH_OK;
+	sigset_t fatal, old;
 
 	if (!ok)
 		batch.failed = true;
 	if (batch.depth > 0 && --batch.depth > 0)
 		return SCH_OK;
 	ok = !batch.failed;
+	/* a signal waits until every file of the batch is in place (or removed): never half of them */
+	sigemptyset(&fatal);
+	sigaddset(&fatal, SIGINT);
+	sigaddset(&fatal, SIGTERM);
+	sigaddset(&fatal, SIGHUP);
+	sigprocmask(SIG_BLOCK, &fatal, &old);
 	for (size_t i = 0; i < batch.n; i++) {
 		struct deferred *f = &batch.v[i];
 
@@ -70,6 +78,7 @@ enum sch_err sch_outfile_batch_end(bool ok, struct sch_diag *d)
 		free(f->tmp_path);
 		free(f->path);
 	}
+	sigprocmask(SIG_SETMASK, &old, NULL);
 	free(batch.v);
 	batch.v = NULL;
 	batch.n = batch.cap = 0;

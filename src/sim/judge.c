@@ -185,6 +185,12 @@ static char *death_reason(const struct sch_worker *wk)
 
 	if (WIFEXITED(wk->status) && WEXITSTATUS(wk->status) == SCH_WORKER_EXIT_NOMEM)
 		return out_of_memory();
+	if (wk->stalled) {
+		snprintf(line, sizeof(line),
+			 "the simulator hung (no CPU time used for %.0f s, as when an allocation fails inside it; "
+			 "worker budget %.0f MiB, raise it with --worker-limit)", SCH_SIM_STALL_S, b.mem_mib);
+		return strdup(line);
+	}
 	if (!WIFSIGNALED(wk->status))
 		return NULL;
 	switch (WTERMSIG(wk->status)) {

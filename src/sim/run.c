@@ -14,6 +14,7 @@
 #include <stdio.h>
 #include <stdlib.h>
 #include <string.h>
+#include <time.h>
 #include <sys/mman.h>
 #include <sys/resource.h>
 #include <sys/stat.h>
@@ -496,15 +497,83 @@ static void read_worker_stderr(struct sch_worker *wk, bool *eof)
 	wk->err_text[wk->err_len] = '\0';
 }
 
+static double now_s(void)
+{
+	struct timespec ts;
+
+	clock_gettime(CLOCK_MONOTONIC, &ts);
+	return (double)ts.tv_sec + 1e-9 * (double)ts.tv_nsec;
+}
+
+/* utime + stime of a process from /proc (fields 14 and 15 of stat), or -1. */
+static long long cpu_ticks_of(pid_t pid)
+{
+	char path[64], buf[1024];
+	unsigned long long ut, st;
+	const char *p;
+	ssize_t n;
+	int fd;
+
+	snprintf(path, sizeof(path), "/proc/%ld/stat", (long)pid);
+	fd = open(path, O_RDONLY | O_CLOEXEC);
+	if (fd < 0)
+		return -1;
+	n = read(fd, buf, sizeof(buf) - 1);
+	close(fd);
+	if (n <= 0)
+		return -1;
+	buf[n] = '\0';
+	p = strrchr(buf, ')'); /* the command name may hold blanks */
+	if (!p || sscanf(p + 1, " %*c %*d %*d %*d %*d %*d %*u %*u %*u %*u %*u %llu %llu", &ut, &st) != 2)
+		return -1;
+	return (long long)(ut + st);
+}
+
+/* Kills workers that have used no CPU time and sent nothing for SCH_SIM_STALL_S (see sim_int.h). */
+static void kill_stalled(struct sch_worker *wks, size_t n, bool *heard)
+{
+	double t = now_s();
+
+	for (size_t i = 0; i < n; i++) {
+		struct sch_worker *wk = &wks[i];
+		long long ticks;
+
+		if (wk->pid <= 0 || wk->stalled || (wk->fd < 0 && wk->err_fd < 0))
+			continue;
+		ticks = cpu_ticks_of(wk->pid);
+		if (heard[i] || ticks < 0 || ticks != wk->cpu_ticks) {
+			wk->cpu_ticks = ticks;
+			wk->cpu_seen_s = t;
+			continue;
+		}
+		if (t - wk->cpu_seen_s >= SCH_SIM_STALL_S) {
+			wk->stalled = true;
+			kill(wk->pid, SIGKILL);
+		}
+	}
+}
+
 /* Reads all workers' pipes (records and stderr) until every one is closed, so that no worker blocks on a full pipe. */
 static enum sch_err drain_workers(struct sch_worker *wks, size_t n, struct sch_collect *c)
 {
 	struct pollfd pfd[2 * SCH_SIM_MAX_WORKERS];
 	size_t owner[2 * SCH_SIM_MAX_WORKERS];
+	bool heard[SCH_SIM_MAX_WORKERS] = { false };
+	double last_check = now_s();
 
+	for (size_t i = 0; i < n; i++) {
+		wks[i].cpu_ticks = -1;
+		wks[i].cpu_seen_s = last_check;
+	}
 	for (;;) {
 		size_t m = 0;
 		int r;
+
+		if (now_s() - last_check >= 1.0) {
+			kill_stalled(wks, n, heard);
+			memset(heard, 0, sizeof(heard));
+			last_check = now_s();
+		}
 
 		for (size_t i = 0; i < n; i++) {
 			int fds[2] = { wks[i].fd, wks[i].err_fd };
@@ -518,7 +587,7 @@ static enum sch_err drain_workers(struct sch_worker *wks, size_t n, struct sch_c
 		}
 		if (m == 0)
 			return SCH_OK;
-		r = poll(pfd, (nfds_t)m, -1);
+		r = poll(pfd, (nfds_t)m, 1000);
 		if (r < 0) {
 			if (errno == EINTR)
 				continue;
@@ -531,6 +600,7 @@ static enum sch_err drain_workers(struct sch_worker *wks, size_t n, struct sch_c
 
 			if (!pfd[j].revents)
 				continue;
+			heard[owner[j]] = true;
 			if (pfd[j].fd == wk->err_fd) {
 				read_worker_stderr(wk, &eof);
 				if (eof) {

@@ -97,7 +97,17 @@ struct sch_worker {
 	char err_text[512];         /* the first line the worker wrote to stderr, blanks folded */
 	size_t err_len;
 	bool err_line_done;         /* err_text holds a whole line: the rest is read and dropped */
+	long long cpu_ticks;        /* the worker's CPU time when last looked at, -1 unknown */
+	double cpu_seen_s;          /* monotonic time since when cpu_ticks has not moved */
+	bool stalled;               /* killed after SCH_SIM_STALL_S without CPU time or output */
 };
+
+/*
+ * A worker that neither writes nor uses CPU time for this long is stuck for good: the library
+ * takes a lock again when an allocation fails inside a locked section. It is killed and its run
+ * fails; a working worker is always either computing or writing.
+ */
+#define SCH_SIM_STALL_S 20.0
 
 /*
  * A step's density plot while its rows arrive, transposed straight into the outcome's vectors:
