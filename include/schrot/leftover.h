@@ -3,6 +3,7 @@
 #ifndef SCH_LEFTOVER_H
 #define SCH_LEFTOVER_H
 
+#include <signal.h>
 #include <stdbool.h>
 #include <sys/types.h>
 
@@ -29,6 +30,14 @@ void sch_leftover_drop_pid(pid_t pid);
  * async-signal-safe calls run in the handler. Call once, from main.
  */
 void sch_leftover_install(void);
+
+/*
+ * Holds SIGINT, SIGTERM and SIGHUP back (saving the mask in *old) while a temporary path or a
+ * worker is created and registered, so that no signal falls between the two; release restores
+ * the mask, and a signal that came meanwhile is handled then. These can't fail.
+ */
+void sch_leftover_hold(sigset_t *old);
+void sch_leftover_release(const sigset_t *old);
 
 /* In a forked child: the signals get their default actions again and the registry is emptied. */
 void sch_leftover_forget_in_child(void);

@@ -9,6 +9,7 @@
 #include <fcntl.h>
 #include <limits.h>
 #include <signal.h>
+#include <stdatomic.h>
 #include <string.h>
 #include <sys/syscall.h>
 #include <sys/wait.h>
@@ -44,6 +45,7 @@ void sch_leftover_add_path(const char *path, bool is_dir)
 		paths[i].state = 1;
 		memcpy(paths[i].path, path, n + 1);
 		paths[i].is_dir = is_dir;
+		atomic_signal_fence(memory_order_seq_cst); /* the path is complete before the handler may read it */
 		paths[i].state = 2;
 		return;
 	}
@@ -145,6 +147,22 @@ void sch_leftover_install(void)
 			continue;
 		sigaction(sigs[i], &sa, NULL);
 	}
+}
+
+void sch_leftover_hold(sigset_t *old)
+{
+	sigset_t fatal;
+
+	sigemptyset(&fatal);
+	sigaddset(&fatal, SIGINT);
+	sigaddset(&fatal, SIGTERM);
+	sigaddset(&fatal, SIGHUP);
+	sigprocmask(SIG_BLOCK, &fatal, old);
+}
+
+void sch_leftover_release(const sigset_t *old)
+{
+	sigprocmask(SIG_SETMASK, old, NULL);
 }
 
 void sch_leftover_forget_in_child(void)

@@ -54,7 +54,7 @@ void sch_outfile_batch_begin(void)
 enum sch_err sch_outfile_batch_end(bool ok, struct sch_diag *d)
 {
 	enum sch_err ret = SCH_OK;
-	sigset_t fatal, old;
+	sigset_t old;
 
 	if (!ok)
 		batch.failed = true;
@@ -62,11 +62,7 @@ enum sch_err sch_outfile_batch_end(bool ok, struct sch_diag *d)
 		return SCH_OK;
 	ok = !batch.failed;
 	/* a signal waits until every file of the batch is in place (or removed): never half of them */
-	sigemptyset(&fatal);
-	sigaddset(&fatal, SIGINT);
-	sigaddset(&fatal, SIGTERM);
-	sigaddset(&fatal, SIGHUP);
-	sigprocmask(SIG_BLOCK, &fatal, &old);
+	sch_leftover_hold(&old);
 	for (size_t i = 0; i < batch.n; i++) {
 		struct deferred *f = &batch.v[i];
 
@@ -78,7 +74,7 @@ enum sch_err sch_outfile_batch_end(bool ok, struct sch_diag *d)
 		free(f->tmp_path);
 		free(f->path);
 	}
-	sigprocmask(SIG_SETMASK, &old, NULL);
+	sch_leftover_release(&old);
 	free(batch.v);
 	batch.v = NULL;
 	batch.n = batch.cap = 0;
@@ -121,6 +117,7 @@ enum sch_err sch_outfile_open(struct sch_outfile *o, const char *path, struct sc
 {
 	enum sch_err ret = SCH_ERR_IO;
 	struct stat st, lst;
+	sigset_t old;
 	size_t len;
 	int fd = -1;
 
@@ -181,14 +178,17 @@ enum sch_err sch_outfile_open(struct sch_outfile *o, const char *path, struct sc
 	}
 	memcpy(o->tmp_path, path, len);
 	memcpy(o->tmp_path + len, ".tmpXXXXXX", sizeof(".tmpXXXXXX"));
+	sch_leftover_hold(&old);
 	fd = mkstemp(o->tmp_path);
+	if (fd >= 0)
+		sch_leftover_add_path(o->tmp_path, false);
+	sch_leftover_release(&old);
 	if (fd < 0) {
 		ret = sch_diag_error(d, SCH_ERR_IO, path, 0, "cannot create output file: %s", strerror(errno));
 		free(o->tmp_path);
 		o->tmp_path = NULL;
 		goto out;
 	}
-	sch_leftover_add_path(o->tmp_path, false);
 	(void)fchmod(fd, target_mode(path));
 	o->fp = fdopen(fd, "w");
 	if (!o->fp) {

@@ -366,6 +366,7 @@ static enum sch_err start_workers(const struct sch_sim_request *req, char **cons
 	fflush(NULL); /* a child must not write out the parent's buffered output again */
 	for (size_t w = 0; w < n_wk; w++) {
 		int fds[2], errs[2];
+		sigset_t held;
 		pid_t pid;
 
 		if (pipe(fds) != 0) {
@@ -378,7 +379,12 @@ static enum sch_err start_workers(const struct sch_sim_request *req, char **cons
 			close(fds[1]);
 			return SCH_ERR_SIM;
 		}
+		sch_leftover_hold(&held);
 		pid = fork();
+		if (pid > 0)
+			sch_leftover_add_pid(pid);
+		if (pid != 0)
+			sch_leftover_release(&held);
 		if (pid < 0) {
 			snprintf(why, why_len, "cannot start the simulator: %s", strerror(errno));
 			close(fds[0]);
@@ -397,13 +403,13 @@ static enum sch_err start_workers(const struct sch_sim_request *req, char **cons
 					close(wks[k].err_fd);
 			}
 			worker_process_setup(parent);
+			sch_leftover_release(&held);
 			/* the library's own prints to stderr (an assertion) come to the tool, not the terminal */
 			if (dup2(errs[1], STDERR_FILENO) < 0)
 				_exit(3);
 			close(errs[1]);
 			sch_sim_worker_main(req, decks[w], wks[w].first, wks[w].end, fds[1]);
 		}
-		sch_leftover_add_pid(pid);
 		close(fds[1]);
 		close(errs[1]);
 		wks[w].err_fd = errs[0];
@@ -420,16 +426,22 @@ static enum sch_err start_workers(const struct sch_sim_request *req, char **cons
 static enum sch_err make_data_dir(struct sch_diag *d)
 {
 	const char *tmp = getenv("TMPDIR");
+	sigset_t old;
+	bool made;
 
 	if (!tmp || tmp[0] != '/' || strlen(tmp) > 200 || !sch_sim_path_is_command_safe(tmp))
 		tmp = "/tmp";
 	snprintf(sch_data_dir, sizeof(sch_data_dir), "%s/schrot-data-XXXXXX", tmp);
-	if (!mkdtemp(sch_data_dir)) {
+	sch_leftover_hold(&old);
+	made = mkdtemp(sch_data_dir) != NULL;
+	if (made)
+		sch_leftover_add_path(sch_data_dir, true);
+	sch_leftover_release(&old);
+	if (!made) {
 		sch_data_dir[0] = '\0';
 		return sch_diag_error(d, SCH_ERR_SIM, NULL, 0, "simulator: cannot create a private directory in '%s': %s",
 				      tmp, strerror(errno));
 	}
-	sch_leftover_add_path(sch_data_dir, true);
 	return SCH_OK;
 }
 
