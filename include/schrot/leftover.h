@@ -18,6 +18,9 @@ void sch_leftover_add_path(const char *path, bool is_dir);
 /* Forgets path again (after it was removed or renamed into place). No-op when it is not registered. */
 void sch_leftover_drop_path(const char *path);
 
+/* Removes a registered path now, as a signal would (a directory with its entries, two levels), and forgets it. */
+void sch_leftover_remove_now(const char *path);
+
 /* Registers a worker process: a fatal signal kills and reaps it before removing paths. */
 void sch_leftover_add_pid(pid_t pid);
 

@@ -78,11 +78,14 @@ void sch_leftover_drop_pid(pid_t pid)
 			pids[i] = 0;
 }
 
-/* The entries of a directory, one level, through the raw getdents64 call (readdir is not async-signal-safe). */
-static void empty_dir(const char *dir)
+/*
+ * Removes the directory name (relative to at) with its entries, depth levels of subdirectories
+ * deep, through the raw getdents64 call (readdir is not async-signal-safe).
+ */
+static void remove_dir_at(int at, const char *name, int depth)
 {
 	char buf[4096];
-	int fd = open(dir, O_RDONLY | O_DIRECTORY | O_CLOEXEC | O_NOFOLLOW);
+	int fd = openat(at, name, O_RDONLY | O_DIRECTORY | O_CLOEXEC | O_NOFOLLOW);
 
 	if (fd < 0)
 		return;
@@ -94,17 +97,37 @@ static void empty_dir(const char *dir)
 		for (long off = 0; off < n;) {
 			/* struct linux_dirent64: d_ino 8, d_off 8, d_reclen 2, d_type 1, d_name */
 			unsigned short reclen;
-			const char *name = buf + off + 19;
+			const char *entry = buf + off + 19;
 
 			memcpy(&reclen, buf + off + 16, sizeof(reclen));
 			if (reclen == 0)
 				break;
-			if (strcmp(name, ".") != 0 && strcmp(name, "..") != 0)
-				unlinkat(fd, name, 0);
+			if (strcmp(entry, ".") != 0 && strcmp(entry, "..") != 0 && unlinkat(fd, entry, 0) != 0 &&
+			    errno == EISDIR && depth > 0)
+				remove_dir_at(fd, entry, depth - 1);
 			off += reclen;
 		}
 	}
 	close(fd);
+	unlinkat(at, name, AT_REMOVEDIR);
+}
+
+static void remove_slot(size_t i)
+{
+	if (paths[i].is_dir)
+		remove_dir_at(AT_FDCWD, paths[i].path, 1);
+	else
+		unlink(paths[i].path);
+}
+
+void sch_leftover_remove_now(const char *path)
+{
+	for (size_t i = 0; path && i < SCH_LEFTOVER_PATHS; i++)
+		if (paths[i].state == 2 && strcmp(paths[i].path, path) == 0) {
+			remove_slot(i);
+			paths[i].state = 0;
+			return;
+		}
 }
 
 static void on_fatal_signal(int sig)
@@ -119,14 +142,8 @@ static void on_fatal_signal(int sig)
 			;
 	}
 	for (size_t i = 0; i < SCH_LEFTOVER_PATHS; i++) {
-		if (paths[i].state != 2)
-			continue;
-		if (paths[i].is_dir) {
-			empty_dir(paths[i].path);
-			rmdir(paths[i].path);
-		} else {
-			unlink(paths[i].path);
-		}
+		if (paths[i].state == 2)
+			remove_slot(i);
 	}
 	_exit(128 + sig);
 }

@@ -445,6 +445,33 @@ static enum sch_err make_data_dir(struct sch_diag *d)
 	return SCH_OK;
 }
 
+char sch_sim_session_dir[PATH_MAX];
+
+/* The run's private directory (sim_int.h); without one, workers use $TMPDIR as before. */
+static void make_session_dir(void)
+{
+	const char *tmp = getenv("TMPDIR");
+	sigset_t old;
+
+	if (!tmp || tmp[0] != '/' || strlen(tmp) > 200)
+		tmp = "/tmp";
+	snprintf(sch_sim_session_dir, PATH_MAX, "%s/schrot-sim-XXXXXX", tmp);
+	sch_leftover_hold(&old);
+	if (mkdtemp(sch_sim_session_dir))
+		sch_leftover_add_path(sch_sim_session_dir, true);
+	else
+		sch_sim_session_dir[0] = '\0';
+	sch_leftover_release(&old);
+}
+
+static void remove_session_dir(void)
+{
+	if (!sch_sim_session_dir[0])
+		return;
+	sch_leftover_remove_now(sch_sim_session_dir);
+	sch_sim_session_dir[0] = '\0';
+}
+
 /* Removes what a worker that died early may have left, then the directory. */
 static void remove_data_dir(size_t n_steps)
 {
@@ -683,6 +710,7 @@ enum sch_err sch_sim_run(const struct sch_sim_request *req, struct sch_sim_resul
 		if (st && st->lines && (ret = build_deck(st->lines, st->n_lines, &decks[w], d)) != SCH_OK)
 			goto out;
 	}
+	make_session_dir();
 	ret = start_workers(req, decks, wks, n_wk, why, sizeof(why));
 	if (ret == SCH_OK)
 		ret = drain_workers(wks, n_wk, &c);
@@ -714,6 +742,7 @@ out:
 	else if (c.hook_err == SCH_OK && ret == SCH_ERR_NOMEM)
 		sch_diag_error(d, SCH_ERR_NOMEM, NULL, 0, "simulator: out of memory");
 	release_workers(wks, n_wk);
+	remove_session_dir();
 	remove_data_dir(req->n_steps);
 	/* a density plot whose step never ended is left out, as if it had never started */
 	for (size_t s = 0; c.noise && res->steps && s < res->n_steps; s++)

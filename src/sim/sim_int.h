@@ -171,6 +171,13 @@ void sch_redact_release(struct sch_redact *r);
 
 /* ---- shared by both sides (run.c) ------------------------------------------------------- */
 
+/*
+ * The run's private directory ($TMPDIR/schrot-sim-XXXXXX, "" when there is none), made by the
+ * tool before it forks and registered for removal on a signal: each worker makes the directory it
+ * starts the library in inside it, so a worker killed while starting leaves nothing elsewhere.
+ */
+extern char sch_sim_session_dir[];
+
 /* A character the simulator's command language would interpret. */
 bool sch_sim_command_char_is_bad(unsigned char c);
 /* A path may go into a command only if the command language cannot read anything into it. */

@@ -395,7 +395,7 @@ static void worker_load_codemodel(void)
 /* Starts the library with no start-up script able to run (NGSPICE-NOTES.md section 5). */
 static bool worker_init_library(struct sch_worker_ctx *w)
 {
-	const char *tmp = getenv("TMPDIR");
+	const char *tmp = sch_sim_session_dir[0] ? sch_sim_session_dir : getenv("TMPDIR");
 	char dir[PATH_MAX];
 	char initfile[PATH_MAX + 16];
 	char cwd[PATH_MAX];
