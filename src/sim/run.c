@@ -62,6 +62,21 @@ bool sch_sim_data_file_path(size_t step, char *out, size_t size)
 	return sch_data_dir[0] && n > 0 && (size_t)n < size && sch_sim_path_is_command_safe(out);
 }
 
+/*
+ * AddressSanitizer reserves terabytes of shadow memory, which RLIMIT_DATA counts: in such a build
+ * the memory budget is not set (the CPU and file budgets are).
+ */
+#if defined(__SANITIZE_ADDRESS__)
+#define SCH_SIM_MEMORY_BUDGET 0
+#elif defined(__has_feature)
+#if __has_feature(address_sanitizer)
+#define SCH_SIM_MEMORY_BUDGET 0
+#endif
+#endif
+#ifndef SCH_SIM_MEMORY_BUDGET
+#define SCH_SIM_MEMORY_BUDGET 1
+#endif
+
 /* ---- the workers' budget --------------------------------------------------------------- */
 
 static struct sch_sim_budget sch_budget = { SCH_SIM_DEFAULT_CPU_S, SCH_SIM_DEFAULT_MEM_MIB };
@@ -145,7 +160,8 @@ static void worker_process_setup(pid_t parent)
 	signal(SIGPIPE, SIG_DFL);
 	set_limit(RLIMIT_CORE, 0, 0);
 	set_limit(RLIMIT_CPU, sch_budget.cpu_s, sch_budget.cpu_s + 5);
-	set_limit(RLIMIT_DATA, mem, mem);
+	if (SCH_SIM_MEMORY_BUDGET)
+		set_limit(RLIMIT_DATA, mem, mem);
 	set_limit(RLIMIT_FSIZE, mem, mem);
 	sch_sim_catch_crashes();
 }
