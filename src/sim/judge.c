@@ -157,11 +157,22 @@ static char *printf_dup(const char *fmt, const char *arg)
 	return strdup(line);
 }
 
-/* The library's own words for a failed allocation (tmalloc, trealloc and the numparam allocators). */
+/*
+ * The library's own words for a failed allocation (tmalloc, trealloc and the numparam allocators).
+ * "can't allocate -8 bytes" is a size gone negative, a bug of the library, not a lack of memory.
+ */
 static bool says_out_of_memory(const char *s)
 {
-	return strcasestr(s, "can't allocate") || strcasestr(s, "cannot allocate") ||
-	       strcasestr(s, "memory allocation failed") || strcasestr(s, "out of memory");
+	const char *n = strcasestr(s, "can't allocate");
+
+	if (n) {
+		n += strlen("can't allocate");
+		while (*n == ' ')
+			n++;
+		return *n != '-';
+	}
+	return strcasestr(s, "cannot allocate") || strcasestr(s, "memory allocation failed") ||
+	       strcasestr(s, "out of memory");
 }
 
 static char *out_of_memory(void)

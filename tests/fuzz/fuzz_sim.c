@@ -20,18 +20,41 @@
 static char scratch[256];
 static char netlist[300];
 
-static size_t count_entries(const char *dir)
+#define FUZZ_MAX_SEEN 256
+
+struct listing {
+	char names[FUZZ_MAX_SEEN][256];
+	size_t n;
+};
+
+static void list_dir(const char *dir, struct listing *l)
 {
 	DIR *d = opendir(dir);
 	struct dirent *e;
-	size_t n = 0;
 
-	if (!d)
-		return 0;
-	while ((e = readdir(d)))
-		n++;
-	closedir(d);
-	return n;
+	l->n = 0;
+	while (d && (e = readdir(d)) && l->n < FUZZ_MAX_SEEN)
+		snprintf(l->names[l->n++], sizeof(l->names[0]), "%s", e->d_name);
+	if (d)
+		closedir(d);
+}
+
+/* Names in after that before lacks, printed; true when there is one (a marker). */
+static bool new_entries(const char *dir, const struct listing *before, const struct listing *after)
+{
+	bool found = false;
+
+	for (size_t i = 0; i < after->n; i++) {
+		bool old = false;
+
+		for (size_t k = 0; k < before->n && !old; k++)
+			old = strcmp(after->names[i], before->names[k]) == 0;
+		if (!old) {
+			fprintf(stderr, "fuzz_sim: new file '%s' in '%s'\n", after->names[i], dir);
+			found = true;
+		}
+	}
+	return found;
 }
 
 static bool has_noise_line(const uint8_t *data, size_t size)
@@ -68,7 +91,8 @@ int LLVMFuzzerTestOneInput(const uint8_t *data, size_t size)
 	struct sch_run_options opt;
 	struct sch_result res;
 	struct sch_diag d;
-	size_t cwd_before, scratch_before;
+	static struct listing cwd_before, scratch_before, cwd_after, scratch_after;
+	bool marker;
 	FILE *f;
 
 	setup_once();
@@ -80,8 +104,8 @@ int LLVMFuzzerTestOneInput(const uint8_t *data, size_t size)
 	if (size && fwrite(data, 1, size, f) != size)
 		abort();
 	fclose(f);
-	cwd_before = count_entries(".");
-	scratch_before = count_entries(scratch);
+	list_dir(".", &cwd_before);
+	list_dir(scratch, &scratch_before);
 	sch_run_options_init(&opt);
 	opt.mode = has_noise_line(data, size) ? SCH_RUN_REPORT : SCH_RUN_OP;
 	sch_result_init(&res);
@@ -89,7 +113,11 @@ int LLVMFuzzerTestOneInput(const uint8_t *data, size_t size)
 	(void)sch_analysis_run(netlist, &opt, &res, &d);
 	sch_result_release(&res);
 	/* a marker: something in the netlist made the simulator write a file */
-	if (count_entries(".") != cwd_before || count_entries(scratch) != scratch_before)
+	list_dir(".", &cwd_after);
+	list_dir(scratch, &scratch_after);
+	marker = new_entries(".", &cwd_before, &cwd_after);
+	marker = new_entries(scratch, &scratch_before, &scratch_after) || marker;
+	if (marker)
 		abort();
 	return 0;
 }
