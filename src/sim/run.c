@@ -157,7 +157,11 @@ static void worker_process_setup(pid_t parent)
 	if (getppid() != parent)
 		_exit(3); /* the tool died before the line above took effect */
 	sch_leftover_forget_in_child();
+	/* the tool's own crash handlers (a sanitizer's, a fuzzer's) are not the worker's business */
 	signal(SIGPIPE, SIG_DFL);
+	signal(SIGABRT, SIG_DFL);
+	signal(SIGILL, SIG_DFL);
+	signal(SIGFPE, SIG_DFL);
 	set_limit(RLIMIT_CORE, 0, 0);
 	set_limit(RLIMIT_CPU, sch_budget.cpu_s, sch_budget.cpu_s + 5);
 	if (SCH_SIM_MEMORY_BUDGET)
