@@ -171,8 +171,10 @@ static bool says_out_of_memory(const char *s)
 			n++;
 		return *n != '-';
 	}
+	/* the last two are a sanitizer allocator's words, in a sanitizer build */
 	return strcasestr(s, "cannot allocate") || strcasestr(s, "memory allocation failed") ||
-	       strcasestr(s, "out of memory");
+	       strcasestr(s, "out of memory") || strcasestr(s, "failed to allocate") ||
+	       strcasestr(s, "failed to mmap");
 }
 
 static char *out_of_memory(void)
@@ -277,6 +279,9 @@ static char *worker_failure(struct sch_worker *wk, const struct sch_collect *c, 
 	}
 	if (wk->status >= 0 && (r = death_reason(wk)) != NULL)
 		return r;
+	/* a sanitizer's allocator reports the failure on stderr and exits */
+	if (!wk->ended && says_out_of_memory(wk->err_text))
+		return out_of_memory();
 	r = sch_sim_judge_text(wk, SCH_PHASE_LOAD, SCH_STEP_NONE, nomem);
 	if (r || *nomem)
 		return r;

@@ -63,19 +63,38 @@ bool sch_sim_data_file_path(size_t step, char *out, size_t size)
 }
 
 /*
- * AddressSanitizer reserves terabytes of shadow memory, which RLIMIT_DATA counts: in such a build
- * the memory budget is not set (the CPU and file budgets are).
+ * AddressSanitizer reserves terabytes of shadow memory at start, which RLIMIT_DATA counts: in such
+ * a build the budget is counted from what the worker already has when it starts.
  */
 #if defined(__SANITIZE_ADDRESS__)
-#define SCH_SIM_MEMORY_BUDGET 0
+#define SCH_SIM_BUDGET_ON_TOP 1
 #elif defined(__has_feature)
 #if __has_feature(address_sanitizer)
-#define SCH_SIM_MEMORY_BUDGET 0
+#define SCH_SIM_BUDGET_ON_TOP 1
 #endif
 #endif
-#ifndef SCH_SIM_MEMORY_BUDGET
-#define SCH_SIM_MEMORY_BUDGET 1
+#ifndef SCH_SIM_BUDGET_ON_TOP
+#define SCH_SIM_BUDGET_ON_TOP 0
 #endif
+
+/* The process's data size (VmData) in bytes, 0 when unknown. */
+static double data_size_now(void)
+{
+	char buf[4096];
+	const char *p;
+	ssize_t n;
+	int fd = open("/proc/self/status", O_RDONLY | O_CLOEXEC);
+
+	if (fd < 0)
+		return 0;
+	n = read(fd, buf, sizeof(buf) - 1);
+	close(fd);
+	if (n <= 0)
+		return 0;
+	buf[n] = '\0';
+	p = strstr(buf, "VmData:");
+	return p ? 1024.0 * strtod(p + 7, NULL) : 0;
+}
 
 /* ---- the workers' budget --------------------------------------------------------------- */
 
@@ -164,7 +183,9 @@ static void worker_process_setup(pid_t parent)
 	signal(SIGFPE, SIG_DFL);
 	set_limit(RLIMIT_CORE, 0, 0);
 	set_limit(RLIMIT_CPU, sch_budget.cpu_s, sch_budget.cpu_s + 5);
-	if (SCH_SIM_MEMORY_BUDGET)
+	if (SCH_SIM_BUDGET_ON_TOP)
+		set_limit(RLIMIT_DATA, data_size_now() + mem, data_size_now() + mem);
+	else
 		set_limit(RLIMIT_DATA, mem, mem);
 	set_limit(RLIMIT_FSIZE, mem, mem);
 	sch_sim_catch_crashes();
@@ -522,7 +543,7 @@ static void reap_workers(struct sch_worker *wks, size_t n_wk)
 }
 
 /*
- * Keeps the first line a worker writes to stderr (an assertion, an allocation failure), blanks
+ * Keeps the first line with a word in it a worker writes to stderr (an assertion, an allocation failure), blanks
  * folded, at most sizeof(err_text) - 1 bytes; the rest is read and dropped, so the worker never
  * blocks on a full pipe. Sets *eof at end of stream.
  */
@@ -541,6 +562,14 @@ static void read_worker_stderr(struct sch_worker *wk, bool *eof)
 		unsigned char ch = (unsigned char)chunk[i];
 
 		if (ch == '\n' && wk->err_len > 0) {
+			bool has_word = false;
+
+			for (size_t k = 0; k < wk->err_len; k++)
+				has_word = has_word || isalnum((unsigned char)wk->err_text[k]);
+			if (!has_word) {
+				wk->err_len = 0; /* a rule of '=' (a sanitizer's report starts so): the next line tells */
+				continue;
+			}
 			wk->err_line_done = true;
 			break;
 		}
