@@ -290,7 +290,8 @@ static char *worker_failure(struct sch_worker *wk, const struct sch_collect *c, 
 	if (wk->malformed)
 		return strdup("simulator worker sent malformed data");
 	if (!wk->ended)
-		return strdup("simulator worker exited without a result");
+		return wk->err_text[0] ? printf_dup("simulator worker exited without a result: %.400s", wk->err_text)
+				       : strdup("simulator worker exited without a result");
 	return NULL;
 }
 
