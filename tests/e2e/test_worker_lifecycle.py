@@ -207,6 +207,10 @@ def stuck_worker():
         rc, err = proc.returncode, proc.stderr
     except subprocess.TimeoutExpired:
         rc, err = None, "no answer within 90 s"
+    if "Sanitizer" in err:
+        print("skip worker out of address space: a sanitizer build cannot start under the limit")
+        shutil.rmtree(work, ignore_errors=True)
+        return
     true("[S] worker out of address space: exit 3 within 90 s", rc == 3, err)
     true("[S] worker out of address space: the cause is named",
          "out of memory" in err or "hung" in err, err)
