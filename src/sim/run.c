@@ -392,6 +392,30 @@ static void release_workers(struct sch_worker *wks, size_t n_wk)
 	}
 }
 
+/*
+ * The child side of worker w: only its own pipe ends stay open, the process is set up (budget,
+ * death with the tool), stderr goes to the tool. Never returns.
+ */
+static void become_worker(const struct sch_sim_request *req, char **deck, struct sch_worker *wks, size_t w,
+			  const int fds[2], const int errs[2], pid_t parent, const sigset_t *held)
+{
+	close(fds[0]);
+	close(errs[0]);
+	for (size_t k = 0; k < w; k++) {
+		if (wks[k].fd >= 0)
+			close(wks[k].fd);
+		if (wks[k].err_fd >= 0)
+			close(wks[k].err_fd);
+	}
+	worker_process_setup(parent);
+	sch_leftover_release(held);
+	/* the library's own prints to stderr (an assertion) come to the tool, not the terminal */
+	if (dup2(errs[1], STDERR_FILENO) < 0)
+		_exit(3);
+	close(errs[1]);
+	sch_sim_worker_main(req, deck, wks[w].first, wks[w].end, fds[1]);
+}
+
 static enum sch_err start_workers(const struct sch_sim_request *req, char **const *decks, struct sch_worker *wks,
 				  size_t n_wk, char *why, size_t why_len)
 {
@@ -406,50 +430,28 @@ static enum sch_err start_workers(const struct sch_sim_request *req, char **cons
 	}
 	fflush(NULL); /* a child must not write out the parent's buffered output again */
 	for (size_t w = 0; w < n_wk; w++) {
-		int fds[2], errs[2];
+		int fds[2] = { -1, -1 }, errs[2] = { -1, -1 };
 		sigset_t held;
-		pid_t pid;
+		pid_t pid = -1;
 
-		if (pipe(fds) != 0) {
-			snprintf(why, why_len, "cannot start the simulator: %s", strerror(errno));
-			return SCH_ERR_SIM;
-		}
-		if (pipe(errs) != 0) {
-			snprintf(why, why_len, "cannot start the simulator: %s", strerror(errno));
-			close(fds[0]);
-			close(fds[1]);
-			return SCH_ERR_SIM;
-		}
-		sch_leftover_hold(&held);
-		pid = fork();
-		if (pid > 0)
-			sch_leftover_add_pid(pid);
-		if (pid != 0)
+		if (pipe(fds) == 0 && pipe(errs) == 0) {
+			sch_leftover_hold(&held); /* no signal between the fork and the worker's registration */
+			pid = fork();
+			if (pid == 0)
+				become_worker(req, decks[w], wks, w, fds, errs, parent, &held);
+			if (pid > 0)
+				sch_leftover_add_pid(pid);
 			sch_leftover_release(&held);
+		}
 		if (pid < 0) {
 			snprintf(why, why_len, "cannot start the simulator: %s", strerror(errno));
-			close(fds[0]);
-			close(fds[1]);
-			close(errs[0]);
-			close(errs[1]);
-			return SCH_ERR_SIM;
-		}
-		if (pid == 0) {
-			close(fds[0]);
-			close(errs[0]);
-			for (size_t k = 0; k < w; k++) {
-				if (wks[k].fd >= 0)
-					close(wks[k].fd);
-				if (wks[k].err_fd >= 0)
-					close(wks[k].err_fd);
+			for (size_t k = 0; k < 2; k++) {
+				if (fds[k] >= 0)
+					close(fds[k]);
+				if (errs[k] >= 0)
+					close(errs[k]);
 			}
-			worker_process_setup(parent);
-			sch_leftover_release(&held);
-			/* the library's own prints to stderr (an assertion) come to the tool, not the terminal */
-			if (dup2(errs[1], STDERR_FILENO) < 0)
-				_exit(3);
-			close(errs[1]);
-			sch_sim_worker_main(req, decks[w], wks[w].first, wks[w].end, fds[1]);
+			return SCH_ERR_SIM;
 		}
 		close(fds[1]);
 		close(errs[1]);
