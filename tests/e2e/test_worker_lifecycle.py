@@ -128,6 +128,30 @@ def signal_during_run(sig):
     shutil.rmtree(work, ignore_errors=True)
 
 
+def sigkill_during_run():
+    """SIGKILL cannot be handled: the workers must still die with schrot (PR_SET_PDEATHSIG). The data
+    directory may stay behind then (docs/security.md says so); it is removed here."""
+    work, tmp, old, env = setup(LONG)
+    proc = subprocess.Popen([SCHROT, "report", "in.cir", "-q"], cwd=work, env=env,
+                            stdout=subprocess.DEVNULL, stderr=subprocess.DEVNULL)
+    workers, deadline = [], time.time() + 60
+    while time.time() < deadline and proc.poll() is None and not workers:
+        workers = children(proc.pid)
+        time.sleep(0.05)
+    time.sleep(0.5)
+    proc.kill()
+    proc.wait()
+    deadline = time.time() + 5
+    while time.time() < deadline and [w for w in workers if alive(w)]:
+        time.sleep(0.1)
+    survivors = [w for w in workers if alive(w)]
+    for w in survivors:
+        os.kill(w, signal.SIGKILL)
+    true("[S] SIGKILL during a run: a worker existed", bool(workers))
+    true("[S] SIGKILL during a run: no worker survives schrot by more than 5 s", not survivors, str(survivors))
+    shutil.rmtree(work, ignore_errors=True)
+
+
 def contents(work):
     out = {}
     for name in OUTPUTS.values():
@@ -236,6 +260,7 @@ def tool_out_of_memory():
 
 for s in (signal.SIGTERM, signal.SIGINT, signal.SIGHUP):
     signal_during_run(s)
+sigkill_during_run()
 random_kills(20, 16)
 no_core_file()
 stuck_worker()
