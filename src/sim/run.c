@@ -146,8 +146,19 @@ static void worker_on_crash(int sig)
 	raise(sig);
 }
 
+/* In the worker: SIGINT, SIGTERM and SIGHUP as the tool got them (default, or ignored under nohup). */
+static bool worker_ignores[3];
+static const int worker_stop_signals[3] = { SIGINT, SIGTERM, SIGHUP };
+
 void sch_sim_catch_crashes(void)
 {
+	/*
+	 * The library's start-up catches SIGINT to interrupt an analysis, which would end a run early
+	 * with a result that looks whole: a worker dies of these signals instead, or ignores them
+	 * as the tool does.
+	 */
+	for (size_t i = 0; i < 3; i++)
+		signal(worker_stop_signals[i], worker_ignores[i] ? SIG_IGN : SIG_DFL);
 	static char alt_stack[64 * 1024]; /* a stack overflow leaves no room on the ordinary one */
 	stack_t ss = { .ss_sp = alt_stack, .ss_size = sizeof(alt_stack) };
 	struct sigaction sa;
@@ -175,6 +186,11 @@ static void worker_process_setup(pid_t parent)
 #endif
 	if (getppid() != parent)
 		_exit(3); /* the tool died before the line above took effect */
+	for (size_t i = 0; i < 3; i++) {
+		struct sigaction sa;
+
+		worker_ignores[i] = sigaction(worker_stop_signals[i], NULL, &sa) == 0 && sa.sa_handler == SIG_IGN;
+	}
 	sch_leftover_forget_in_child();
 	/* the tool's own crash handlers (a sanitizer's, a fuzzer's) are not the worker's business */
 	signal(SIGPIPE, SIG_DFL);

@@ -65,8 +65,9 @@ void sch_worker_send_noise_names(struct sch_worker_ctx *w);
 void sch_worker_send_data_file(struct sch_worker_ctx *w, const char *path);
 /*
  * In the worker: a SIGSEGV or SIGBUS after a failed allocation exits with SCH_WORKER_EXIT_NOMEM;
- * other crashes stay crashes. Called again after the library's start-up, which installs handlers
- * of its own.
+ * other crashes stay crashes; SIGINT, SIGTERM and SIGHUP act as they do on the tool (the library
+ * would catch SIGINT and cut the analysis short). Called again after the library's start-up,
+ * which installs handlers of its own.
  */
 void sch_sim_catch_crashes(void);
 /* The whole life of a worker process on steps [first, end), writing records to fd. Never returns. */
