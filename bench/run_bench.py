@@ -127,6 +127,7 @@ def main():
     ap.add_argument("--extracted", type=int, default=200, help="extracted case channels (0: skip)")
     ap.add_argument("--sweep", default="20,500", help="pixels in the sweep cases (comma list; empty: none)")
     ap.add_argument("--sweep-points", type=int, default=50)
+    ap.add_argument("--levers", default="500", help="pixels in the levers cases (comma list; empty: none)")
     ap.add_argument("--work", default=None, help="directory for the generated files (default: a temporary one)")
     args = ap.parse_args()
     work = args.work or tempfile.mkdtemp(prefix="schrot-bench-")
@@ -183,6 +184,14 @@ def main():
         compare(f"sweep {k} pts, {n} pixels", [S, "sweep", net, "--vary", f"xp1.iph={lo}:{hi}:{k}", "-q"],
                 ["sh", script], args.reps, a_name="schrot sweep", b_name=f"{k} x schrot report",
                 memory=False)
+
+    # issue 15: levers (the unchanged run, then up to 26 changed runs on two workers) against one report
+    for n in [int(x) for x in args.levers.split(",") if x.strip()]:
+        net = os.path.join(work, f"levers{n}.cir")
+        gen("pixels", n, net)
+        compare(f"levers, {n} pixels", [S, "levers", net, "-q"], [S, "report", net, "-q"], args.reps,
+                a_name="schrot levers", b_name="schrot report", memory=False)
+
 
 if __name__ == "__main__":
     main()

@@ -17,6 +17,7 @@ static const struct cmd_entry commands[] = {
 	{ "sweep", cmd_sweep },
 	{ "augment", cmd_augment },
 	{ "arrivals", cmd_arrivals },
+	{ "levers", cmd_levers },
 	{ "merge", cmd_merge },
 };
 

@@ -30,9 +30,9 @@ struct sch_contribution {
 	double dc_current_a;     /* NaN when the generator is not sized by a current */
 	double *psd;             /* output power density at each frequency, V^2/Hz; negative for a correction that removes noise */
 	double band_power;       /* integral of psd over the band, V^2 (negative for such a correction) */
-	double output_rms_v;     /* sqrt(|band_power|) */
+	double output_rms_v;     /* sqrt(|band_power|) with band_power's sign: negative for a row that removes noise */
 	double share;            /* band_power / total band power; shares sum to 1 */
-	double *spot_density;    /* at each spot frequency: sqrt(|psd|), V/√Hz */
+	double *spot_density;    /* at each spot frequency: sqrt(|psd|) with psd's sign, V/√Hz */
 	size_t device_count;     /* devices the row stands for: 1, or the resistors of a --lump row */
 };
 
@@ -40,7 +40,7 @@ struct sch_spot {
 	double freq_hz;
 	double output_v_per_rthz;
 	double input_per_rthz;   /* input-referred, in the input source's unit per √Hz */
-	double nep_w_per_rthz;   /* NaN without a responsivity or for a voltage input */
+	double nep_w_per_rthz;   /* input_per_rthz / (responsivity * input_gain_m); NaN without a responsivity or for a voltage input */
 };
 
 /* A parsed --freq F1:F2[:PPD]. */
@@ -68,6 +68,7 @@ struct sch_run_options {
 	bool junction_correction;
 	double responsivity_a_per_w;    /* NaN: none */
 	double signal;                  /* NaN: none; in input units */
+	double signal_freq_hz;          /* NaN: none; the transfer's reference frequency when given */
 	int n_workers;
 	/*
 	 * --lump: resistors whose whole hierarchical name matches (case-insensitive) are reported as
@@ -77,11 +78,38 @@ struct sch_run_options {
 	 */
 	const char *lump_regex;
 	/*
+	 * --dialect: the simulator's compatibility mode (a value sch_sim_compat_mode_known accepts);
+	 * NULL: the one a .spiceinit beside the netlist sets, else none.
+	 */
+	const char *compat_mode;
+	/*
 	 * Sweeps only: called in the calling process with the number of points done (0 before the
 	 * first) out of total; NULL for none. It must not write to stdout.
 	 */
 	void (*progress)(void *progress_ctx, size_t done, size_t total);
 	void *progress_ctx;
+	/*
+	 * Also read the value of every resistor, capacitor and current source instance after the run
+	 * (res->instance_values), so a later run can put it back. Single runs only.
+	 */
+	bool read_values;
+};
+
+/*
+ * The transfer from the input source to the output, |H| = |output / input| (V/A for a current
+ * input, V/V for a voltage input). mid_band = |H| at ref_hz: the signal's frequency when given
+ * (--signal-freq), otherwise the frequency of largest |H| within the band. f_low_hz / f_high_hz:
+ * the -3 dB points relative to mid_band, the nearest frequencies below and above ref_hz where
+ * |H| = mid_band / sqrt(2) (log-log interpolation), NaN where |H| does not fall 3 dB inside the
+ * simulated range. enbw_hz = integral over the band of |H|^2 df / mid_band^2. All NaN when the
+ * result has no noise run or no transfer.
+ */
+struct sch_transfer {
+	double mid_band;
+	double ref_hz;
+	double f_low_hz;
+	double f_high_hz;
+	double enbw_hz;
 };
 
 struct sch_result {
@@ -90,6 +118,7 @@ struct sch_result {
 	struct sch_carrier_set set;
 	const char *netlist;            /* path as given */
 	const char *sim_version;
+	const char *compat_mode;        /* the simulator's compatibility mode the run used, NULL: none */
 	double temp_k;                  /* circuit temperature */
 	/* noise run (mode SCH_RUN_REPORT only) */
 	const char *output;             /* "v(out)" */
@@ -97,6 +126,12 @@ struct sch_result {
 	const char *input_unit;         /* "A" for a current source, "V" for a voltage source */
 	double band_lo_hz, band_hi_hz;
 	double run_lo_hz, run_hi_hz;    /* the noise run's requested frequency range */
+	/*
+	 * A spot run (start == stop, one frequency): every band figure (rms, band power, NEP over the
+	 * band, SNR) is NaN, the spots hold that frequency, and shares and the verdict are of the
+	 * output noise power density there.
+	 */
+	bool spot_run;
 	size_t n_freq;
 	double *freq_hz;
 	double *total_psd;              /* V^2/Hz: sum of every contribution's psd */
@@ -105,17 +140,21 @@ struct sch_result {
 	size_t n_contributions;
 	double total_power_v2;          /* band power of the total */
 	double output_rms_v;
-	double input_rms;               /* input-referred rms over the band, input units */
+	double input_rms;               /* output_rms_v / transfer.mid_band: input-referred rms over the band, input units */
+	struct sch_transfer transfer;   /* the input-to-output transfer (report runs) */
 	struct sch_spot *spots;
 	size_t n_spots;
-	double responsivity_a_per_w;    /* NaN: none */
+	double responsivity_a_per_w;    /* NaN: none; the unity-gain responsivity R0 */
+	double input_gain_m;            /* avalanche gain M of the input carrier (1 without a gain rule): NEP divides by R0 * M */
 	double signal;                  /* NaN: none */
-	double snr;                     /* signal^2 / input_rms^2; NaN without a signal */
+	double snr;                     /* at the output: (signal * transfer.mid_band)^2 / total_power_v2; NaN without a signal */
+	double *instance_values;        /* read_values: per set.instances entry, ohms, farads or an I source's DC
+					   amperes as the simulator holds them; NaN for other elements; else NULL */
 	double carrier_power_v2;        /* band power of all added carrier shot noise */
 	double shot_to_rest;            /* carrier_power_v2 / (everything else); NaN without carriers or rest */
 	const struct sch_contribution *dominant_other; /* the largest row of the device that leads the rest, or NULL */
 	double dominant_other_share;    /* that device's share, all its rows netted (corrections included) */
-	double nep_band_w_per_rthz;     /* input_rms / sqrt(band width) / responsivity; NaN without one */
+	double nep_band_w_per_rthz;     /* input_rms / sqrt(transfer.enbw_hz) / (responsivity * input_gain_m); NaN without one */
 	const char **notes;             /* assumptions and corrections applied, for reports */
 	size_t n_notes;
 };
@@ -169,6 +208,13 @@ struct sch_sweep {
 double sch_sweep_crossover(const struct sch_sweep_point *points, size_t n);
 
 /*
+ * The crossover of a whole sweep, as sch_sweep_crossover over its n_points, except that a
+ * temperature sweep (unit "C") is interpolated in kelvin, where the shot-to-thermal power ratio
+ * goes as 1/T, and the result is handed back in degrees C. This function can't fail.
+ */
+double sch_sweep_crossover_of(const struct sch_sweep *s);
+
+/*
  * Repeats the noise run of sch_analysis_run over values of one quantity (a current source's DC
  * value, a top-level .param through alterparam and reset, or "temp"), loading the circuit once per worker; opt->n_workers workers share the points.
  * The result res describes the last point; sweep gets every point and the crossover (log-log
@@ -178,6 +224,43 @@ double sch_sweep_crossover(const struct sch_sweep_point *points, size_t n);
 enum sch_err sch_analysis_sweep(const char *path, const struct sch_run_options *opt, const char *name,
 				const double *values, size_t n_values, struct sch_result *res, struct sch_sweep *sweep,
 				struct sch_diag *d);
+
+/*
+ * One run of a batch: simulator commands that change the loaded circuit for that run only. A
+ * batch point starts from the circuit as loaded only when its commands begin with "reset" (which
+ * undoes every earlier alter and option); names in them must have passed sch_sim_name_is_safe.
+ */
+struct sch_batch_point {
+	const char *const *commands;
+	size_t n_commands;
+};
+
+/*
+ * A batch: the sweep's machinery (one loaded circuit per worker, opt->n_workers workers) with a
+ * change of its own per point. The hooks run in the calling process as each point arrives, in
+ * the order points finish; prepare before the point's rows are made (it may change the carriers'
+ * gains in res->set), take with the point's full result (rows ranked, band integrated; it must
+ * copy what it keeps, the rows are freed after it) and the values of quantities read after the
+ * point, undo after take (whatever happened). NULL hooks are skipped; a hook's error stops the run.
+ */
+struct sch_batch {
+	const struct sch_batch_point *points;
+	size_t n_points;
+	const char *const *quantities;  /* extra quantities ("@r.x1.rf[resistance]") read after each point */
+	size_t n_quantities;
+	enum sch_err (*prepare)(void *ctx, size_t k, struct sch_result *res);
+	enum sch_err (*take)(void *ctx, size_t k, const struct sch_result *res, const double *quantities);
+	void (*undo)(void *ctx, size_t k, struct sch_result *res);
+	void *ctx;
+};
+
+/*
+ * Runs the points of batch as a sweep does (mode SCH_RUN_REPORT only, at least one point). res
+ * ends with the values every point shares (names, band, temperature), no rows. Errors as
+ * sch_analysis_run; SCH_ERR_USAGE for an empty batch.
+ */
+enum sch_err sch_analysis_batch(const char *path, const struct sch_run_options *opt, const struct sch_batch *batch,
+				struct sch_result *res, struct sch_diag *d);
 
 /* Options with every default set (junction correction on, NaN band, one worker). Can't fail. */
 void sch_run_options_init(struct sch_run_options *opt);

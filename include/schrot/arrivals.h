@@ -110,6 +110,8 @@ struct sch_arrivals {
 	const char *output;       /* "v(out)" or "v(a,b)" */
 	double *output_v;         /* output at the end of each window, n_windows values */
 	double output_mean_v, output_std_v, output_skewness;
+	double output_lag1_correlation; /* of each window's output with the next one's; NaN without spread */
+	double shortest_rc_s;     /* the circuit's shortest RC estimated from the deck; NaN: none found */
 	struct sch_arrival_counts *counts;
 	size_t n_counts;
 	size_t n_bins;            /* source points per carrier */
@@ -150,6 +152,13 @@ enum sch_err sch_report_arrivals_table(const struct sch_arrivals *a, FILE *out);
 
 /* JSON (schema 1): output_mean_v, output_std_v, output_skewness, counts[] with histograms. */
 enum sch_err sch_report_arrivals_json(const struct sch_arrivals *a, const char *path, struct sch_diag *d);
+
+/*
+ * One row per window, written atomically: window (1..n), end_s (time from the start, settling
+ * included), output_v, then "NAME count" per carrier (primary events in that window). SCH_ERR_IO
+ * when the file cannot be written.
+ */
+enum sch_err sch_report_arrivals_csv(const struct sch_arrivals *a, const char *path, struct sch_diag *d);
 
 /* Histogram plot (.svg or .png): output values against the Gaussian, counts against Poisson. */
 enum sch_err sch_report_arrivals_plot(const struct sch_arrivals *a, const char *path, struct sch_diag *d);

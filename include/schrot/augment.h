@@ -32,6 +32,12 @@ struct sch_augment_options {
 	bool junction_probes;    /* a generator across every diode too */
 	bool keep_analyses;      /* keep the deck's own analysis and output cards (for schrot augment) */
 	/*
+	 * schrot augment's plain deck: no generators inside definitions and no temperature reader
+	 * (sch_augment_write puts one per carrier instance at the top level), the deck's .noise card
+	 * left out (sch_augment_write writes the planned one).
+	 */
+	bool plain;
+	/*
 	 * A diode whose two nodes are a carrier's (same definition, either order) uses that carrier's
 	 * generator instead of a junction generator of its own: probe_of_element then maps both
 	 * elements to one probe, whose simulator name is the same for both instances.
@@ -75,14 +81,38 @@ const char *sch_augment_probe_sim_name(struct sch_arena *arena, const struct sch
 #define SCH_PROBE_OFF_OHMS 1e-30
 
 /*
- * Writes aug to out as a deck plain ngspice runs in batch mode: its cards up to ".end", then a
- * .control block that sizes every instance's probe resistor to 2q|I|G / (4 k_sim T) with the
- * operating-point currents of set at temp_k (SCH_PROBE_OFF_OHMS for a zero current or an instance
- * that is no carrier), runs noise_command, prints the integrated noise and quits with status 0 only
- * when the run produced it. aug must come from set's deck. Returns SCH_ERR_IO (message in d) when a write fails, SCH_ERR_NOMEM; out may then hold part
- * of the deck.
+ * The simulator's flat names of the first two nodes of deck element `element` in its instance at
+ * path ("x1.x2.iph"): a port is the node its X line connects it to, one level up at a time; an
+ * internal node is "x1.x2.node"; ground and .global nodes stay. Strings come from arena. Returns
+ * SCH_ERR_INPUT when the path does not follow the deck's hierarchy or the element has fewer than
+ * two nodes (out of memory reads as that too); the outputs are then unspecified.
  */
-enum sch_err sch_augment_write(const struct sch_augmented *aug, const struct sch_carrier_set *set, double temp_k,
-			       const char *noise_command, struct sch_arena *arena, FILE *out, struct sch_diag *d);
+enum sch_err sch_augment_flat_nodes(struct sch_arena *arena, const struct sch_deck *deck, int element,
+				    const char *path, const char **n_plus, const char **n_minus);
+
+/*
+ * An E/G TABLE card's text rewritten as "value={pwl(expr, x0-d, y0, x0, y0, ..., xn, yn, xn+d, yn)}"
+ * with d = (xn - x0) / 2 (flat beyond the ends), in arena. ngspice 39 turns a TABLE into a pwl
+ * code model whose small-signal gain in a noise run is taken at the AC solution instead of the
+ * operating point (measured: 520 V/V falls to 460 above 10 kHz); the behavioural pwl() keeps it.
+ * The code model rounds each corner within 10 % of the next segment; pwl() does not. NULL when
+ * the text is no TABLE with plain numeric, rising x values (it then stays as written) or when
+ * out of memory.
+ */
+const char *sch_augment_table_as_value(struct sch_arena *arena, const char *text);
+
+/*
+ * Writes aug (built from deck with opt->plain) to out as a plain deck: its cards, then one
+ * generator per carrier instance of set at the top level, across the instance's flat node names
+ * ("x1.x2.k"), its resistor a literal value sized for 2q|I|G with the operating-point current at
+ * temp_k (SCH_PROBE_OFF_OHMS for a zero current), then ".<noise_command>" and ".end". No .control
+ * block: 'ngspice -b -r out.raw' runs the deck's analyses and writes the noise spectrum, and a
+ * user's own .control block can go before the .end. Returns SCH_ERR_INPUT when an instance's node
+ * cannot be named at the top level, SCH_ERR_IO (message in d) when a write fails; out may then
+ * hold part of the deck.
+ */
+enum sch_err sch_augment_write(const struct sch_augmented *aug, const struct sch_deck *deck,
+			       const struct sch_carrier_set *set, double temp_k, const char *noise_command,
+			       struct sch_arena *arena, FILE *out, struct sch_diag *d);
 
 #endif

@@ -38,6 +38,11 @@ struct sch_carrier_options {
 	size_t n_avalanche;
 	struct sch_gain_rule *fano;
 	size_t n_fano;
+	/*
+	 * The hierarchical name of a swept current source: a carrier by the usual rules even when its
+	 * netlist value has no DC current (the sweep gives it one); NULL: none.
+	 */
+	const char *swept;
 };
 
 struct sch_carrier {
@@ -50,7 +55,20 @@ struct sch_carrier {
 	double gain_m;           /* 1 unless --avalanche */
 	double excess_f;         /* McIntyre F(M) for avalanche, the Fano factor for --fano, else 1 */
 	double dc_current_a;     /* terminal current from the operating point; NaN until simulated */
+	const char *time_function; /* "PULSE", "SIN", ... when the netlist value is one (sized at its
+				      operating-point value); NULL otherwise */
 };
+
+/*
+ * The amplifier-shape rule: a current element instance across a diode is a bias, clamp or offset
+ * construct, not a carrier, when its path passes (at any depth) through an instance of a subcircuit
+ * with at least this many ports
+ * and this many controlled sources (E, F, G, H, B) of its own, the shape of an op-amp or
+ * comparator macro-model. A photodiode model (anode, cathode, maybe a light pin; one generator)
+ * is not of that shape. The name rule, --carrier and the gain options still make it a carrier.
+ */
+#define SCH_AMP_SHAPE_MIN_PORTS 4
+#define SCH_AMP_SHAPE_MIN_CONTROLLED 3
 
 /* A DC current element that is not a carrier (noiseless in the simulator). */
 struct sch_source {
@@ -58,6 +76,8 @@ struct sch_source {
 	const char *sim_name;
 	int element;
 	double dc_current_a;     /* NaN until simulated */
+	/* why a current element across a diode is not a carrier (the amplifier-shape rule); NULL otherwise */
+	const char *reason;
 };
 
 struct sch_carrier_set {
@@ -70,8 +90,11 @@ struct sch_carrier_set {
 };
 
 /*
- * Expands the deck and classifies every current element instance (I; G; B with i=; F). Regexes
- * match the whole hierarchical name, case-insensitive. Storage comes from arena. Returns
+ * Expands the deck and classifies every current element instance (I; G; B with i=; F). An I
+ * element whose netlist value has no DC current (none, "dc 0", only "ac 1") is a carrier only
+ * when an option names it (or it is opt->swept). Regexes match the whole hierarchical name,
+ * case-insensitive; every --carrier, --ignore, --avalanche and --fano pattern must match a current
+ * element (SCH_ERR_USAGE naming the pattern and the closest names otherwise). Storage comes from arena. Returns
  * SCH_ERR_INPUT for a bad regex or a bad hierarchy (located message), SCH_ERR_NOMEM.
  */
 enum sch_err sch_carriers_find(const struct sch_deck *deck, const struct sch_carrier_options *opt,

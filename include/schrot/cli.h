@@ -25,6 +25,8 @@ struct sch_cli {
 	struct sch_gain_rule avalanche[SCH_MAX_RULES];
 	struct sch_gain_rule fano[SCH_MAX_RULES];
 	const char *vary;              /* sweep: NAME=START:STOP:N[:lin] */
+	int lever_max;                 /* levers --max */
+	double lever_factor;           /* levers --factor (> 1) */
 	int shard_k, shard_n;          /* sweep --shard K/N: this run's share of the points; 0/0: all */
 	/* arrivals */
 	double window_s;               /* --window; NaN: not given */
@@ -35,6 +37,7 @@ struct sch_cli {
 	unsigned long long seed;       /* --seed */
 	bool seed_given;
 	bool help;
+	bool show_corrections;         /* report: correction rows apart in the table */
 };
 
 /*

@@ -26,11 +26,27 @@ int cmd_carriers(int argc, char **argv, struct sch_ctx *ctx);
 int cmd_augment(int argc, char **argv, struct sch_ctx *ctx);
 int cmd_sweep(int argc, char **argv, struct sch_ctx *ctx);
 int cmd_arrivals(int argc, char **argv, struct sch_ctx *ctx);
+int cmd_levers(int argc, char **argv, struct sch_ctx *ctx);
 /* merge takes partial sweep JSON files, not a netlist: schrot merge PART.json... [--json OUT] */
 int cmd_merge(int argc, char **argv, struct sch_ctx *ctx);
 
 /* Writes every output file the options ask for (json, csv, spectrum, plot, html, depfile). */
 enum sch_err sch_cmd_write_outputs(const struct sch_cli *cli, const struct sch_result *res, struct sch_diag *d);
+
+/*
+ * Writes cli->depfile_path: every output file cli names (not '-') depends on every file res's
+ * netlist read. SCH_ERR_USAGE when cli names no output file; errors of sch_report_depfile.
+ */
+enum sch_err sch_cmd_write_depfile(const struct sch_cli *cli, const struct sch_result *res, struct sch_diag *d);
+
+/*
+ * The end of a whole sweep (sweep, and merge of its shards): unless a point's output rms exceeds
+ * cli->budget_v, the JSON, CSV, plot and depfile cli asks for (all or none); the table unless
+ * quiet or JSON on stdout; SCH_ERR_CHECK naming the worst point when over the budget, else the
+ * writers' errors.
+ */
+enum sch_err sch_cmd_sweep_finish(const struct sch_cli *cli, const struct sch_result *res, const struct sch_sweep *s,
+				  struct sch_diag *d);
 
 /* Prints the help text of the whole tool to out. */
 void sch_cmd_print_help(FILE *out);

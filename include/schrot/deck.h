@@ -41,6 +41,8 @@ struct sch_element {
 	int n_tok;
 	int card;            /* index into deck->cards */
 	int subckt;          /* enclosing definition, -1 at top level */
+	int n_nodes;         /* D, Q, M, J: the node tokens before the model name, decided at load from the
+			      * model's type and level as the simulator decides them; 0 for other letters */
 };
 
 struct sch_subckt {
@@ -56,11 +58,17 @@ struct sch_subckt {
 struct sch_model {
 	const char *name;    /* lower case */
 	const char *type;    /* lower case: "d", "npn", "pnp", "nmos", ... */
+	int level;           /* the card's level, read as the simulator reads it; 1 without one */
 	int card;
 	int subckt;          /* definition it is local to, -1 global */
 };
 
-/* The deck's own .noise line, tokens as written (lower case). present is false without one. */
+/*
+ * The deck's own .noise line, tokens as written (lower case). present is false without one. When
+ * the deck has no .noise line but a .control block holds a noise command, the reader rebuilds a
+ * .noise card from that command's checked tokens (from_control; the card's file and line are the
+ * command's) and the block itself is still never run.
+ */
 struct sch_noise_spec {
 	bool present;
 	const char *output;          /* "v(out)" or "v(out,ref)" */
@@ -71,6 +79,7 @@ struct sch_noise_spec {
 	const char *f_stop;
 	const char *pts_per_summary; /* NULL when absent */
 	int card;
+	bool from_control;           /* read from a .control block's noise command */
 };
 
 /*
@@ -94,6 +103,12 @@ struct sch_deck {
 	struct sch_noise_spec noise;
 	int n_dropped_control;       /* .control blocks skipped */
 	int n_dropped_script;        /* '*#' lines skipped */
+	/*
+	 * What the reader took from .control blocks as data and what it left out, one sentence each,
+	 * for reports (the same text also goes to the diagnostics as notes); n_notes 0 when none.
+	 */
+	const char **notes;
+	size_t n_notes;
 };
 
 /* One leaf element instance of the expanded hierarchy. */
@@ -132,8 +147,10 @@ int sch_deck_find_model(const struct sch_deck *deck, const char *name, int scope
 
 /*
  * Sets *nodes to the element's node tokens and returns their number (0 when the element has none
- * or is malformed). X: the ports before the subcircuit name; Q: 3 or 4 (4 when the fourth token
- * is not a model name); behavioural G/E (value=, cur=, vol=): 2; R C L D I V B F H: 2; M: 4; J: 3.
+ * or is malformed). X: the ports before the subcircuit name; D, Q, M, J: the tokens before the
+ * model name (D 2, or 3 with a thermal node; Q 3 to 5, the fourth a substrate and the fifth a
+ * thermal node; M 4, a vdmos model 3 to 5, SOI levels up to 7; J 3); behavioural G/E (value=,
+ * cur=, vol=): 2; R C L I V B F H: 2.
  */
 int sch_deck_element_nodes(const struct sch_deck *deck, const struct sch_element *e, const char *const **nodes);
 

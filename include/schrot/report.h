@@ -3,12 +3,20 @@
 #ifndef SCH_REPORT_H
 #define SCH_REPORT_H
 
+#include <stdbool.h>
 #include <stdio.h>
 #include "schrot/analysis.h"
 #include "schrot/diag.h"
 
-/* Terminal table of the noise report: totals on top, contributions ranked by share. */
+/*
+ * Terminal table of the noise report: totals on top, contributions ranked by share, each junction
+ * or bipolar correction folded into the simulator row it corrects (origin "corrected": one row per
+ * device and generator). Returns SCH_ERR_IO when out fails, SCH_ERR_NOMEM.
+ */
 enum sch_err sch_report_table(const struct sch_result *r, FILE *out);
+
+/* The same with split_corrections choosing between folded rows (false) and every row apart (true). */
+enum sch_err sch_report_table_split(const struct sch_result *r, FILE *out, bool split_corrections);
 
 /*
  * One sentence on whether the design is shot-noise limited, by what factor, and which device leads
@@ -25,7 +33,11 @@ enum sch_err sch_report_json(const struct sch_result *r, const char *path, struc
 /* One row per contribution, written atomically. */
 enum sch_err sch_report_csv(const struct sch_result *r, const char *path, struct sch_diag *d);
 
-/* One row per frequency: frequency, total, the top n contributions, then "rest". */
+/*
+ * One row per frequency: frequency, total, the top n contributions, "rest", then |transfer|.
+ * Densities are sqrt(|psd|) with psd's sign (negative where a row removes noise), so the signed
+ * squares of the contribution and rest columns add to the total's square at every frequency.
+ */
 enum sch_err sch_report_spectrum(const struct sch_result *r, const char *path, int top_n, struct sch_diag *d);
 
 /* Log-log plot of output density (total and top contributions), band shaded; .svg or .png. */
@@ -44,6 +56,22 @@ enum sch_err sch_report_sweep_table(const struct sch_result *r, const struct sch
 /* Sweep JSON (schema 1: vary, points, crossover), written atomically to path ("-": stdout). */
 enum sch_err sch_report_sweep_json(const struct sch_result *r, const struct sch_sweep *s, const char *path,
 				   struct sch_diag *d);
+
+/*
+ * Sweep CSV, one row per point, written atomically: value_a (a current), value_c (temp) or value
+ * (a .param), output_rms_v, input_rms_a or input_rms_v, carrier_power_v2, other_power_v2,
+ * shot_to_rest. SCH_ERR_IO when the file cannot be written.
+ */
+enum sch_err sch_report_sweep_csv(const struct sch_result *r, const struct sch_sweep *s, const char *path,
+				  struct sch_diag *d);
+
+/*
+ * Plot of a sweep (.svg or .png by the name, written atomically): output rms, the carriers' shot
+ * noise and all other noise over the band against the varied value (log axis over more than a
+ * decade of positive values), the crossover as a dashed line. SCH_ERR_USAGE for another extension
+ * or nothing positive to draw, SCH_ERR_IO when cairo or the file fails.
+ */
+enum sch_err sch_report_sweep_plot(const struct sch_sweep *s, const char *path, struct sch_diag *d);
 
 /* Where a partial sweep (sweep --shard K/N) sits in the whole one. */
 struct sch_sweep_shard {

@@ -1,6 +1,6 @@
 /* SPDX-License-Identifier: BSD-3-Clause */
 /*
- * sim.h - the simulator session. Only sim_ngspice.c talks to the ngspice shared library. Every run
+ * sim.h - the simulator session. Only src/sim/ talks to the ngspice shared library. Every run
  * happens in a worker process, so a simulator crash, exit or dead library never takes the tool
  * down; netlist text and start-up scripts never make the simulator run commands.
  */
@@ -9,6 +9,7 @@
 
 #include <stdbool.h>
 #include <stddef.h>
+#include "schrot/arena.h"
 #include "schrot/diag.h"
 
 /* Commands run in order in one step, e.g. "noise v(out) iph dec 10 1 1meg 1" or "op". */
@@ -61,7 +62,23 @@ struct sch_sim_request {
 	double tran_sample_start_s;
 	double tran_sample_step_s;
 	size_t tran_n_samples;
-	/* Extra code-model libraries by file name ("analog.cm"), loaded from the simulator's own directory. */
+	/*
+	 * Run a one-point AC analysis before each step's noise run. ngspice 39 evaluates code-model
+	 * (A) devices' small-signal response wrongly in a noise run that no AC analysis preceded
+	 * (measured: an s_xfer low-pass gave an output density rising with frequency); after one, every
+	 * point but the first agrees with a plain AC analysis.
+	 */
+	bool prime_ac;
+	/*
+	 * The simulator's compatibility mode ("ps", "ltpsa": ngspice's ngbehavior), set before the
+	 * deck loads; NULL for none. Only a value sch_sim_compat_mode_known accepts is applied.
+	 */
+	const char *compat_mode;
+	/*
+	 * Code-model libraries by file name ("analog.cm"), loaded from the simulator's own directory
+	 * besides the standard ones (spice2poly, analog, digital, xtradev, xtraevt, table), which are
+	 * always loaded.
+	 */
 	const char *const *code_models;
 	size_t n_code_models;
 	/*
@@ -142,6 +159,30 @@ void sch_sim_set_budget(const struct sch_sim_budget *b);
 
 /* The budget workers get now (the defaults unless sch_sim_set_budget changed it). */
 struct sch_sim_budget sch_sim_get_budget(void);
+
+/* The canonical spelling of a compatibility mode ngspice reads (case ignored), or NULL for any other text. */
+const char *sch_sim_compat_mode_known(const char *mode);
+
+/* The known compatibility modes, for messages: "a, all, eg, ...". Static storage. */
+const char *sch_sim_compat_mode_list(void);
+
+/* What a .spiceinit beside a netlist says, read as data (the file is never run). */
+struct sch_spiceinit {
+	const char *path;      /* where it was looked for */
+	bool present;          /* the file exists and was read */
+	const char *mode;      /* its "set ngbehavior=..." with a known value, or NULL */
+	long mode_line;        /* that line, 1-based */
+	const char *bad_mode;  /* a "set ngbehavior=..." value that is not known, or NULL */
+	size_t n_ignored;      /* lines that say something else (never honoured) */
+};
+
+/*
+ * Reads the .spiceinit in netlist's directory, if any, for its one compatibility-mode setting;
+ * every other line is only counted. A missing or unreadable file is no error (si->present false).
+ * Strings live in arena. Returns SCH_ERR_NOMEM only.
+ */
+enum sch_err sch_sim_read_spiceinit(const char *netlist, struct sch_arena *arena, struct sch_spiceinit *si,
+				    struct sch_diag *d);
 
 /* True when name consists only of [a-z0-9_.#+-] characters and is 1..200 bytes long. */
 bool sch_sim_name_is_safe(const char *name);

@@ -42,6 +42,7 @@ void sch_run_options_init(struct sch_run_options *opt)
 	opt->junction_correction = true;
 	opt->responsivity_a_per_w = NAN;
 	opt->signal = NAN;
+	opt->signal_freq_hz = NAN;
 	opt->n_workers = 1;
 }
 
@@ -61,6 +62,12 @@ void sch_result_init(struct sch_result *res)
 	res->dominant_other_share = NAN;
 	res->output_rms_v = NAN;
 	res->input_rms = NAN;
+	res->transfer.mid_band = NAN;
+	res->transfer.ref_hz = NAN;
+	res->transfer.f_low_hz = NAN;
+	res->transfer.f_high_hz = NAN;
+	res->transfer.enbw_hz = NAN;
+	res->input_gain_m = 1;
 }
 
 void sch_result_release(struct sch_result *res)
@@ -111,11 +118,15 @@ static enum sch_err analysis_core(const char *path, const struct sch_run_options
 	an.d = d;
 	res->netlist = sch_arena_strdup(&res->arena, path);
 	if ((ret = sch_deck_load(&res->deck, path, d)) != SCH_OK ||
+	    (ret = sch_analysis_plan_dialect(&an)) != SCH_OK ||
 	    (ret = sch_carriers_find(&res->deck, &opt->carriers, &res->arena, &res->set, d)) != SCH_OK ||
+	    (ret = sch_analysis_check_rules(&an)) != SCH_OK ||
 	    (ret = sch_analysis_plan_report(&an)) != SCH_OK ||
 	    (ret = sch_analysis_plan_lump(&an)) != SCH_OK ||
 	    (ret = sch_analysis_build_decks(&an)) != SCH_OK ||
-	    (ret = sch_analysis_plan_quantities(res, &an.aug, &an.q)) != SCH_OK)
+	    (ret = sch_analysis_plan_quantities(res, &an.aug, &an.q)) != SCH_OK ||
+	    (ret = sch_analysis_batch_quantities(&an)) != SCH_OK ||
+	    (ret = sch_analysis_value_quantities(&an)) != SCH_OK)
 		goto out;
 	sch_analysis_plan_steps(&an);
 	if ((ret = sch_analysis_sweep_steps(&an)) != SCH_OK ||
@@ -144,7 +155,8 @@ enum sch_err sch_analysis_sweep(const char *path, const struct sch_run_options *
 				const double *values, size_t n_values, struct sch_result *res, struct sch_sweep *sweep,
 				struct sch_diag *d)
 {
-	struct sch_vary_plan vary = { name, values, n_values, sweep };
+	struct sch_vary_plan vary = { name, values, n_values, sweep, NULL };
+	struct sch_run_options swept = *opt; /* the swept source is a carrier even at "dc 0" in the netlist */
 
 	memset(sweep, 0, sizeof(*sweep));
 	sweep->crossover = NAN;
@@ -155,5 +167,24 @@ enum sch_err sch_analysis_sweep(const char *path, const struct sch_run_options *
 		return SCH_ERR_NOMEM;
 	if (opt->mode != SCH_RUN_REPORT || n_values < 2)
 		return sch_diag_error(d, SCH_ERR_USAGE, NULL, 0, "a sweep needs a noise run and at least two points");
+	swept.carriers.swept = name;
+	return analysis_core(path, &swept, &vary, res, d);
+}
+
+enum sch_err sch_analysis_batch(const char *path, const struct sch_run_options *opt, const struct sch_batch *batch,
+				struct sch_result *res, struct sch_diag *d)
+{
+	struct sch_sweep sweep;
+	struct sch_vary_plan vary = { NULL, NULL, batch->n_points, &sweep, batch };
+
+	memset(&sweep, 0, sizeof(sweep));
+	sweep.crossover = NAN;
+	sweep.name = "batch";
+	sweep.unit = "";
+	if (opt->mode != SCH_RUN_REPORT || batch->n_points < 1)
+		return sch_diag_error(d, SCH_ERR_USAGE, NULL, 0, "a batch needs a noise run and at least one point");
+	sweep.points = sch_arena_alloc(&res->arena, (batch->n_points + 1) * sizeof(*sweep.points));
+	if (!sweep.points)
+		return SCH_ERR_NOMEM;
 	return analysis_core(path, opt, &vary, res, d);
 }

@@ -44,6 +44,10 @@ struct sch_quantity_plan {
 	size_t n_diodes;
 	size_t bjts;       /* first bipolar quantity; four (ic, ib, vbe, vbc) per bipolar instance */
 	int *bjt_of_inst;  /* instance -> its index among the bipolar instances, -1 */
+	size_t extra;      /* first of a batch's own quantities */
+	size_t values;     /* read_values: first instance value */
+	int *value_inst;   /* read_values: the instance of each value quantity, n_values of them */
+	size_t n_values;
 };
 
 /* Everything the mapping of simulator vectors to device instances needs. */
@@ -70,12 +74,13 @@ struct sch_lump_plan {
 	const char *label;    /* the row's device name */
 };
 
-/* How a sweep changes one quantity per step; NULL name for a plain run. */
+/* How a sweep changes one quantity per step; a batch (name NULL) carries each point's own change. */
 struct sch_vary_plan {
 	const char *name;
 	const double *values;
 	size_t n;
 	struct sch_sweep *sweep;
+	const struct sch_batch *batch;  /* NULL for a sweep */
 };
 
 /*
@@ -107,6 +112,9 @@ struct sch_analysis {
 	struct sch_source *noiseless_all;   /* sweeps: the sources before any point compacted them */
 	size_t n_noiseless_all;
 	size_t n_done;                      /* sweeps: points taken so far */
+	long junction_note;                 /* index in notes of the junction correction's note, -1: none */
+	int n_junction_rows;                /* junction correction rows made (before small ones are dropped) */
+	double gmin;                        /* the deck's GMIN, for that note */
 };
 
 /* One noise outcome being turned into rows: what the parts of sch_analysis_take_noise share. */
@@ -230,6 +238,29 @@ enum sch_err sch_analysis_correct(struct sch_analysis *an, struct sch_row_build 
  */
 enum sch_err sch_analysis_integrate(struct sch_result *res, const struct sch_run_options *opt, struct sch_diag *d);
 
+/* rules.c */
+
+/*
+ * Refuses (SCH_ERR_USAGE) an --avalanche or --fano rule that matches no carrier but a diode,
+ * naming the carrier across that diode to use instead. SCH_ERR_INPUT for a bad regex.
+ */
+enum sch_err sch_analysis_check_rules(struct sch_analysis *an);
+
+/* A note per gain rule: M, k and F(M), or the Fano factor, and the carriers it set. SCH_ERR_NOMEM. */
+enum sch_err sch_analysis_note_rules(struct sch_analysis *an);
+
+/* The avalanche gain M of the carrier that is the noise input source; 1 without one. Can't fail. */
+double sch_analysis_input_gain(const struct sch_result *res);
+
+/* transfer.c */
+
+/*
+ * res->transfer from the squared gain once the band is set: the reference frequency (opt's signal
+ * frequency, else the band's peak |H|), mid-band value, -3 dB points and noise-equivalent
+ * bandwidth. Returns SCH_ERR_USAGE for a signal frequency outside the simulated range.
+ */
+enum sch_err sch_analysis_transfer(struct sch_result *res, const struct sch_run_options *opt, struct sch_diag *d);
+
 /* verdict.c */
 
 /*
@@ -237,6 +268,38 @@ enum sch_err sch_analysis_integrate(struct sch_result *res, const struct sch_run
  * ranked by band power. Returns SCH_ERR_NOMEM on failure.
  */
 enum sch_err sch_analysis_verdict(struct sch_result *res);
+
+/*
+ * After integration: when the table dropped junction correction rows too small to matter, the
+ * junction note says how many (so its count matches the rows). SCH_ERR_NOMEM.
+ */
+enum sch_err sch_analysis_junction_note_recount(struct sch_analysis *an);
+
+/*
+ * After integration: a note per carrier with a --fano rule (2q|I|F holds well below its electron
+ * rate |I|/q) and, outside sweeps, a warning when the band reaches within a decade of that rate.
+ * SCH_ERR_NOMEM.
+ */
+enum sch_err sch_analysis_fano_notes(struct sch_analysis *an);
+
+/*
+ * After the operating point: a note per carrier whose netlist value is a time function (PULSE,
+ * SIN, ...) naming the DC operating-point current its generator is sized from and, outside
+ * sweeps, a warning when that current is zero. SCH_ERR_NOMEM.
+ */
+enum sch_err sch_analysis_time_source_notes(struct sch_analysis *an);
+
+/*
+ * dialect.c: the compatibility mode (--dialect, else a .spiceinit's one setting read as data) in
+ * res->compat_mode, with notes saying where it came from and what of the .spiceinit was ignored.
+ * SCH_ERR_NOMEM.
+ */
+enum sch_err sch_analysis_plan_dialect(struct sch_analysis *an);
+
+/* light.c: a note when the input is a voltage standing for the optical power a carrier reads. SCH_ERR_NOMEM. */
+enum sch_err sch_analysis_note_light_input(struct sch_analysis *an);
+/* light.c: a note naming how many E/G TABLE sources run as pwl() (sch_augment_table_as_value). SCH_ERR_NOMEM. */
+enum sch_err sch_analysis_note_tables(struct sch_analysis *an);
 
 /* The notes that close a run (resistor count, noiseless sources, the constants). SCH_ERR_NOMEM. */
 enum sch_err sch_analysis_closing_notes(struct sch_analysis *an);
@@ -255,6 +318,20 @@ enum sch_err sch_analysis_sweep_steps(struct sch_analysis *an);
  * to the result as it finishes (an->req.on_step). No-op for a single run. SCH_ERR_NOMEM.
  */
 enum sch_err sch_analysis_sweep_prepare(struct sch_analysis *an);
+
+/* values.c */
+
+/*
+ * opt->read_values: one quantity per resistor, capacitor and current source instance whose
+ * simulator name is safe ("@r.x1.rf[resistance]", "[capacitance]", "[dc]"). No-op otherwise. SCH_ERR_NOMEM.
+ */
+enum sch_err sch_analysis_value_quantities(struct sch_analysis *an);
+
+/* Copies the values read into res->instance_values (NaN elsewhere). No-op otherwise. SCH_ERR_NOMEM. */
+enum sch_err sch_analysis_take_values(struct sch_analysis *an, const struct sch_sim_outcome *o);
+
+/* A batch's own quantities after the planned ones (q->extra). No-op otherwise. SCH_ERR_NOMEM. */
+enum sch_err sch_analysis_batch_quantities(struct sch_analysis *an);
 
 /* After a sweep ran: every point taken, and the crossover. SCH_ERR_SIM for a point without result. */
 enum sch_err sch_analysis_sweep_finish(struct sch_analysis *an);

@@ -9,6 +9,7 @@
 #include "analysis_int.h"
 #include "schrot/pattern.h"
 #include "schrot/physics.h"
+#include "schrot/si.h"
 
 static enum sch_mechanism mechanism_of(char letter, const char *gen)
 {
@@ -299,9 +300,12 @@ static enum sch_err take_spectra(struct sch_result *res, const struct sch_sim_ou
 	const struct sch_sim_vector *inn = sch_sim_find_vector(o, "inoise_spectrum");
 	size_t nf;
 
-	if (!fv || !on || !inn || fv->n < 2 || on->n != fv->n || inn->n != fv->n)
+	/* a spot run (start == stop) has one point; a sweep needs two */
+	if (!fv || !on || !inn || fv->n < (res->run_lo_hz == res->run_hi_hz ? 1u : 2u) || on->n != fv->n ||
+	    inn->n != fv->n)
 		return sch_diag_error(d, SCH_ERR_SIM, NULL, 0, "simulator: the noise run returned no spectra");
 	nf = fv->n;
+	res->spot_run = nf == 1;
 	res->n_freq = nf;
 	res->freq_hz = sch_arena_alloc(a, nf * sizeof(double));
 	res->gain2 = sch_arena_alloc(a, nf * sizeof(double));
@@ -491,5 +495,66 @@ enum sch_err sch_analysis_take_noise(struct sch_analysis *an, const struct sch_s
 		return ret;
 	an->res->contributions = rb.list.v;
 	an->res->n_contributions = rb.list.n;
+	return SCH_OK;
+}
+
+enum sch_err sch_analysis_fano_notes(struct sch_analysis *an)
+{
+	const struct sch_result *res = an->res;
+	const struct sch_carrier_set *set = &res->set;
+
+	for (size_t k = 0; k < set->n_carriers; k++) {
+		const struct sch_carrier *c = &set->carriers[k];
+		double rate_hz = fabs(c->dc_current_a) / SCH_Q;
+		char rate[64], band[64];
+		if (!(c->why & SCH_WHY_FANO) || !(rate_hz > 0) || !isfinite(rate_hz))
+			continue;
+		sch_si_format(rate, sizeof(rate), rate_hz, 3, "Hz");
+		/*
+		 * A Fano factor describes the count statistics of windows that each hold many electrons;
+		 * at frequencies near the electron rate the spectrum of any arrival process returns to
+		 * full shot noise (de Jong & Beenakker 1997; "a decade below" is common practice, no source).
+		 */
+		if (sch_analysis_note(an, sch_arena_printf(&an->res->arena,
+							   "%s: 2q|I|F with F = %g holds for frequencies well below "
+							   "its electron rate |I|/q = %s",
+							   c->name, c->excess_f, rate)) != SCH_OK)
+			return SCH_ERR_NOMEM;
+		if (!an->vary && res->band_hi_hz > 0.1 * rate_hz) {
+			sch_si_format(band, sizeof(band), res->band_hi_hz, 3, "Hz");
+			sch_diag_report(an->d, SCH_WARNING, NULL, 0,
+					"the band reaches %s, within a decade of %s's electron rate |I|/q = %s: its "
+					"Fano-suppressed density 2q|I|F does not hold there",
+					band, c->name, rate);
+		}
+	}
+	return SCH_OK;
+}
+
+enum sch_err sch_analysis_time_source_notes(struct sch_analysis *an)
+{
+	const struct sch_carrier_set *set = &an->res->set;
+
+	for (size_t k = 0; k < set->n_carriers; k++) {
+		struct sch_carrier *c = &an->res->set.carriers[k];
+		char cur[64];
+		if (!c->time_function)
+			continue;
+		sch_si_format(cur, sizeof(cur), c->dc_current_a, 3, "A");
+		/* the carrier list says it too (not in a sweep, whose points' strings do not outlive them) */
+		if (!an->vary && !(c->reason = sch_arena_printf(&an->res->arena, "%s; %s source, sized at its DC operating "
+										  "point", c->reason, c->time_function)))
+			return SCH_ERR_NOMEM;
+		if (sch_analysis_note(an, sch_arena_printf(&an->res->arena,
+							   "%s is a %s source: its shot noise is sized from its DC "
+							   "operating-point current %s (the function's value at t = 0)",
+							   c->name, c->time_function, cur)) != SCH_OK)
+			return SCH_ERR_NOMEM;
+		if (!an->vary && c->dc_current_a == 0)
+			sch_diag_report(an->d, SCH_WARNING, NULL, 0,
+					"carrier %s is a %s source with no current at the operating point: it adds no "
+					"shot noise (give it a DC value, or a level with 'dc')",
+					c->name, c->time_function);
+	}
 	return SCH_OK;
 }

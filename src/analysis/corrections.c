@@ -5,7 +5,10 @@
  */
 #include <math.h>
 #include <stdbool.h>
+#include <stdio.h>
+#include <string.h>
 #include "analysis_int.h"
+#include "schrot/si.h"
 #include "schrot/physics.h"
 
 /*
@@ -46,9 +49,19 @@ static enum sch_err correct_junction(struct sch_row_build *rb, size_t j, bool *a
 		return SCH_ERR_NOMEM;
 	ct->device = in->path;
 	ct->generator = "junction";
-	ct->mechanism = SCH_MECH_SHOT;
 	ct->origin = SCH_ORIGIN_CORRECTION;
-	ct->dc_current_a = ij;
+	/*
+	 * Near zero bias the junction's noise is the Nyquist noise 4kT*g_j of its conductance, which
+	 * its DC current does not set: 2q|I_j| is the part tanh(|qV_j/2kT|) of S_j, so below half of
+	 * it (|V_j| < 1.1 kT/q) the row is thermal and names no current (common practice, no source).
+	 */
+	if (2.0 * SCH_Q * fabs(ij) < 0.5 * sj) {
+		ct->mechanism = SCH_MECH_THERMAL;
+		ct->dc_current_a = NAN;
+	} else {
+		ct->mechanism = SCH_MECH_SHOT;
+		ct->dc_current_a = ij;
+	}
 	for (size_t i = 0; i < rb->nf; i++) {
 		double h2 = h2_src[i] * h2_scale;
 		double sim_psd = m->id_row[k] >= 0 ? rb->list.v[m->id_row[k]].psd[i] : 0.0;
@@ -133,12 +146,30 @@ static enum sch_err correct_bipolars(struct sch_row_build *rb, int *n_corrected)
 	return SCH_OK;
 }
 
+/*
+ * "junction correction applied to 3 diode instances: ...", and when fewer rows are listed than
+ * applied, how many the table leaves out as too small to matter. NULL when out of memory.
+ */
+static const char *junction_note(struct sch_arena *a, int n_applied, int n_listed, double gmin)
+{
+	char left_out[160] = "", gmin_text[48];
+
+	if (n_listed < n_applied)
+		snprintf(left_out, sizeof(left_out), "; %d of these row%s below 1e-9 of the output noise power, "
+			 "left out of the table", n_applied - n_listed, n_applied - n_listed == 1 ? " is" : "s are");
+	return sch_arena_printf(a, "junction correction applied to %d diode instance%s: 2q*I_j*coth(qV_j/2kT) in "
+				   "place of the simulator's 2q|I_D| (GMIN %s kept out)%s",
+				n_applied, n_applied == 1 ? "" : "s", sch_si_format(gmin_text, sizeof(gmin_text), gmin, 3, "S"),
+				left_out);
+}
+
 enum sch_err sch_analysis_correct(struct sch_analysis *an, struct sch_row_build *rb)
 {
 	struct sch_arena *a = &an->res->arena;
 	int n_diodes = 0, n_bjt = 0;
 	enum sch_err ret;
 
+	an->junction_note = -1;
 	if (!an->opt->junction_correction)
 		return SCH_OK;
 	if ((ret = correct_junctions(rb, &n_diodes)) != SCH_OK || (ret = correct_bipolars(rb, &n_bjt)) != SCH_OK)
@@ -148,10 +179,32 @@ enum sch_err sch_analysis_correct(struct sch_analysis *an, struct sch_row_build 
 								      "(I_B - GMIN*(V_BE+V_BC), I_C + GMIN*V_BC)",
 								      n_bjt, n_bjt == 1 ? "" : "s"))) != SCH_OK)
 		return ret;
-	if (n_diodes)
-		return sch_analysis_note(an, sch_arena_printf(a, "junction correction applied to %d diode instance%s: "
-								 "2q*I_j*coth(qV_j/2kT) in place of the simulator's "
-								 "2q|I_D| (GMIN %g S kept out)",
-							      n_diodes, n_diodes == 1 ? "" : "s", rb->gmin));
+	an->n_junction_rows = n_diodes;
+	an->junction_note = -1;
+	if (n_diodes) {
+		an->junction_note = (long)an->notes.n;
+		an->gmin = rb->gmin;
+		return sch_analysis_note(an, junction_note(a, n_diodes, n_diodes, rb->gmin));
+	}
+	return SCH_OK;
+}
+
+enum sch_err sch_analysis_junction_note_recount(struct sch_analysis *an)
+{
+	const struct sch_result *res = an->res;
+	int listed = 0;
+	const char *s;
+
+	if (an->junction_note < 0 || (size_t)an->junction_note >= an->notes.n)
+		return SCH_OK;
+	for (size_t c = 0; c < res->n_contributions; c++) {
+		const struct sch_contribution *ct = &res->contributions[c];
+		listed += ct->origin == SCH_ORIGIN_CORRECTION && ct->generator && strcmp(ct->generator, "junction") == 0;
+	}
+	if (listed == an->n_junction_rows)
+		return SCH_OK;
+	if (!(s = junction_note(&an->res->arena, an->n_junction_rows, listed, an->gmin)))
+		return SCH_ERR_NOMEM;
+	an->notes.v[an->junction_note] = s;
 	return SCH_OK;
 }

@@ -133,9 +133,10 @@ enum sch_err sch_analysis_plan_noise(const struct sch_deck *deck, const struct s
 	} else if ((ret = card_sweep(deck, plan, &n_points, &sweep, d)) != SCH_OK) {
 		return ret;
 	}
-	if (!(plan->f_stop > plan->f_start) || n_points < 1)
+	/* start == stop is a spot run: one frequency, no band (the simulator then makes no noise2 plot) */
+	if (!(plan->f_stop >= plan->f_start) || n_points < 1)
 		return sch_diag_error(d, SCH_ERR_INPUT, opt->have_freq ? NULL : where_file, where_line,
-				      "noise sweep needs a stop frequency above its start and at least one point");
+				      "noise sweep needs a stop frequency at or above its start and at least one point");
 	plan->output = sch_arena_strdup(a, out_norm);
 	plan->input = sch_arena_strdup(a, in_lower);
 	plan->letter = src->letter;
@@ -174,11 +175,19 @@ enum sch_err sch_analysis_plan_report(struct sch_analysis *an)
 		return SCH_OK;
 	if ((ret = sch_analysis_plan_noise(&res->deck, an->opt, &res->arena, plan, an->d)) != SCH_OK)
 		return ret;
+	if (an->vary && plan->f_start == plan->f_stop)
+		return sch_diag_error(an->d, SCH_ERR_USAGE, res->deck.path, 0,
+				      "a sweep needs a band: the noise run is a single-frequency spot run at %g Hz",
+				      plan->f_start);
 	res->output = plan->output;
 	res->input = plan->input;
 	res->input_unit = plan->letter == 'i' ? "A" : "V";
 	res->run_lo_hz = plan->f_start;
 	res->run_hi_hz = plan->f_stop;
+	for (size_t i = 0; i < res->deck.n_notes; i++) {
+		if ((ret = sch_analysis_note(an, res->deck.notes[i])) != SCH_OK)
+			return ret;
+	}
 	if (plan->needs_ac) {
 		an->aopt.ac_source = plan->input;
 		ret = sch_analysis_note(an, sch_arena_printf(&res->arena, "input source '%s' has no AC value: AC 1 supplied "
@@ -187,6 +196,8 @@ enum sch_err sch_analysis_plan_report(struct sch_analysis *an)
 		if (ret != SCH_OK)
 			return ret;
 	}
+	if ((ret = sch_analysis_note_light_input(an)) != SCH_OK || (ret = sch_analysis_note_tables(an)) != SCH_OK)
+		return ret;
 	an->aopt.junction_probes = an->opt->junction_correction;
 	an->aopt.share_paired_junctions = true;
 	return SCH_OK;

@@ -128,6 +128,9 @@ enum sch_err sch_analysis_build_request(struct sch_analysis *an)
 		req->keep_vector_ctx = &an->m;
 	}
 	req->squared_noise = true;
+	req->compat_mode = an->res->compat_mode;
+	for (size_t k = 0; report && k < an->res->deck.n_elements; k++)
+		req->prime_ac = req->prime_ac || an->res->deck.elements[k].letter == 'a';
 	req->n_workers = an->vary ? an->opt->n_workers : 1;
 	return SCH_OK;
 }
@@ -270,13 +273,18 @@ enum sch_err sch_analysis_take_step(struct sch_analysis *an, const struct sch_si
 {
 	enum sch_err ret;
 
-	if ((ret = take_operating_point(an->res, &an->q, o, an->d)) != SCH_OK)
+	if ((ret = take_operating_point(an->res, &an->q, o, an->d)) != SCH_OK ||
+	    (ret = sch_analysis_take_values(an, o)) != SCH_OK ||
+	    (ret = sch_analysis_time_source_notes(an)) != SCH_OK)
 		return ret;
 	if (an->opt->mode != SCH_RUN_REPORT)
 		return SCH_OK;
-	if ((ret = sch_analysis_take_noise(an, o)) != SCH_OK)
+	if ((ret = sch_analysis_take_noise(an, o)) != SCH_OK ||
+	    (ret = sch_analysis_integrate(an->res, an->opt, an->d)) != SCH_OK)
 		return ret;
-	return sch_analysis_integrate(an->res, an->opt, an->d);
+	if ((ret = sch_analysis_junction_note_recount(an)) != SCH_OK)
+		return ret;
+	return sch_analysis_fano_notes(an);
 }
 
 enum sch_err sch_analysis_take_outcome(struct sch_analysis *an)

@@ -9,6 +9,7 @@
 #include <string.h>
 #include <strings.h>
 #include "analysis_int.h"
+#include "schrot/physics.h"
 
 /* True when a top-level .param card defines name (lower case). */
 static bool deck_defines_param(const struct sch_deck *deck, const char *name)
@@ -62,20 +63,66 @@ static enum sch_err vary_command(const struct sch_result *res, const char *name,
 			      name);
 }
 
-double sch_sweep_crossover(const struct sch_sweep_point *p, size_t n)
+/*
+ * The crossover with every value read as value + shift (273.15 puts degrees C on the kelvin scale,
+ * where the shot-to-thermal ratio goes as 1/T), handed back on the values' own scale.
+ */
+static double crossover_shifted(const struct sch_sweep_point *p, size_t n, double shift)
 {
 	for (size_t i = 0; i + 1 < n; i++) {
 		double r0 = p[i].carrier_power_v2 / p[i].other_power_v2;
 		double r1 = p[i + 1].carrier_power_v2 / p[i + 1].other_power_v2;
+		double v0 = p[i].value + shift, v1 = p[i + 1].value + shift;
 		if (!(r0 > 0) || !(r1 > 0) || !isfinite(r0) || !isfinite(r1) || (r0 - 1) * (r1 - 1) > 0 || r0 == r1)
 			continue;
-		if (p[i].value > 0 && p[i + 1].value > 0) {
+		if (v0 > 0 && v1 > 0) {
 			double t = -log(r0) / (log(r1) - log(r0));
-			return exp(log(p[i].value) + t * (log(p[i + 1].value) - log(p[i].value)));
+			return exp(log(v0) + t * (log(v1) - log(v0))) - shift;
 		}
-		return p[i].value + (1 - r0) / (r1 - r0) * (p[i + 1].value - p[i].value);
+		return v0 + (1 - r0) / (r1 - r0) * (v1 - v0) - shift;
 	}
 	return NAN;
+}
+
+double sch_sweep_crossover(const struct sch_sweep_point *p, size_t n)
+{
+	return crossover_shifted(p, n, 0);
+}
+
+double sch_sweep_crossover_of(const struct sch_sweep *s)
+{
+	return crossover_shifted(s->points, s->n_points, strcmp(s->unit, "C") == 0 ? SCH_ZERO_C_K : 0);
+}
+
+/* A batch point's step: its own commands, then an->commands. */
+static enum sch_err batch_step(struct sch_analysis *an, size_t k, struct sch_sim_step *step)
+{
+	const struct sch_batch_point *bp = &an->vary->batch->points[k];
+	const char **cmds = sch_arena_alloc(&an->res->arena, (bp->n_commands + an->n_commands + 1) * sizeof(*cmds));
+	size_t nc = 0;
+
+	if (!cmds)
+		return SCH_ERR_NOMEM;
+	for (size_t c = 0; c < bp->n_commands; c++)
+		cmds[nc++] = bp->commands[c];
+	for (size_t c = 0; c < an->n_commands; c++)
+		cmds[nc++] = an->commands[c];
+	step->commands = cmds;
+	step->n_commands = nc;
+	return SCH_OK;
+}
+
+enum sch_err sch_analysis_batch_quantities(struct sch_analysis *an)
+{
+	const struct sch_batch *b = an->vary ? an->vary->batch : NULL;
+	enum sch_err ret;
+
+	an->q.extra = an->q.names.n;
+	for (size_t k = 0; b && k < b->n_quantities; k++) {
+		if ((ret = sch_strlist_push(&an->res->arena, &an->q.names, b->quantities[k])) != SCH_OK)
+			return ret;
+	}
+	return SCH_OK;
 }
 
 /* Point k's step: the command that sets the quantity, a reset for a .param, then an->commands. */
@@ -115,7 +162,7 @@ enum sch_err sch_analysis_sweep_steps(struct sch_analysis *an)
 	if (!(steps = sch_arena_alloc(&an->res->arena, (an->vary->n + 1) * sizeof(*steps))))
 		return SCH_ERR_NOMEM;
 	for (size_t k = 0; k < an->vary->n; k++) {
-		if ((ret = point_step(an, k, &steps[k])) != SCH_OK)
+		if ((ret = (an->vary->batch ? batch_step : point_step)(an, k, &steps[k])) != SCH_OK)
 			return ret;
 	}
 	an->steps = steps;
@@ -147,7 +194,7 @@ static void point_record(struct sch_analysis *an, size_t k)
 	const struct sch_result *res = an->res;
 	struct sch_sweep_point *p = &an->vary->sweep->points[k];
 
-	p->value = an->vary->values[k];
+	p->value = an->vary->values ? an->vary->values[k] : (double)k;
 	p->output_rms_v = res->output_rms_v;
 	p->input_rms = res->input_rms;
 	p->carrier_power_v2 = res->carrier_power_v2;
@@ -184,10 +231,15 @@ static enum sch_err sweep_point_done(void *ctx, size_t step, const struct sch_si
 {
 	struct sch_analysis *an = ctx;
 	struct sch_arena kept = an->res->arena;
+	const struct sch_batch *b = an->vary->batch;
 	enum sch_err ret;
 
-	if ((ret = point_begin(an)) == SCH_OK && (ret = sch_analysis_take_step(an, o)) == SCH_OK)
+	if ((ret = point_begin(an)) == SCH_OK && (!b || !b->prepare || (ret = b->prepare(b->ctx, step, an->res)) == SCH_OK) &&
+	    (ret = sch_analysis_take_step(an, o)) == SCH_OK &&
+	    (!b || !b->take || (ret = b->take(b->ctx, step, an->res, o->quantities + an->q.extra)) == SCH_OK))
 		point_record(an, step);
+	if (b && b->undo)
+		b->undo(b->ctx, step, an->res);
 	point_end(an, kept);
 	return ret;
 }
@@ -217,6 +269,6 @@ enum sch_err sch_analysis_sweep_finish(struct sch_analysis *an)
 			return sch_diag_error(an->d, SCH_ERR_SIM, NULL, 0, "simulator: sweep point %zu gave no result", k + 1);
 	}
 	an->vary->sweep->n_points = an->n_steps;
-	an->vary->sweep->crossover = sch_sweep_crossover(an->vary->sweep->points, an->n_steps);
+	an->vary->sweep->crossover = sch_sweep_crossover_of(an->vary->sweep);
 	return SCH_OK;
 }

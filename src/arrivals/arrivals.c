@@ -16,7 +16,9 @@
 #include "schrot/leftover.h"
 #include "schrot/augment.h"
 #include "schrot/physics.h"
+#include "schrot/si.h"
 #include "schrot/sim.h"
+#include "schrot/strmap.h"
 
 const char *sch_arrival_kind_name(enum sch_arrival_kind k)
 {
@@ -198,6 +200,7 @@ void sch_arrivals_init(struct sch_arrivals *a)
 	memset(a, 0, sizeof(*a));
 	sch_result_init(&a->op);
 	a->output_mean_v = a->output_std_v = a->output_skewness = NAN;
+	a->output_lag1_correlation = a->shortest_rc_s = NAN;
 }
 
 void sch_arrivals_release(struct sch_arrivals *a)
@@ -235,99 +238,6 @@ static bool parse_output(const char *expr, char *a, char *b, size_t size)
 	if (is_ground(b))
 		b[0] = '\0'; /* the simulator has no vector for ground */
 	return sch_sim_name_is_safe(a) && (!b[0] || sch_sim_name_is_safe(b));
-}
-
-static bool is_global(const struct sch_deck *deck, const char *node)
-{
-	for (size_t c = 0; c < deck->n_cards; c++) {
-		const char *kw = deck->cards[c].keyword, *p;
-		size_t n = strlen(node);
-		if (!kw || strcmp(kw, ".global") != 0)
-			continue;
-		p = deck->cards[c].text + 7;
-		while (*p) {
-			size_t len;
-			while (isspace((unsigned char)*p))
-				p++;
-			len = strcspn(p, " \t");
-			if (len == n && strncasecmp(p, node, n) == 0)
-				return true;
-			p += len;
-		}
-	}
-	return false;
-}
-
-/* The simulator's flat name of a node of the definition one level down a hierarchical path. */
-struct level {
-	int def;                  /* -1 top level */
-	const char *prefix;       /* "x1.x2", NULL at top */
-	const char **port_flat;   /* the definition's ports as flat names */
-};
-
-static const char *flatten(struct sch_arena *ar, const struct sch_deck *deck, const struct level *lv, const char *node)
-{
-	if (is_ground(node) || is_global(deck, node) || lv->def < 0)
-		return node;
-	for (int p = 0; p < deck->subckts[lv->def].n_ports; p++)
-		if (strcmp(deck->subckts[lv->def].ports[p], node) == 0)
-			return lv->port_flat[p];
-	return sch_arena_printf(ar, "%s.%s", lv->prefix, node);
-}
-
-/*
- * The flat names of the first two nodes of the carrier instance at path ("x1.x2.iph"), walking
- * the X instances from the top so ports map to their parents' nodes. SCH_ERR_INPUT when the path
- * does not resolve.
- */
-static enum sch_err instance_nodes(struct sch_arena *ar, const struct sch_deck *deck, const char *path,
-				   const char **n_plus, const char **n_minus)
-{
-	struct level lv = { -1, NULL, NULL };
-	const char *p = path;
-	const char *dot;
-
-	while ((dot = strchr(p, '.')) != NULL) {
-		const struct sch_element *x = NULL;
-		const char *const *ports;
-		int n_ports, def;
-		struct level next;
-		char name[256];
-
-		snprintf(name, sizeof(name), "%.*s", (int)(dot - p), p);
-		for (size_t k = 0; k < deck->n_elements; k++)
-			if (deck->elements[k].letter == 'x' && deck->elements[k].subckt == lv.def &&
-			    strcmp(deck->elements[k].name, name) == 0)
-				x = &deck->elements[k];
-		if (!x)
-			return SCH_ERR_INPUT;
-		def = sch_deck_find_subckt(deck, sch_deck_x_subckt(deck, x));
-		n_ports = sch_deck_element_nodes(deck, x, &ports);
-		if (def < 0 || n_ports != deck->subckts[def].n_ports)
-			return SCH_ERR_INPUT;
-		next.def = def;
-		next.prefix = lv.prefix ? sch_arena_printf(ar, "%s.%s", lv.prefix, name) : sch_arena_strdup(ar, name);
-		next.port_flat = sch_arena_alloc(ar, ((size_t)n_ports + 1) * sizeof(*next.port_flat));
-		if (!next.prefix || !next.port_flat)
-			return SCH_ERR_NOMEM;
-		for (int i = 0; i < n_ports; i++)
-			if (!(next.port_flat[i] = flatten(ar, deck, &lv, ports[i])))
-				return SCH_ERR_NOMEM;
-		lv = next;
-		p = dot + 1;
-	}
-	for (size_t k = 0; k < deck->n_elements; k++) {
-		const struct sch_element *e = &deck->elements[k];
-		const char *const *nodes;
-		if (e->subckt != lv.def || strcmp(e->name, p) != 0)
-			continue;
-		if (sch_deck_element_nodes(deck, e, &nodes) < 2)
-			return SCH_ERR_INPUT;
-		*n_plus = flatten(ar, deck, &lv, nodes[0]);
-		*n_minus = flatten(ar, deck, &lv, nodes[1]);
-		return *n_plus && *n_minus ? SCH_OK : SCH_ERR_NOMEM;
-	}
-	return SCH_ERR_INPUT;
 }
 
 /* Private directory for the source files; removed with everything in it by scratch_remove. */
@@ -438,7 +348,7 @@ static enum sch_err build_lines(struct sch_arrivals *a, const struct scratch *s,
 		const struct sch_carrier *c = &a->op.set.carriers[k];
 		const char *np, *nm;
 		char file[600];
-		if ((ret = instance_nodes(ar, deck, c->name, &np, &nm)) != SCH_OK) {
+		if ((ret = sch_augment_flat_nodes(ar, deck, c->element, c->name, &np, &nm)) != SCH_OK) {
 			if (ret == SCH_ERR_NOMEM)
 				return ret;
 			return sch_diag_error(d, SCH_ERR_INPUT, deck->path, 0, "cannot find the nodes of carrier '%s'", c->name);
@@ -564,6 +474,19 @@ static enum sch_err make_scratch(struct scratch *s, struct sch_diag *d)
 	return sch_diag_error(d, SCH_ERR_IO, NULL, 0, "cannot create a private directory in '%s': %s", tmp, strerror(errno));
 }
 
+/* Correlation of each window's output with the next one's: sum (x_i - m)(x_i+1 - m) / sum (x_i - m)^2; NaN without spread. */
+static double lag1_correlation(const double *x, size_t n, double mean)
+{
+	double num = 0, den = 0;
+
+	for (size_t i = 0; i < n; i++) {
+		den += (x[i] - mean) * (x[i] - mean);
+		if (i + 1 < n)
+			num += (x[i] - mean) * (x[i + 1] - mean);
+	}
+	return den > 0 ? num / den : NAN;
+}
+
 /* The output's samples from the transient outcome: v(a) or v(a) - v(b). */
 static enum sch_err take_output(struct sch_arrivals *a, const struct sch_sim_outcome *o, const char *na, const char *nb,
 				struct sch_diag *d)
@@ -585,6 +508,7 @@ static enum sch_err take_output(struct sch_arrivals *a, const struct sch_sim_out
 	a->output_mean_v = sch_moments_mean(&m);
 	a->output_std_v = sqrt(sch_moments_var(&m));
 	a->output_skewness = sch_moments_skewness(&m);
+	a->output_lag1_correlation = lag1_correlation(a->output_v, a->n_windows, a->output_mean_v);
 	return SCH_OK;
 }
 
@@ -607,6 +531,89 @@ static enum sch_err pick_output(struct sch_arrivals *a, const char *path, const 
 				      "output must be v(node) or v(node,ref) with plain node names, not '%s'", expr);
 	a->output = nb[0] ? sch_arena_printf(ar, "v(%s,%s)", na, nb) : sch_arena_printf(ar, "v(%s)", na);
 	return SCH_OK;
+}
+
+/* A literal element value (tok[2]: "10k", "2p"), NaN for an expression or none. */
+static double literal_value(const struct sch_element *e)
+{
+	double v;
+	return e->n_tok >= 3 && sch_si_parse(e->tok[2], &v) == SCH_OK && v > 0 && isfinite(v) ? v : NAN;
+}
+
+/*
+ * The circuit's shortest RC time constant, estimated from the deck as the smallest C x R over each
+ * capacitor and the smallest resistor that shares a node with it in the same definition (the
+ * resistance a capacitor sees is at most that resistor's where the resistor's far end is held;
+ * common practice, no source). Literal values only; NaN when no pair is found or out of memory.
+ * *cap and *res name the pair.
+ */
+static double shortest_rc(const struct sch_deck *deck, struct sch_arena *arena, const char **cap, const char **res)
+{
+	struct sch_strmap min_r; /* "scope node" -> the element index of the smallest resistor on it */
+	double best = NAN;
+
+	sch_strmap_init(&min_r);
+	for (size_t k = 0; k < deck->n_elements; k++) {
+		const struct sch_element *e = &deck->elements[k];
+		const char *const *nodes;
+		double r = literal_value(e);
+		if (e->letter != 'r' || isnan(r) || sch_deck_element_nodes(deck, e, &nodes) < 2)
+			continue;
+		for (int j = 0; j < 2; j++) {
+			const char *key = sch_arena_printf(arena, "%d %s", e->subckt, nodes[j]);
+			int old = key ? sch_strmap_get(&min_r, key, strlen(key)) : -1;
+			if (!key || ((old < 0 || literal_value(&deck->elements[old]) > r) &&
+				     sch_strmap_put(&min_r, key, strlen(key), (int)k) != SCH_OK))
+				goto out;
+		}
+	}
+	for (size_t k = 0; k < deck->n_elements; k++) {
+		const struct sch_element *e = &deck->elements[k];
+		const char *const *nodes;
+		double c = literal_value(e);
+		if (e->letter != 'c' || isnan(c) || sch_deck_element_nodes(deck, e, &nodes) < 2)
+			continue;
+		for (int j = 0; j < 2; j++) {
+			const char *key = sch_arena_printf(arena, "%d %s", e->subckt, nodes[j]);
+			int r = key ? sch_strmap_get(&min_r, key, strlen(key)) : -1;
+			double tau = r >= 0 ? c * literal_value(&deck->elements[r]) : NAN;
+			if (tau > 0 && !(tau >= best)) {
+				best = tau;
+				*cap = e->name;
+				*res = deck->elements[r].name;
+			}
+		}
+	}
+out:
+	sch_strmap_release(&min_r);
+	return best;
+}
+
+/*
+ * Warnings about what the realisation can resolve: a source step coarse against the shortest RC
+ * (the --step advice: a fiftieth of it), and output windows that are not independent (lag-1
+ * correlation beyond max(0.1, 3/sqrt(N)), three standard errors of an independent sequence).
+ */
+static void warn_resolution(struct sch_arrivals *a, struct sch_diag *d)
+{
+	const char *cap = "", *res = "";
+	char s1[64], s2[64], s3[64];
+	double r1 = a->output_lag1_correlation, n = (double)a->n_windows;
+
+	a->shortest_rc_s = shortest_rc(&a->op.deck, &a->op.arena, &cap, &res);
+	if (a->shortest_rc_s > 0 && a->step_s > a->shortest_rc_s / 50)
+		sch_diag_report(d, SCH_WARNING, NULL, 0,
+				"the step %s is coarse against the circuit's shortest time constant, about %s (%s with "
+				"%s): faster dynamics are averaged away; use --step %s or finer",
+				sch_si_format(s1, sizeof(s1), a->step_s, 3, "s"),
+				sch_si_format(s2, sizeof(s2), a->shortest_rc_s, 3, "s"), cap, res,
+				sch_si_format(s3, sizeof(s3), a->shortest_rc_s / 50, 2, "s"));
+	if (r1 > 0.1 && r1 > 3 / sqrt(n))
+		sch_diag_report(d, SCH_WARNING, NULL, 0,
+				"successive windows' outputs are correlated (lag-1 correlation %.3f over %zu windows): "
+				"the output's memory is about %.2g window%s (-1/ln of the correlation), so its samples "
+				"are not independent; use a longer --window",
+				r1, a->n_windows, r1 < 1 ? -1 / log(r1) : INFINITY, r1 < 1 && -1 / log(r1) < 1.05 ? "" : "s");
 }
 
 /* SCH_ERR_USAGE when there are no carriers or their source tables together exceed the limit. */
@@ -709,6 +716,7 @@ static enum sch_err simulate(const struct sch_arrivals *a, const char **lines, s
 	req.tran_n_samples = a->n_windows;
 	req.code_models = models;
 	req.n_code_models = 1;
+	req.compat_mode = a->op.compat_mode; /* the operating-point run's, so both read the deck alike */
 	return sch_sim_run(&req, sim, d);
 }
 
@@ -750,6 +758,7 @@ enum sch_err sch_arrivals_run(const char *path, const struct sch_run_options *ru
 		goto out;
 	if ((ret = take_output(a, &sim.steps[0], na, nb, d)) != SCH_OK)
 		goto out;
+	warn_resolution(a, d);
 	ret = SCH_OK;
 out:
 	sch_sim_result_release(&sim);

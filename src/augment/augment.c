@@ -3,6 +3,7 @@
 #include <math.h>
 #include <stdio.h>
 #include <string.h>
+#include <strings.h>
 #include "schrot/augment.h"
 #include "schrot/physics.h"
 
@@ -164,12 +165,12 @@ static enum sch_err assign_probes(const struct sch_deck *deck, const struct sch_
 		return SCH_ERR_NOMEM;
 	for (size_t k = 0; k < deck->n_elements; k++)
 		aug->probe_of_element[k] = -1;
-	for (size_t k = 0; k < set->n_carriers; k++) {
+	for (size_t k = 0; k < set->n_carriers && !(opt && opt->plain); k++) {
 		int e = set->carriers[k].element;
 		if (aug->probe_of_element[e] < 0 && add_probe(aug, arena, SCH_PROBE_CARRIER, e) != SCH_OK)
 			return SCH_ERR_NOMEM;
 	}
-	if (!(opt && opt->junction_probes))
+	if (!(opt && opt->junction_probes) || (opt && opt->plain))
 		return SCH_OK;
 	for (size_t k = 0; k < deck->n_elements; k++) {
 		int shared;
@@ -185,9 +186,14 @@ static enum sch_err assign_probes(const struct sch_deck *deck, const struct sch_
 	return SCH_OK;
 }
 
-/* Whether the augmented deck leaves this card out (analyses and control cards, unless kept). */
+/*
+ * Whether the augmented deck leaves this card out (analyses and control cards, unless kept; a
+ * plain deck's .noise card, which sch_augment_write puts back as the run schrot plans).
+ */
 static bool card_dropped(const struct sch_card *card, const struct sch_augment_options *opt)
 {
+	if (card->keyword && opt && opt->plain && strcmp(card->keyword, ".noise") == 0)
+		return true;
 	return card->keyword && !(opt && opt->keep_analyses && strcmp(card->keyword, ".end") != 0 &&
 				  strcmp(card->keyword, ".endl") != 0) &&
 	       dropped_keyword(card->keyword);
@@ -202,6 +208,12 @@ static const char *card_text(const struct sch_deck *deck, const struct sch_card 
 {
 	const char *text = card->text;
 
+	if (card->element >= 0 && (deck->elements[card->element].letter == 'e' ||
+				   deck->elements[card->element].letter == 'g')) {
+		const char *pwl = sch_augment_table_as_value(arena, text);
+
+		text = pwl ? pwl : text;
+	}
 	if (card->element >= 0 && opt && opt->ac_source && card->subckt < 0 &&
 	    strcmp(deck->elements[card->element].name, opt->ac_source) == 0 &&
 	    !has_ac_value(&deck->elements[card->element]))
@@ -247,6 +259,8 @@ static enum sch_err push_tail(struct line_list *l, const struct sch_deck *deck, 
 
 	if ((ret = push_probes_of(l, deck, aug, -1)) != SCH_OK)
 		return ret;
+	if (opt && opt->plain)
+		return push(l, ".end");
 	if ((ret = push(l, "* schrot: reads the circuit temperature")) != SCH_OK ||
 	    (ret = push(l, "rschtemp nschtemp 0 1 noisy=0")) != SCH_OK)
 		return ret;
@@ -277,6 +291,91 @@ enum sch_err sch_augment_build(const struct sch_deck *deck, const struct sch_car
 	return SCH_OK;
 }
 
+/* Whether node is ground or named by a .global card (the same node in every instance). */
+static bool global_node(const struct sch_deck *deck, const char *node)
+{
+	size_t n = strlen(node);
+
+	if (strcmp(node, "0") == 0 || strcmp(node, "gnd") == 0)
+		return true;
+	for (size_t c = 0; c < deck->n_cards; c++) {
+		const char *p = deck->cards[c].text;
+		if (!deck->cards[c].keyword || strcmp(deck->cards[c].keyword, ".global") != 0)
+			continue;
+		for (p += strlen(".global"); *p;) {
+			size_t len;
+			while (*p == ' ' || *p == '\t' || *p == ',')
+				p++;
+			len = strcspn(p, " \t,");
+			if (len == n && strncasecmp(p, node, n) == 0)
+				return true;
+			p += len;
+		}
+	}
+	return false;
+}
+
+/* The index of port node of definition s, or -1. */
+static int port_index(const struct sch_deck *deck, int s, const char *node)
+{
+	for (int k = 0; s >= 0 && k < deck->subckts[s].n_ports; k++) {
+		if (strcmp(deck->subckts[s].ports[k], node) == 0)
+			return k;
+	}
+	return -1;
+}
+
+/* The X element called name (lower case, len bytes) in definition scope, or -1. */
+static int x_element(const struct sch_deck *deck, int scope, const char *name, size_t len)
+{
+	for (size_t k = 0; k < deck->n_elements; k++) {
+		const struct sch_element *e = &deck->elements[k];
+		if (e->letter == 'x' && e->subckt == scope && strlen(e->name) == len && strncmp(e->name, name, len) == 0)
+			return (int)k;
+	}
+	return -1;
+}
+
+#define MAX_DEPTH 64
+
+/*
+ * The simulator's flat name of node of the element of instance path ("x1.x2.iph"): a port is the
+ * calling X element's node, one level up; an internal node is "x1.x2.node"; ground and .global
+ * nodes stay. NULL when out of memory or when the hierarchy cannot be followed.
+ */
+static const char *flat_node(const struct sch_deck *deck, struct sch_arena *arena, const char *path,
+			     const char *node)
+{
+	int calls[MAX_DEPTH];
+	size_t ends[MAX_DEPTH]; /* path length up to and including each call's name */
+	int depth = 0, scope = -1;
+	const char *p = path, *dot;
+
+	while ((dot = strchr(p, '.')) && depth < MAX_DEPTH) {
+		int x = x_element(deck, scope, p, (size_t)(dot - p));
+		const char *sub = x >= 0 ? sch_deck_x_subckt(deck, &deck->elements[x]) : NULL;
+		if (!sub || (scope = sch_deck_find_subckt(deck, sub)) < 0)
+			return NULL;
+		calls[depth] = x;
+		ends[depth++] = (size_t)(dot - path);
+		p = dot + 1;
+	}
+	if (dot)
+		return NULL;
+	while (depth > 0 && !global_node(deck, node)) {
+		const struct sch_element *x = &deck->elements[calls[depth - 1]];
+		const char *const *xn;
+		int j = port_index(deck, sch_deck_find_subckt(deck, sch_deck_x_subckt(deck, x)), node);
+		if (j < 0)
+			return sch_arena_printf(arena, "%.*s.%s", (int)ends[depth - 1], path, node);
+		if (sch_deck_element_nodes(deck, x, &xn) <= j)
+			return NULL;
+		node = xn[j];
+		depth--;
+	}
+	return node;
+}
+
 /*
  * The probe resistance whose simulated output density 4 k_sim T R (its noise voltage through the
  * unity VCCS) is exactly 2q|I|G; SCH_PROBE_OFF_OHMS when the instance gets no generator.
@@ -289,52 +388,74 @@ static double probe_ohms(const struct sch_carrier *c, double temp_k)
 	return s / (4.0 * SCH_SIM_K * temp_k);
 }
 
-enum sch_err sch_augment_write(const struct sch_augmented *aug, const struct sch_carrier_set *set, double temp_k,
-			       const char *noise_command, struct sch_arena *arena, FILE *out, struct sch_diag *d)
+/* Whether the deck holds a code-model (A) element: a card line starting with its letter. */
+static bool has_code_model_device(const struct sch_augmented *aug)
 {
-	const struct sch_carrier **carrier_of_inst;
-	enum sch_err ret = SCH_ERR_NOMEM;
+	for (size_t k = 1; k < aug->n_lines; k++)
+		if (aug->line_card[k] >= 0 && (aug->lines[k][0] == 'a' || aug->lines[k][0] == 'A'))
+			return true;
+	return false;
+}
 
-	carrier_of_inst = sch_arena_alloc(arena, (set->n_instances + 1) * sizeof(*carrier_of_inst));
-	if (!carrier_of_inst)
-		goto out;
-	for (size_t k = 0; k < set->n_instances; k++)
-		carrier_of_inst[k] = NULL;
-	for (size_t k = 0; k < set->n_carriers; k++)
-		carrier_of_inst[set->carriers[k].instance] = &set->carriers[k];
+enum sch_err sch_augment_flat_nodes(struct sch_arena *arena, const struct sch_deck *deck, int element,
+				    const char *path, const char **n_plus, const char **n_minus)
+{
+	const char *const *nodes;
+
+	if (sch_deck_element_nodes(deck, &deck->elements[element], &nodes) < 2)
+		return SCH_ERR_INPUT;
+	*n_plus = flat_node(deck, arena, path, nodes[0]);
+	*n_minus = flat_node(deck, arena, path, nodes[1]);
+	return *n_plus && *n_minus ? SCH_OK : SCH_ERR_INPUT;
+}
+
+/* Carrier k's generator at the top level, across its instance's flat nodes, sized as a literal. */
+static enum sch_err write_generator(const struct sch_deck *deck, const struct sch_carrier *c, size_t k, double temp_k,
+				    struct sch_arena *arena, FILE *out, struct sch_diag *d)
+{
+	const struct sch_card *card = &deck->cards[deck->elements[c->element].card];
+	const char *a, *b;
+
+	if (sch_augment_flat_nodes(arena, deck, c->element, c->name, &a, &b) != SCH_OK)
+		return sch_diag_error(d, SCH_ERR_INPUT, card->file, card->line,
+				      "cannot name the nodes of '%s' at the top level of the augmented deck", c->name);
+	fprintf(out, "* schrot: %s carries %.9g A, gain %.9g: 2q|I|G = %.9g A^2/Hz\n", c->name, c->dc_current_a,
+		sch_carrier_gain(c), sch_shot_density(c->dc_current_a, sch_carrier_gain(c)));
+	fprintf(out, "rschg%zu nschg%zu 0 %.17g\ngschg%zu %s %s nschg%zu 0 1\n", k, k, probe_ohms(c, temp_k), k, a, b, k);
+	return SCH_OK;
+}
+
+enum sch_err sch_augment_write(const struct sch_augmented *aug, const struct sch_deck *deck,
+			       const struct sch_carrier_set *set, double temp_k, const char *noise_command,
+			       struct sch_arena *arena, FILE *out, struct sch_diag *d)
+{
+	enum sch_err ret;
+
 	for (size_t k = 0; k + 1 < aug->n_lines; k++)
 		fprintf(out, "%s\n", aug->lines[k]);
-	fprintf(out, "* schrot: sizes each instance's generator for 2q|I|G with its operating-point current\n"
-		     "* (q = %.10g C exact; R = S/4kT with the simulator's k = %.9g J/K at T = %.6f K)\n"
-		     ".control\n",
+	fprintf(out, "* schrot: one generator per carrier instance, a resistor of R = S/(4kT) alone on its own\n"
+		     "* node whose thermal noise a unity VCCS puts across the carrier: S = 2q|I|G with its\n"
+		     "* operating-point current (q = %.10g C exact; the simulator's k = %.9g J/K, T = %.6f K)\n",
 		SCH_Q, SCH_SIM_K, temp_k);
-	for (size_t k = 0; k < set->n_instances; k++) {
-		const struct sch_instance *in = &set->instances[k];
-		const struct sch_carrier *c = carrier_of_inst[k];
-		int p = aug->probe_of_element[in->element];
-		const char *name;
-		if (p < 0)
-			continue;
-		if (!(name = sch_augment_probe_sim_name(arena, &aug->probes[p], in->path)))
-			goto out;
-		if (c)
-			fprintf(out, "* schrot: %s carries %.9g A, gain %.9g\n", in->path, c->dc_current_a,
-				sch_carrier_gain(c));
-		else
-			fprintf(out, "* schrot: %s is no carrier here: no generator\n", in->path);
-		fprintf(out, "alter @%s[resistance]=%.17g\n", name, probe_ohms(c, temp_k));
+	for (size_t k = 0; k < deck->n_elements; k++) {
+		if (deck->elements[k].letter == 'd') {
+			fputs("* schrot: not in this deck: the junction correction of 'schrot report' (a diode's noise as\n"
+			      "* 2q I_j coth(qV_j/2kT) in place of the simulator's 2q|I_D|, which counts the GMIN current);\n"
+			      "* compare its totals with 'schrot report --no-junction-correction'\n",
+			      out);
+			break;
+		}
 	}
-	/* batch ngspice exits 1 on a deck without .print lines; exit 0 only when the totals exist */
-	fprintf(out,
-		"%s\nprint onoise_total inoise_total\n"
-		"* schrot: exit status 0 only when the noise run produced its totals\n"
-		"if length(onoise_total) = 1\n  quit 0\nend\nquit 1\n.endc\n.end\n",
+	for (size_t k = 0; k < set->n_carriers; k++) {
+		if ((ret = write_generator(deck, &set->carriers[k], k, temp_k, arena, out, d)) != SCH_OK)
+			return ret;
+	}
+	if (has_code_model_device(aug))
+		fprintf(out, "* schrot: a one-point AC analysis first sets the code models' small-signal state for\n"
+			     "* the noise run (ngspice 39)\n.ac lin 1 1 1\n");
+	fprintf(out, "* schrot: the noise analysis (pts_per_summary 1 keeps each device's spectrum)\n.%s\n.end\n",
 		noise_command);
-	if (ferror(out)) {
-		ret = sch_diag_error(d, SCH_ERR_IO, NULL, 0, "could not write the augmented deck");
-		goto out;
-	}
-	ret = SCH_OK;
-out:
-	return ret;
+	if (ferror(out))
+		return sch_diag_error(d, SCH_ERR_IO, NULL, 0, "could not write the augmented deck");
+	return SCH_OK;
 }

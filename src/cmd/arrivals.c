@@ -5,6 +5,25 @@
 #include <string.h>
 #include "schrot/arrivals.h"
 #include "schrot/cmd.h"
+#include "schrot/outfile.h"
+
+/* JSON, CSV, plot and the depfile naming them, all or none. */
+static enum sch_err write_outputs(const struct sch_cli *cli, const struct sch_arrivals *a, struct sch_diag *d)
+{
+	enum sch_err ret = SCH_OK, end;
+
+	sch_outfile_batch_begin();
+	if (cli->json_path)
+		ret = sch_report_arrivals_json(a, cli->json_path, d);
+	if (ret == SCH_OK && cli->csv_path)
+		ret = sch_report_arrivals_csv(a, cli->csv_path, d);
+	if (ret == SCH_OK && cli->plot_path)
+		ret = sch_report_arrivals_plot(a, cli->plot_path, d);
+	if (ret == SCH_OK && cli->depfile_path)
+		ret = sch_cmd_write_depfile(cli, &a->op, d);
+	end = sch_outfile_batch_end(ret == SCH_OK, d);
+	return ret != SCH_OK ? ret : end;
+}
 
 int cmd_arrivals(int argc, char **argv, struct sch_ctx *ctx)
 {
@@ -37,9 +56,7 @@ int cmd_arrivals(int argc, char **argv, struct sch_ctx *ctx)
 	ret = sch_arrivals_run(cli.netlist, &cli.run, &opt, &res, &ctx->diag);
 	if (ret != SCH_OK)
 		goto out;
-	if (cli.json_path && (ret = sch_report_arrivals_json(&res, cli.json_path, &ctx->diag)) != SCH_OK)
-		goto out;
-	if (cli.plot_path && (ret = sch_report_arrivals_plot(&res, cli.plot_path, &ctx->diag)) != SCH_OK)
+	if ((ret = write_outputs(&cli, &res, &ctx->diag)) != SCH_OK)
 		goto out;
 	if (cli.verbosity >= 0 && !(cli.json_path && strcmp(cli.json_path, "-") == 0))
 		ret = sch_report_arrivals_table(&res, stdout);

@@ -6,7 +6,6 @@
 #include "schrot/augment.h"
 #include "schrot/cmd.h"
 #include "schrot/outfile.h"
-#include "schrot/sim.h"
 
 /* True when out names the same existing file as path (hard links and symlinks included). */
 static bool same_file(const char *out, const char *path)
@@ -31,36 +30,19 @@ static enum sch_err check_not_input(const char *out, const struct sch_result *re
 	return SCH_OK;
 }
 
-/*
- * The deck's control block names every generator instance in an alter command that plain ngspice
- * runs: a name holding a backquote, ';' or '>' would run or redirect there. SCH_ERR_INPUT at the
- * element's line for the first name outside sch_sim_name_is_safe's set.
- */
-static enum sch_err check_command_names(const struct sch_result *res, const struct sch_augmented *aug,
-					struct sch_diag *d)
-{
-	for (size_t k = 0; k < res->set.n_instances; k++) {
-		const struct sch_instance *in = &res->set.instances[k];
-		const struct sch_card *c = &res->deck.cards[res->deck.elements[in->element].card];
-
-		if (aug->probe_of_element[in->element] >= 0 && !sch_sim_name_is_safe(in->path))
-			return sch_diag_error(d, SCH_ERR_INPUT, c->file, c->line,
-					      "instance name '%.64s' cannot go into the augmented deck's control block: "
-					      "only a-z 0-9 _ . # + - are safe there", in->path);
-	}
-	return SCH_OK;
-}
-
 /* Runs the operating point and writes the sized deck to cli->out_path atomically. */
 static enum sch_err augment(const struct sch_cli *cli, struct sch_result *res, struct sch_diag *d)
 {
-	struct sch_augment_options aopt = { NULL, false, true, false, NULL, false, NULL };
+	struct sch_augment_options aopt;
 	struct sch_augmented aug;
 	struct sch_outfile of = { 0 };
 	const char *noise_command = NULL;
 	bool to_stdout = strcmp(cli->out_path, "-") == 0;
 	enum sch_err ret;
 
+	memset(&aopt, 0, sizeof(aopt));
+	aopt.keep_analyses = true;
+	aopt.plain = true;
 	if (!to_stdout && (ret = check_not_input(cli->out_path, NULL, cli->netlist, d)) != SCH_OK)
 		goto out;
 	if ((ret = sch_analysis_run(cli->netlist, &cli->run, res, d)) != SCH_OK)
@@ -72,11 +54,9 @@ static enum sch_err augment(const struct sch_cli *cli, struct sch_result *res, s
 		goto out;
 	if ((ret = sch_augment_build(&res->deck, &res->set, &aopt, &res->arena, &aug, d)) != SCH_OK)
 		goto out;
-	if ((ret = check_command_names(res, &aug, d)) != SCH_OK)
-		goto out;
 	if ((ret = sch_outfile_open(&of, cli->out_path, d)) != SCH_OK)
 		goto out;
-	if ((ret = sch_augment_write(&aug, &res->set, res->temp_k, noise_command, &res->arena, of.fp, d)) != SCH_OK)
+	if ((ret = sch_augment_write(&aug, &res->deck, &res->set, res->temp_k, noise_command, &res->arena, of.fp, d)) != SCH_OK)
 		goto out;
 	ret = sch_outfile_commit(&of, d);
 out:

@@ -9,6 +9,7 @@
 #include <stdio.h>
 #include <stdlib.h>
 #include <string.h>
+#include <strings.h>
 #include "schrot/cli.h"
 #include "schrot/si.h"
 #include "schrot/sim.h"
@@ -21,7 +22,8 @@ enum {
 	CMD_SWEEP = 1 << 3,
 	CMD_ARRIVALS = 1 << 4,
 	CMD_MERGE = 1 << 5,
-	CMD_NETLIST = CMD_REPORT | CMD_CARRIERS | CMD_AUGMENT | CMD_SWEEP | CMD_ARRIVALS, /* the commands reading a deck */
+	CMD_LEVERS = 1 << 6,
+	CMD_NETLIST = CMD_REPORT | CMD_CARRIERS | CMD_AUGMENT | CMD_SWEEP | CMD_ARRIVALS | CMD_LEVERS, /* the commands reading a deck */
 	CMD_ALL = CMD_NETLIST | CMD_MERGE,
 };
 
@@ -51,6 +53,11 @@ static const struct cli_command commands[] = {
 	  "Realises each carrier's electrons as a random arrival process (Poisson at |I|/q; with --avalanche\n"
 	  "a random gain of mean M and excess noise factor F per primary; with --fano F a renewal process),\n"
 	  "runs one transient with it and samples the output at the end of every window.\n" },
+	{ "levers", CMD_LEVERS, false, "usage: schrot levers NETLIST [options]",
+	  "Tries design changes one at a time, each as a full noise run on the loaded circuit: the values\n"
+	  "of the resistors and capacitors and the currents of the sources that carry 99 % of the band's\n"
+	  "noise, the temperature and every avalanche gain, each up and down by --factor; ranks them by the\n"
+	  "input-referred band noise they leave, and finds the avalanche gain that maximises SNR.\n" },
 	{ "merge", CMD_MERGE, true, "usage: schrot merge PART.json... [--json OUT] [options]",
 	  "Joins the partial results of 'schrot sweep --shard K/N' runs into one sweep.\n" },
 };
@@ -88,6 +95,7 @@ static enum sch_err set_fano(struct sch_cli *, const struct cli_option *, char *
 static enum sch_err set_shard(struct sch_cli *, const struct cli_option *, char *, struct sch_diag *);
 static enum sch_err set_seed(struct sch_cli *, const struct cli_option *, char *, struct sch_diag *);
 static enum sch_err set_worker_limit(struct sch_cli *, const struct cli_option *, char *, struct sch_diag *);
+static enum sch_err set_dialect(struct sch_cli *, const struct cli_option *, char *, struct sch_diag *);
 
 #define AT(field) offsetof(struct sch_cli, field)
 #define TEXT(field) set_text, AT(field), CHECK_ANY, 0, 0, NULL
@@ -97,18 +105,24 @@ static enum sch_err set_worker_limit(struct sch_cli *, const struct cli_option *
 /*
  * Which command honours what was read from src/cmd and src/analysis: an operating-point run
  * (carriers, augment, arrivals) reads only the carrier rules; augment's deck takes the noise run's
- * output, input and range but no junction probes; a sweep reports band rms only (no spots, NEP,
- * SNR or budget); only report and carriers and augment write the shared output files.
+ * output, input and range but no junction probes; a sweep reports band rms only (no spots, NEP or
+ * SNR) and gates --budget on its worst point (merge likewise on the joined sweep); sweep, merge
+ * and arrivals write JSON, CSV and a plot (a shard only its JSON), and every command that reads a
+ * netlist a depfile naming what it wrote; none of them has an HTML page.
  */
 static const struct cli_option options[] = {
 	{ "--out", "-o", "FILE", CMD_AUGMENT, TEXT(out_path), "the augmented netlist ('-': the standard output)" },
 	{ "--vary", NULL, "NAME=START:STOP:N[:lin]", CMD_SWEEP, TEXT(vary),
 	  "a current source, a top-level .param or temp, N points from 2 to 10000\n"
 	  "(log spacing over more than a decade unless :lin)" },
-	{ "--jobs", NULL, "N", CMD_SWEEP, set_whole_int, AT(run.n_workers), CHECK_WHOLE, 1, 64, "a whole number 1..64",
+	{ "--jobs", NULL, "N", CMD_SWEEP | CMD_LEVERS, set_whole_int, AT(run.n_workers), CHECK_WHOLE, 1, 64, "a whole number 1..64",
 	  "worker processes (default 2)" },
 	{ "--shard", NULL, "K/N", CMD_SWEEP, OWN(set_shard, "K/N with 1 <= K <= N <= 10000"),
 	  "compute only share K of N of the points (needs --json;\njoin the parts with 'schrot merge')" },
+	{ "--max", NULL, "N", CMD_LEVERS, set_whole_int, AT(lever_max), CHECK_WHOLE, 1, 100, "a whole number 1..100",
+	  "most devices whose values are tried (default 12)" },
+	{ "--factor", NULL, "X", CMD_LEVERS, NUMBER(lever_factor, CHECK_POSITIVE_FINITE, "a number above 1"),
+	  "each value tried times and divided by X (default 2)" },
 	{ "--window", NULL, "T", CMD_ARRIVALS, NUMBER(window_s, CHECK_POSITIVE_FINITE, "a positive time in seconds"),
 	  "observation window (s, SI suffixes: 10u)" },
 	{ "--duration", NULL, "D", CMD_ARRIVALS, NUMBER(duration_s, CHECK_POSITIVE_FINITE, "a positive time in seconds"),
@@ -125,7 +139,7 @@ static const struct cli_option options[] = {
 	  "simulated before the first window, so the output forgets its start\n(default 0)" },
 	{ "--seed", NULL, "S", CMD_ARRIVALS, OWN(set_seed, "a whole number 0..18446744073709551615"),
 	  "seed of the xoshiro256** generator (default 1); same seed, same run" },
-	{ "--band", NULL, "F1:F2", CMD_REPORT | CMD_SWEEP, OWN(set_band, "F1:F2 in Hz with 0 < F1 < F2"),
+	{ "--band", NULL, "F1:F2", CMD_REPORT | CMD_SWEEP | CMD_LEVERS, OWN(set_band, "F1:F2 in Hz with 0 < F1 < F2"),
 	  "integration band in Hz (SI suffixes: 10:1meg);\ndefault: the noise run's range" },
 	{ "--spot", NULL, "F", CMD_REPORT, OWN(set_spot, "a positive frequency in Hz"),
 	  "spot frequency in Hz (repeatable, at most 32)" },
@@ -136,32 +150,49 @@ static const struct cli_option options[] = {
 	{ "--lump", NULL, "REGEX", CMD_REPORT, OWN(set_lump, NULL),
 	  "matching resistors as one row (extracted parasitics; much faster)" },
 	{ "--avalanche", NULL, "REGEX=M:K", CMD_NETLIST, OWN(set_avalanche, "REGEX=M:K"),
-	  "avalanche gain M >= 1 and ionisation ratio k in [0,1]\n(McIntyre excess noise)" },
+	  "avalanche gain M >= 1 and ionisation ratio k in [0,1]\n(McIntyre excess noise); the netlist's current is the\nmultiplied terminal current M*I_p" },
 	{ "--fano", NULL, "REGEX=F", CMD_NETLIST, OWN(set_fano, "REGEX=F"), "shot noise scaled by the Fano factor F >= 0" },
-	{ "--no-junction-correction", NULL, NULL, CMD_REPORT | CMD_SWEEP, OWN(set_flag, NULL),
+	{ "--dialect", NULL, "MODE", CMD_NETLIST, OWN(set_dialect, NULL),
+	  "the simulator's compatibility mode for vendor models written for\n"
+	  "other SPICE programs (ngspice's ngbehavior: ps, lt, ltps, ltpsa, ki,\n"
+	  "hs, spe, a, ...); default: the 'set ngbehavior=' line of a .spiceinit\n"
+	  "beside the netlist, read as data (the file is never run)" },
+	{ "--no-junction-correction", NULL, NULL, CMD_REPORT | CMD_SWEEP | CMD_LEVERS, OWN(set_flag, NULL),
 	  "keep the simulator's own 2q|I_D| diode noise" },
+	{ "--show-corrections", NULL, NULL, CMD_REPORT, OWN(set_flag, NULL),
+	  "list each junction and bipolar correction as its own table row\n"
+	  "(default: added into the simulator row it corrects)" },
 	{ "--responsivity", NULL, "A_PER_W", CMD_REPORT,
-	  NUMBER(run.responsivity_a_per_w, CHECK_POSITIVE, "a positive value in A/W"), "detector responsivity, for NEP" },
-	{ "--signal", NULL, "VALUE", CMD_REPORT, NUMBER(run.signal, CHECK_ANY, "a number in the input's unit"),
-	  "signal in the input's unit, for SNR over the band" },
-	{ "--budget", NULL, "VRMS", CMD_REPORT, NUMBER(budget_v, CHECK_POSITIVE, "a positive rms voltage"),
-	  "exit 1 when the band's output rms exceeds it (SI suffixes: 50u)" },
-	{ "--output", NULL, "EXPR", CMD_REPORT | CMD_AUGMENT | CMD_SWEEP | CMD_ARRIVALS, TEXT(run.output_expr),
+	  NUMBER(run.responsivity_a_per_w, CHECK_POSITIVE, "a positive value in A/W"),
+	  "unity-gain detector responsivity R0, for NEP; with --avalanche\non the input source NEP divides by R0*M" },
+	{ "--signal", NULL, "VALUE", CMD_REPORT | CMD_LEVERS, NUMBER(run.signal, CHECK_ANY, "a number in the input's unit"),
+	  "signal in the input's unit, for SNR at the output over the band" },
+	{ "--signal-freq", NULL, "F", CMD_REPORT | CMD_LEVERS,
+	  NUMBER(run.signal_freq_hz, CHECK_POSITIVE_FINITE, "a positive frequency in Hz"),
+	  "the signal's frequency in Hz: the transfer there refers the band's\n"
+	  "noise to the input and carries the signal (default: where |H|\n"
+	  "peaks in the band)" },
+	{ "--budget", NULL, "VRMS", CMD_REPORT | CMD_SWEEP | CMD_MERGE,
+	  NUMBER(budget_v, CHECK_POSITIVE, "a positive rms voltage"),
+	  "exit 1 when the band's output rms exceeds it (SI suffixes: 50u);\na sweep: at its worst point" },
+	{ "--output", NULL, "EXPR", CMD_REPORT | CMD_AUGMENT | CMD_SWEEP | CMD_ARRIVALS | CMD_LEVERS, TEXT(run.output_expr),
 	  "v(node) or v(node,ref) when the netlist has no .noise line" },
-	{ "--input", NULL, "SRC", CMD_REPORT | CMD_AUGMENT | CMD_SWEEP, TEXT(run.input_src),
+	{ "--input", NULL, "SRC", CMD_REPORT | CMD_AUGMENT | CMD_SWEEP | CMD_LEVERS, TEXT(run.input_src),
 	  "noise input source when the netlist has no .noise line" },
-	{ "--freq", NULL, "F1:F2[:PPD]", CMD_REPORT | CMD_AUGMENT | CMD_SWEEP, OWN(set_freq, NULL),
+	{ "--freq", NULL, "F1:F2[:PPD]", CMD_REPORT | CMD_AUGMENT | CMD_SWEEP | CMD_LEVERS, OWN(set_freq, NULL),
 	  "noise run range in Hz and points per decade (default 20)\nwhen the netlist has no .noise line" },
 	{ "--json", NULL, "FILE", CMD_ALL, TEXT(json_path), "the result as JSON ('-': the standard output, no table)" },
-	{ "--csv", NULL, "FILE", CMD_REPORT, TEXT(csv_path), "one row per contribution" },
+	{ "--csv", NULL, "FILE", CMD_REPORT | CMD_SWEEP | CMD_ARRIVALS | CMD_MERGE | CMD_LEVERS, TEXT(csv_path),
+	  "one row per contribution (sweep, merge: per point; arrivals: per\nwindow; levers: per lever)" },
 	{ "--spectrum", NULL, "FILE.csv", CMD_REPORT, TEXT(spectrum_path),
 	  "output noise density per frequency: total, the --top largest\ncontributions, the rest" },
 	{ "--top", NULL, "N", CMD_REPORT, set_whole_int, AT(top_n), CHECK_WHOLE, 1, 100, "a whole number 1..100",
 	  "contributions with their own --spectrum column (default 8)" },
-	{ "--plot", NULL, "FILE.svg|png", CMD_REPORT | CMD_ARRIVALS, TEXT(plot_path), "a plot, SVG or PNG by the name" },
+	{ "--plot", NULL, "FILE.svg|png", CMD_REPORT | CMD_SWEEP | CMD_ARRIVALS | CMD_MERGE | CMD_LEVERS, TEXT(plot_path),
+	  "a plot, SVG or PNG by the name (levers: SNR against avalanche gain)" },
 	{ "--html", NULL, "FILE", CMD_REPORT | CMD_CARRIERS | CMD_AUGMENT, TEXT(html_path),
 	  "a self-contained review page" },
-	{ "--depfile", NULL, "FILE", CMD_REPORT | CMD_CARRIERS | CMD_AUGMENT, TEXT(depfile_path),
+	{ "--depfile", NULL, "FILE", CMD_REPORT | CMD_CARRIERS | CMD_AUGMENT | CMD_SWEEP | CMD_ARRIVALS, TEXT(depfile_path),
 	  "make dependency file: the output files depend on the netlist\nand its includes" },
 	{ "--worker-limit", NULL, "SECONDS:MIB", CMD_NETLIST, OWN(set_worker_limit, "SECONDS:MIB, both positive"),
 	  "CPU time and memory (MiB, also the data file's size) each\nsimulator worker may use (default 3600:8192)" },
@@ -282,13 +313,52 @@ static enum sch_err set_flag(struct sch_cli *cli, const struct cli_option *o, ch
 		cli->verbosity = 1;
 	else if (strcmp(o->name, "--help") == 0)
 		cli->help = true;
+	else if (strcmp(o->name, "--show-corrections") == 0)
+		cli->show_corrections = true;
 	else
 		cli->run.junction_correction = false;
 	return SCH_OK;
 }
 
+/*
+ * A frequency written with a capital M after its digits ("1MHz", "10M") reads as milli in SPICE,
+ * where M and m are both milli and mega is "meg": refused with the reading spelled out, since a
+ * frequency in millihertz written that way is far rarer than a megahertz one mistyped.
+ */
+static enum sch_err refuse_capital_m(const struct cli_option *o, const char *val, struct sch_diag *d)
+{
+	for (const char *p = val; *p; p++) {
+		const char *num = p, *end = p + 1;
+		if (p == val || p[0] != 'M' || !((p[-1] >= '0' && p[-1] <= '9') || p[-1] == '.') ||
+		    strncasecmp(p, "meg", 3) == 0)
+			continue;
+		while (num > val && ((num[-1] >= '0' && num[-1] <= '9') || num[-1] == '.'))
+			num--;
+		while (*end && *end != ':')
+			end++;
+		return sch_diag_error(d, SCH_ERR_USAGE, NULL, 0,
+				      "%s '%s': '%.*s' reads as %.*s mHz (SPICE's M is milli); write %.*smeg for "
+				      "megahertz (try 'schrot --help')",
+				      o->name, val, (int)(end - num), num, (int)(p - num), num, (int)(p - num), num);
+	}
+	return SCH_OK;
+}
+
+static enum sch_err set_dialect(struct sch_cli *cli, const struct cli_option *o, char *val, struct sch_diag *d)
+{
+	const char *mode = sch_sim_compat_mode_known(val);
+
+	if (!mode)
+		return sch_diag_error(d, SCH_ERR_USAGE, NULL, 0, "%s needs one of %s, not '%s' (try 'schrot --help')",
+				      o->name, sch_sim_compat_mode_list(), val);
+	cli->run.compat_mode = mode;
+	return SCH_OK;
+}
+
 static enum sch_err set_band(struct sch_cli *cli, const struct cli_option *o, char *val, struct sch_diag *d)
 {
+	if (refuse_capital_m(o, val, d) != SCH_OK)
+		return SCH_ERR_USAGE;
 	if (sch_cli_parse_range(val, &cli->run.band_lo_hz, &cli->run.band_hi_hz) != SCH_OK)
 		return bad_value(o, val, d);
 	return SCH_OK;
@@ -300,7 +370,8 @@ static enum sch_err set_freq(struct sch_cli *cli, const struct cli_option *o, ch
 	char *last;
 	double ppd = 20;
 
-	(void)o;
+	if (refuse_capital_m(o, val, d) != SCH_OK)
+		return SCH_ERR_USAGE;
 	snprintf(buf, sizeof(buf), "%s", val);
 	last = strrchr(buf, ':');
 	if (last && strchr(buf, ':') != last) {
@@ -320,6 +391,8 @@ static enum sch_err set_spot(struct sch_cli *cli, const struct cli_option *o, ch
 	double *spot = &cli->spots[cli->run.n_spots];
 	if (cli->run.n_spots >= SCH_MAX_SPOTS)
 		return usage(d, "too many --spot frequencies (at most 32): '%s'", val);
+	if (refuse_capital_m(o, val, d) != SCH_OK)
+		return SCH_ERR_USAGE;
 	if (parse_number(val, spot) != SCH_OK || !(*spot > 0))
 		return bad_value(o, val, d);
 	cli->run.n_spots++;
@@ -507,6 +580,8 @@ static void cli_init(struct sch_cli *cli, const char *command)
 	sch_run_options_init(&cli->run);
 	cli->budget_v = NAN;
 	cli->top_n = 8;
+	cli->lever_max = 12;
+	cli->lever_factor = 2;
 	cli->window_s = NAN;
 	cli->duration_s = NAN;
 	cli->step_s = NAN;

@@ -19,6 +19,7 @@ void sch_cmd_print_help(FILE *out)
 	      "  sweep    NETLIST --vary NAME=START:STOP:N[:lin]   repeat over a level, find the shot-noise crossover\n"
 	      "  arrivals NETLIST --window T (--duration D | --windows N) [--seed S]\n"
 	      "                       time-domain Poisson realisation of the carriers: counts per window, P(0)\n"
+	      "  levers   NETLIST     design changes tried one at a time, ranked by input-referred noise; best APD gain\n"
 	      "  merge    PART.json... [--json OUT]   join the partial results of 'sweep --shard K/N' runs\n"
 	      "\n"
 	      "options:\n"
@@ -27,14 +28,18 @@ void sch_cmd_print_help(FILE *out)
 	      "  --carrier REGEX        also treat matching current elements as carriers (whole hierarchical name)\n"
 	      "  --ignore REGEX         never treat matching elements as carriers\n"
 	      "  --lump REGEX           report: matching resistors as one row (extracted parasitics; much faster)\n"
-	      "  --avalanche REGEX=M:K  avalanche gain M >= 1 and ionisation ratio k in [0,1] (McIntyre excess noise)\n"
+	      "  --avalanche REGEX=M:K  avalanche gain M >= 1 and ionisation ratio k in [0,1] (McIntyre excess noise);\n"
+	      "                         the netlist's current is the multiplied terminal current\n"
 	      "  --fano REGEX=F         shot noise scaled by the Fano factor F >= 0\n"
 	      "  --no-junction-correction   keep the simulator's own 2q|I_D| diode noise\n"
-	      "  --responsivity A_PER_W detector responsivity, for NEP\n"
-	      "  --signal VALUE         signal in the input's unit, for SNR over the band\n"
+	      "  --show-corrections     report: corrections as their own table rows (default: added into the row they correct)\n"
+	      "  --responsivity A_PER_W unity-gain detector responsivity R0, for NEP (NEP divides by R0*M under --avalanche)\n"
+	      "  --signal VALUE         signal in the input's unit, for SNR at the output over the band\n"
+	      "  --signal-freq F        the signal's frequency: the transfer there refers the noise (default: peak |H| in the band)\n"
 	      "  --budget VRMS          exit 1 when the band's output rms exceeds it (SI suffixes: 50u)\n"
 	      "  --output EXPR --input SRC --freq F1:F2[:PPD]   the noise run when the netlist has no .noise line\n"
-	      "  --jobs N               sweep: worker processes (default 2);  --shard K/N  sweep: only share K of N\n"
+	      "  --jobs N               sweep, levers: worker processes (default 2);  --shard K/N  sweep: only share K of N\n"
+	      "  --max N  --factor X    levers: most devices tried (default 12), the factor of each change (default 2)\n"
 	      "  --window T --duration D --windows N --step DT --settle TS --seed S   arrivals: the time-domain run\n"
 	      "  --json FILE  --csv FILE  --spectrum FILE.csv  --top N  --plot FILE.svg|png  --html FILE  --depfile FILE\n"
 	      "                         outputs ('-' is stdout for --json); written atomically\n"
@@ -76,8 +81,6 @@ enum sch_err sch_cmd_write_outputs(const struct sch_cli *cli, const struct sch_r
 static enum sch_err write_outputs(const struct sch_cli *cli, const struct sch_result *res, struct sch_diag *d)
 {
 	enum sch_err ret = SCH_OK;
-	const char *targets[8];
-	size_t n_targets = 0;
 
 	if (cli->json_path && (ret = sch_report_json(res, cli->json_path, d)) != SCH_OK)
 		return ret;
@@ -94,17 +97,24 @@ static enum sch_err write_outputs(const struct sch_cli *cli, const struct sch_re
 	/* the review page also serves an operating-point run: carriers, currents, assumptions */
 	if (cli->html_path && (ret = sch_report_html(res, cli->html_path, d)) != SCH_OK)
 		return ret;
-	if (cli->depfile_path) {
-		const char *outs[] = { cli->json_path, cli->csv_path, cli->spectrum_path, cli->plot_path, cli->html_path,
-				       cli->out_path };
-		for (size_t k = 0; k < sizeof(outs) / sizeof(outs[0]); k++) {
-			if (outs[k] && !(outs[k][0] == '-' && outs[k][1] == '\0'))
-				targets[n_targets++] = outs[k];
-		}
-		if (n_targets == 0)
-			return sch_diag_error(d, SCH_ERR_USAGE, NULL, 0,
-					      "--depfile needs at least one output file (--json, --csv, ...) as its target");
-		ret = sch_report_depfile(res, cli->depfile_path, targets, n_targets, d);
-	}
+	if (cli->depfile_path)
+		ret = sch_cmd_write_depfile(cli, res, d);
 	return ret;
+}
+
+enum sch_err sch_cmd_write_depfile(const struct sch_cli *cli, const struct sch_result *res, struct sch_diag *d)
+{
+	const char *outs[] = { cli->json_path, cli->csv_path, cli->spectrum_path, cli->plot_path, cli->html_path,
+			       cli->out_path };
+	const char *targets[8];
+	size_t n_targets = 0;
+
+	for (size_t k = 0; k < sizeof(outs) / sizeof(outs[0]); k++) {
+		if (outs[k] && !(outs[k][0] == '-' && outs[k][1] == '\0'))
+			targets[n_targets++] = outs[k];
+	}
+	if (n_targets == 0)
+		return sch_diag_error(d, SCH_ERR_USAGE, NULL, 0,
+				      "--depfile needs at least one output file (--json, --csv, ...) as its target");
+	return sch_report_depfile(res, cli->depfile_path, targets, n_targets, d);
 }

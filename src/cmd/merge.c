@@ -19,10 +19,7 @@ int cmd_merge(int argc, char **argv, struct sch_ctx *ctx)
 		goto out;
 	if ((ret = sch_report_sweep_merge(cli.files, cli.n_files, &res, &sweep, &ctx->diag)) != SCH_OK)
 		goto out;
-	if (cli.json_path && (ret = sch_report_sweep_json(&res, &sweep, cli.json_path, &ctx->diag)) != SCH_OK)
-		goto out;
-	if (cli.verbosity >= 0 && !(cli.json_path && strcmp(cli.json_path, "-") == 0))
-		ret = sch_report_sweep_table(&res, &sweep, stdout);
+	ret = sch_cmd_sweep_finish(&cli, &res, &sweep, &ctx->diag);
 out:
 	sch_result_release(&res);
 	sch_cli_release(&cli);

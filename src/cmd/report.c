@@ -22,6 +22,13 @@ int cmd_report(int argc, char **argv, struct sch_ctx *ctx)
 	ret = sch_analysis_run(cli.netlist, &cli.run, &res, &ctx->diag);
 	if (ret != SCH_OK)
 		goto out;
+	if (!isnan(cli.budget_v) && res.spot_run) {
+		/* a single-frequency run has a density, no rms to hold against a budget */
+		ret = sch_diag_error(&ctx->diag, SCH_ERR_USAGE, res.netlist, 0,
+				     "--budget needs a band: the noise run is a single-frequency spot run at %g Hz",
+				     res.band_lo_hz);
+		goto out;
+	}
 	/*
 	 * A budget breach is a failed run: no output file is written, so a makefile whose targets are
 	 * these files reruns the check next time instead of finding them up to date.
@@ -32,7 +39,7 @@ int cmd_report(int argc, char **argv, struct sch_ctx *ctx)
 			goto out;
 	}
 	if (cli.verbosity >= 0 && !(cli.json_path && strcmp(cli.json_path, "-") == 0))
-		sch_report_table(&res, stdout);
+		sch_report_table_split(&res, stdout, cli.show_corrections);
 	if (!isnan(cli.budget_v) && res.output_rms_v > cli.budget_v) {
 		char got[64], lim[64], over[64];
 		sch_si_format(got, sizeof(got), res.output_rms_v, 4, "V");

@@ -6,6 +6,7 @@
 #include <string.h>
 #include <unistd.h>
 #include "schrot/cmd.h"
+#include "schrot/outfile.h"
 #include "schrot/report.h"
 #include "schrot/si.h"
 
@@ -101,6 +102,90 @@ static enum sch_err take_shard(const struct sch_cli *cli, double **values, size_
 	return SCH_OK;
 }
 
+/* The point with the largest output rms; NULL for an empty sweep. */
+static const struct sch_sweep_point *worst_point(const struct sch_sweep *s)
+{
+	const struct sch_sweep_point *w = NULL;
+	for (size_t k = 0; k < s->n_points; k++) {
+		if (!w || s->points[k].output_rms_v > w->output_rms_v)
+			w = &s->points[k];
+	}
+	return w;
+}
+
+/* "output noise 61.2 µV rms at iph = 1.00 µA (the worst of 9 points, 3 over) exceeds the budget ..." */
+static enum sch_err budget_breach(const struct sch_cli *cli, const struct sch_result *res, const struct sch_sweep *s,
+				  const struct sch_sweep_point *worst, struct sch_diag *d)
+{
+	char got[64], lim[64], over[64], at[64];
+	size_t n_over = 0;
+
+	for (size_t k = 0; k < s->n_points; k++)
+		n_over += s->points[k].output_rms_v > cli->budget_v;
+	sch_si_format(got, sizeof(got), worst->output_rms_v, 4, "V");
+	sch_si_format(lim, sizeof(lim), cli->budget_v, 4, "V");
+	sch_si_format(over, sizeof(over), worst->output_rms_v - cli->budget_v, 3, "V");
+	if (strcmp(s->unit, "C") == 0)
+		snprintf(at, sizeof(at), "%.2f °C", worst->value);
+	else
+		sch_si_format(at, sizeof(at), worst->value, 4, s->unit);
+	return sch_diag_error(d, SCH_ERR_CHECK, res->netlist, 0,
+			      "output noise %s rms over %g:%g Hz at %s = %s (the worst of %zu points, %zu over) exceeds "
+			      "the budget %s rms by %s (%.1f %%)",
+			      got, res->band_lo_hz, res->band_hi_hz, s->name, at, s->n_points, n_over, lim, over,
+			      100.0 * (worst->output_rms_v - cli->budget_v) / cli->budget_v);
+}
+
+/* JSON, CSV, plot and the depfile naming them, all or none. */
+static enum sch_err write_outputs(const struct sch_cli *cli, const struct sch_result *res, const struct sch_sweep *s,
+				  struct sch_diag *d)
+{
+	enum sch_err ret = SCH_OK, end;
+
+	sch_outfile_batch_begin();
+	if (cli->json_path)
+		ret = sch_report_sweep_json(res, s, cli->json_path, d);
+	if (ret == SCH_OK && cli->csv_path)
+		ret = sch_report_sweep_csv(res, s, cli->csv_path, d);
+	if (ret == SCH_OK && cli->plot_path)
+		ret = sch_report_sweep_plot(s, cli->plot_path, d);
+	if (ret == SCH_OK && cli->depfile_path)
+		ret = sch_cmd_write_depfile(cli, res, d);
+	end = sch_outfile_batch_end(ret == SCH_OK, d);
+	return ret != SCH_OK ? ret : end;
+}
+
+/* A shard's partial JSON and the depfile naming it, both or neither. */
+static enum sch_err write_shard(const struct sch_cli *cli, const struct sch_result *res, const struct sch_sweep *s,
+				const struct sch_sweep_shard *shard, struct sch_diag *d)
+{
+	enum sch_err ret, end;
+
+	sch_outfile_batch_begin();
+	ret = sch_report_sweep_partial_json(res, s, shard, cli->json_path, d);
+	if (ret == SCH_OK && cli->depfile_path)
+		ret = sch_cmd_write_depfile(cli, res, d);
+	end = sch_outfile_batch_end(ret == SCH_OK, d);
+	return ret != SCH_OK ? ret : end;
+}
+
+enum sch_err sch_cmd_sweep_finish(const struct sch_cli *cli, const struct sch_result *res, const struct sch_sweep *s,
+				  struct sch_diag *d)
+{
+	const struct sch_sweep_point *worst = worst_point(s);
+	bool over = !isnan(cli->budget_v) && worst && worst->output_rms_v > cli->budget_v;
+	enum sch_err ret = SCH_OK;
+
+	/* as in report: a breach writes no output file, so make reruns the check next time */
+	if (!over && (ret = write_outputs(cli, res, s, d)) != SCH_OK)
+		return ret;
+	if (cli->verbosity >= 0 && !(cli->json_path && strcmp(cli->json_path, "-") == 0))
+		ret = sch_report_sweep_table(res, s, stdout);
+	if (over)
+		ret = budget_breach(cli, res, s, worst, d);
+	return ret;
+}
+
 int cmd_sweep(int argc, char **argv, struct sch_ctx *ctx)
 {
 	struct sch_sweep_shard shard = { 0, 0, 0, 0 };
@@ -110,6 +195,7 @@ int cmd_sweep(int argc, char **argv, struct sch_ctx *ctx)
 	double *values = NULL;
 	size_t n = 0;
 	char name[256];
+	const struct sch_sweep_point *worst;
 	bool jobs_given = false;
 	bool done;
 	enum sch_err ret;
@@ -129,6 +215,11 @@ int cmd_sweep(int argc, char **argv, struct sch_ctx *ctx)
 	if (!jobs_given)
 		cli.run.n_workers = 2; /* both cores */
 	cli.run.mode = SCH_RUN_REPORT;
+	if (cli.shard_n && (cli.csv_path || cli.plot_path)) {
+		ret = sch_diag_error(&ctx->diag, SCH_ERR_USAGE, NULL, 0,
+				     "--csv and --plot show the whole sweep: give them to 'schrot merge', not to a shard");
+		goto out;
+	}
 	if (cli.shard_n && (ret = take_shard(&cli, &values, &n, &shard, &ctx->diag)) != SCH_OK)
 		goto out;
 	if (cli.verbosity >= 0 && isatty(STDERR_FILENO))
@@ -141,13 +232,14 @@ int cmd_sweep(int argc, char **argv, struct sch_ctx *ctx)
 	if (cli.shard_n) {
 		if (shard.n_total * (size_t)shard.index / (size_t)shard.count - shard.first == 1)
 			sweep.n_points = 1; /* the shard's one point was run twice; keep it once */
-		ret = sch_report_sweep_partial_json(&res, &sweep, &shard, cli.json_path, &ctx->diag);
+		worst = worst_point(&sweep);
+		if (!isnan(cli.budget_v) && worst && worst->output_rms_v > cli.budget_v)
+			ret = budget_breach(&cli, &res, &sweep, worst, &ctx->diag);
+		else
+			ret = write_shard(&cli, &res, &sweep, &shard, &ctx->diag);
 		goto out;
 	}
-	if (cli.json_path && (ret = sch_report_sweep_json(&res, &sweep, cli.json_path, &ctx->diag)) != SCH_OK)
-		goto out;
-	if (cli.verbosity >= 0 && !(cli.json_path && strcmp(cli.json_path, "-") == 0))
-		ret = sch_report_sweep_table(&res, &sweep, stdout);
+	ret = sch_cmd_sweep_finish(&cli, &res, &sweep, &ctx->diag);
 out:
 	free(values);
 	sch_result_release(&res);

@@ -67,8 +67,8 @@ static enum sch_err check_element(struct sch_deck_load *ld, const char *file, lo
 		return n < 4 ? too_few(ld, file, line, e->name, "3 nodes and a model") : SCH_OK;
 	case 'j':
 		return n < 4 ? too_few(ld, file, line, e->name, "3 nodes and a model") : SCH_OK;
-	case 'm':
-		return n < 5 ? too_few(ld, file, line, e->name, "4 nodes and a model") : SCH_OK;
+	case 'm': /* 3 nodes only with a vdmos model: decided once every model is known */
+		return n < 4 ? too_few(ld, file, line, e->name, "4 nodes and a model") : SCH_OK;
 	case 'i':
 	case 'v':
 		if (n < 2)
@@ -136,6 +136,7 @@ static enum sch_err element_card(struct sch_deck_load *ld, const char *file, lon
 	e->n_tok = (int)ld->n_tok - 1;
 	e->card = (int)ld->n_cards;
 	e->subckt = ld->n_open ? ld->open[ld->n_open - 1] : -1;
+	e->n_nodes = 0;
 	if (check_element(ld, file, line, e) != SCH_OK)
 		return SCH_ERR_INPUT;
 	ld->n_elements++;
@@ -188,20 +189,49 @@ out:
 	return ret;
 }
 
-static enum sch_err ends_card(struct sch_deck_load *ld, const char *file, long line, const char *text,
-			      const char **t)
+/*
+ * Any card whose keyword starts with ".ends" closes the innermost definition, as in the simulator:
+ * vendor libraries write ".ENDS* OPA-X \"Enhanced\"" or ".ends*". What follows the keyword (a name,
+ * glued text) is never checked, and the card is kept as a plain ".ends", so none of it reaches
+ * the simulator.
+ */
+static enum sch_err ends_card(struct sch_deck_load *ld, const char *file, long line)
 {
 	enum sch_err ret;
 
 	if (ld->n_open == 0)
 		return sch_diag_error(ld->d, SCH_ERR_INPUT, file, line, "'.ends' without '.subckt'");
 	/* The card belongs to the definition it closes, so [card_begin, card_end] share the index. */
-	ret = add_card(ld, file, line, text, t[0], -1);
+	ret = add_card(ld, file, line, ".ends", ".ends", -1);
 	if (ret != SCH_OK)
 		return ret;
 	ld->subckts[ld->open[ld->n_open - 1]].card_end = (int)ld->n_cards - 1;
 	ld->n_open--;
 	return SCH_OK;
+}
+
+/*
+ * The level of a .model card as the simulator reads it (ngspice 39 INPfindLev): the first "level"
+ * after the model's name, then blanks, '=', ',', '(', ')' or '+', then a number rounded to the
+ * nearest integer; 1 without one or when it is out of 0..99.
+ */
+static int model_level(const char **t, size_t n)
+{
+	for (size_t i = 2; i < n; i++) {
+		const char *p = strstr(t[i], "level");
+		double v;
+		char *end;
+
+		if (!p)
+			continue;
+		p += strlen("level");
+		p += strspn(p, " \t=,()+");
+		if (!*p && i + 1 < n)
+			p = t[i + 1] + strspn(t[i + 1], " \t=,()+");
+		v = strtod(p, &end);
+		return end == p || !(v >= -0.5 && v < 99.5) ? 1 : (int)(v + 0.5);
+	}
+	return 1;
 }
 
 static enum sch_err model_card(struct sch_deck_load *ld, const char *file, long line, const char *text,
@@ -220,6 +250,7 @@ static enum sch_err model_card(struct sch_deck_load *ld, const char *file, long 
 	m->type = sch_arena_strndup(&ld->deck->arena, t[2], type_len);
 	if (!m->type)
 		return SCH_ERR_NOMEM;
+	m->level = model_level(t, n);
 	m->card = (int)ld->n_cards;
 	m->subckt = ld->n_open ? ld->open[ld->n_open - 1] : -1;
 	ld->n_models++;
@@ -308,8 +339,8 @@ static enum sch_err dot_card(struct sch_deck_load *ld, const char *file, long li
 	kw = t[0];
 	if (strcmp(kw, ".subckt") == 0)
 		return subckt_card(ld, file, line, stored, t, n);
-	if (strcmp(kw, ".ends") == 0)
-		return ends_card(ld, file, line, stored, t);
+	if (strncmp(kw, ".ends", 5) == 0)
+		return ends_card(ld, file, line);
 	if (strcmp(kw, ".model") == 0)
 		return model_card(ld, file, line, stored, t, n);
 	if (strcmp(kw, ".noise") == 0)

@@ -18,41 +18,103 @@ static bool model_name_checkable(const char *t)
 	return t && is_alpha(t[0]) && !strpbrk(t, "={}'\"()");
 }
 
-static bool model_known_ix(const struct sch_names *ix, const char *name)
+/* Instance keywords that end the node list (the simulator's own words). */
+static bool is_instance_keyword(const char *t)
 {
-	return sch_names_next(ix, name, strlen(name), -1) >= 0;
+	return strcmp(t, "off") == 0 || strcmp(t, "thermal") == 0 || strcmp(t, "tnodeout") == 0;
 }
 
-static enum sch_err check_model_use(struct sch_deck_load *ld, const struct sch_names *mx,
-				    const struct sch_element *e)
+/*
+ * The node counts the simulator allows an element of this letter with model m (ngspice 39
+ * INP2D, INP2Q, INP2M, INP2J): a diode 2, or 3 with a thermal node; a bipolar transistor 3 or 4
+ * (with substrate), 5 (substrate and thermal node) for VBIC (levels 4, 9) and HICUM (level 8);
+ * a MOSFET 4, a vdmos model 3 to 5 (drain, gate, source, two thermal nodes), the SOI levels up to
+ * 7 and SOI3 and HiSIM HV up to 6; a JFET 3.
+ */
+static void node_range(char letter, const struct sch_model *m, int *min, int *max)
+{
+	int lv = m->level;
+
+	switch (letter) {
+	case 'd':
+		*min = 2, *max = 3;
+		break;
+	case 'q':
+		*min = 3, *max = (lv == 4 || lv == 8 || lv == 9) ? 5 : 4;
+		break;
+	case 'm':
+		if (strncmp(m->type, "vdmos", 5) == 0)
+			*min = 3, *max = 5;
+		else
+			*min = 4, *max = (lv == 10 || (lv >= 55 && lv <= 58)) ? 7 : (lv == 60 || lv == 73) ? 6 : 4;
+		break;
+	default:
+		*min = *max = 3;
+	}
+}
+
+/*
+ * Decides the node count of a D, Q, M or J element the way the simulator does: its model is the
+ * first token, from the fewest nodes the letter allows on, that names a model; the tokens before
+ * it are the nodes, and the model's type and level bound their number (node_range). Sets
+ * e->n_nodes. SCH_ERR_INPUT with a message at the element's line when no model is named there
+ * ("model 'x' is not defined", naming the last plain word before the instance's keywords and
+ * assignments) or the count is outside the bounds; unchanged when the model cannot be told (a
+ * name from an expression).
+ */
+static enum sch_err decide_nodes(struct sch_deck_load *ld, const struct sch_names *mx, struct sch_element *e)
 {
 	const struct sch_card *c = &ld->cards[e->card];
+	const struct sch_model *m = NULL;
 	char q[SCH_DECK_QUOTE_MAX + 8];
-	int first, last;
+	int first, last, slot = -1, named = -1, min, max;
 
 	switch (e->letter) {
 	case 'd':
-		first = last = 2;
+		first = 2, last = 3;
 		break;
 	case 'q':
-		first = 3, last = 4;
+		first = 3, last = 5;
+		break;
+	case 'm':
+		first = 3, last = 7;
 		break;
 	case 'j':
 		first = last = 3;
 		break;
-	case 'm':
-		first = 4, last = 7;
-		break;
 	default:
 		return SCH_OK;
 	}
-	if (!model_name_checkable(e->tok[first]))
-		return SCH_OK;
-	for (int i = first; i <= last && i < e->n_tok; i++)
-		if (model_known_ix(mx, e->tok[i]))
+	for (int i = first; i <= last && i < e->n_tok && !m; i++) {
+		const char *t = e->tok[i];
+		int k;
+
+		if (strchr(t, '=') || is_instance_keyword(t))
+			break;
+		if (!model_name_checkable(t))
+			continue; /* a numbered node */
+		if ((k = sch_names_next(mx, t, strlen(t), -1)) >= 0) {
+			slot = i;
+			m = &ld->models[mx->e[k].value];
+		}
+		named = i;
+	}
+	if (!m) {
+		if (named < 0)
 			return SCH_OK;
-	return sch_diag_error(ld->d, SCH_ERR_INPUT, c->file, c->line, "model%s is not defined",
-			      sch_deck_quote(ld->deck, c->file, e->tok[first], "", q, sizeof(q)));
+		return sch_diag_error(ld->d, SCH_ERR_INPUT, c->file, c->line, "model%s is not defined",
+				      sch_deck_quote(ld->deck, c->file, e->tok[named], "", q, sizeof(q)));
+	}
+	node_range(e->letter, m, &min, &max);
+	if (slot < min)
+		return sch_diag_error(ld->d, SCH_ERR_INPUT, c->file, c->line, "too few fields for%s: needs %d nodes and a model",
+				      sch_deck_quote(ld->deck, c->file, e->name, " an element", q, sizeof(q)), min);
+	if (slot > max)
+		return sch_diag_error(ld->d, SCH_ERR_INPUT, c->file, c->line,
+				      "'%s' connects %d nodes but its %s model (level %d) takes at most %d", e->name, slot,
+				      m->type, m->level, max);
+	e->n_nodes = slot;
+	return SCH_OK;
 }
 
 static enum sch_err check_names(struct sch_deck_load *ld)
@@ -76,7 +138,7 @@ static enum sch_err check_names(struct sch_deck_load *ld)
 			goto out;
 	}
 	for (size_t i = 0; i < ld->n_elements; i++) {
-		const struct sch_element *e = &ld->elements[i];
+		struct sch_element *e = &ld->elements[i];
 		const struct sch_card *c = &ld->cards[e->card];
 
 		if (e->letter == 'x') {
@@ -100,7 +162,7 @@ static enum sch_err check_names(struct sch_deck_load *ld)
 						     ld->subckts[def].n_ports, ld->subckts[def].n_ports == 1 ? "" : "s");
 				goto out;
 			}
-		} else if (check_model_use(ld, &mx, e) != SCH_OK) {
+		} else if (decide_nodes(ld, &mx, e) != SCH_OK) {
 			ret = SCH_ERR_INPUT;
 			goto out;
 		}
@@ -110,6 +172,29 @@ out:
 	sch_names_release(&sx);
 	sch_names_release(&mx);
 	return ret;
+}
+
+/*
+ * Code models that read a file the netlist names (or, in later ngspice, start a process or load a
+ * library). The worker loads the standard code-model libraries, so A devices run; these stay out,
+ * because netlist text must never make the simulator read or run what the netlist names.
+ */
+static const char *const file_code_models[] = {
+	"filesource", "d_source", "d_state", "table2d", "table3d", "d_process", "d_cosim",
+};
+
+static enum sch_err check_code_models(struct sch_deck_load *ld)
+{
+	for (size_t i = 0; i < ld->n_models; i++) {
+		const struct sch_card *c = &ld->cards[ld->models[i].card];
+
+		for (size_t k = 0; k < sizeof(file_code_models) / sizeof(file_code_models[0]); k++)
+			if (strcasecmp(ld->models[i].type, file_code_models[k]) == 0)
+				return sch_diag_error(ld->d, SCH_ERR_INPUT, c->file, c->line,
+						      "code model '%s' reads a file or starts a program the netlist names; "
+						      "schrot never lets the simulator do that", file_code_models[k]);
+	}
+	return SCH_OK;
 }
 
 /* Whether node is a node of some top-level element; true as well when that cannot be told. */
@@ -163,7 +248,8 @@ static enum sch_err check_noise_nodes(struct sch_deck_load *ld)
 
 			snprintf(name, sizeof(name), "%.*s", (int)len, p);
 			return sch_diag_error(ld->d, SCH_ERR_INPUT, c->file, c->line,
-					      "'.noise' output node%s is not a node of any element at the top level",
+					      "%s output node%s is not a node of any element at the top level",
+					      ns->from_control ? "the '.control' noise command's" : "'.noise'",
 					      sch_deck_quote(ld->deck, c->file, name, "", q, sizeof(q)));
 		}
 		p += len + (p[len] == ',');
@@ -203,6 +289,8 @@ enum sch_err sch_deck_load_finish(struct sch_deck_load *ld)
 		return sch_diag_error(ld->d, SCH_ERR_INPUT, c->file, c->line, "'.subckt%s' has no matching '.ends'", q);
 	}
 	ret = check_names(ld);
+	if (ret == SCH_OK)
+		ret = check_code_models(ld);
 	if (ret == SCH_OK)
 		ret = check_noise_nodes(ld);
 	if (ret == SCH_OK)

@@ -43,6 +43,7 @@ struct reader {
 	const struct src *stack[SCH_MAX_INCLUDE_DEPTH + 1];
 	int depth;
 	int n_opens;
+	long script_line; /* line of a '*ng_script' title marker in the top file, 0 without one */
 };
 
 static enum sch_err read_source(struct reader *r, struct src *src, const char *text, size_t len);
@@ -275,6 +276,29 @@ static const char *identity(struct sch_arena *a, const char *path)
 }
 
 /*
+ * Length of an included file's text without the DOS end-of-file byte (0x1A, control-Z) that old
+ * vendor model files carry after their last line, with a note; len when there is none. Only blanks
+ * and line ends may follow it. Anywhere else 0x1A stays a control character, which check_text
+ * refuses (in the top netlist too).
+ */
+static size_t without_dos_eof(struct reader *r, const char *path, const char *text, size_t len)
+{
+	size_t n = len;
+	long line = 1;
+
+	while (n && (is_blank(text[n - 1]) || text[n - 1] == '\n'))
+		n--;
+	if (!n || text[n - 1] != 0x1a)
+		return len;
+	while (n && text[n - 1] == 0x1a)
+		n--;
+	for (const char *p = text; (p = memchr(p, '\n', (size_t)(text + n - p))); p++)
+		line++;
+	sch_diag_report(r->ld.d, SCH_NOTE, path, line, "DOS end-of-file byte (0x1a) after the last line: ignored");
+	return n;
+}
+
+/*
  * Reads path (named by the card at inc_file:inc_line) as an include file or, when section is
  * given, for that library section.
  */
@@ -329,6 +353,7 @@ static enum sch_err open_source(struct reader *r, const char *path, const char *
 	}
 	if (ret != SCH_OK)
 		goto out;
+	len = without_dos_eof(r, path, text, len);
 	ret = SCH_ERR_NOMEM;
 	if (note_file(r, path, src.id) != SCH_OK)
 		goto out;
@@ -475,9 +500,11 @@ static enum sch_err take_title(struct reader *r, struct src *src, const char *s,
 		return SCH_ERR_NOMEM;
 	while (b < n && is_blank(s[b]))
 		b++;
-	if (ci_prefix(s + b, n - b, "*ng_script"))
+	if (ci_prefix(s + b, n - b, "*ng_script")) {
+		r->script_line = 1;
 		sch_diag_report(r->ld.d, SCH_WARNING, src->path, 1,
 				"title starts with '*ng_script': it is kept as a title and never run as a script");
+	}
 	return SCH_OK;
 }
 
@@ -486,6 +513,8 @@ struct lines {
 	struct sch_buf card; /* the pending card, continuation lines joined with one blank */
 	long card_line;      /* line the pending card started on */
 	bool pending;        /* card holds a card not yet handed on */
+	bool in_control;     /* ... a line of a .control block, read as data only */
+	bool control_odd;    /* ... which holds bytes other than printable ASCII */
 	bool need_title;     /* the next line is the top file's title */
 	bool title_blank;    /* the title was blank and the first line after it is still to come */
 	long lineno;
@@ -514,13 +543,23 @@ static enum sch_err title_line(struct reader *r, struct src *src, struct lines *
 	return ret;
 }
 
+/* Hands on the pending card: a .control block's line to the block's reader, any other to flush_card. */
+static enum sch_err flush_pending(struct reader *r, struct src *src, struct lines *ls)
+{
+	ls->pending = false;
+	if (ls->in_control)
+		return sch_deck_control_line(&r->ld, src->path, ls->card_line, ls->card.data, ls->card.len,
+					     ls->control_odd);
+	return flush_card(r, src, ls->card_line, ls->card.data, ls->card.len);
+}
+
 /* A '+' line: its text joins the pending card. */
 static enum sch_err continuation_line(struct reader *r, struct src *src, struct lines *ls, const char *s, size_t n)
 {
 	size_t kept;
 	bool odd;
 
-	if (src->state != ST_CARDS)
+	if (src->state != ST_CARDS && !(src->state == ST_CONTROL && ls->pending))
 		return SCH_OK;
 	s++;
 	n--;
@@ -529,7 +568,9 @@ static enum sch_err continuation_line(struct reader *r, struct src *src, struct 
 	kept = strip_inline(s, n, &odd);
 	if (!kept)
 		return SCH_OK;
-	if (odd && check_text(r, src, ls->lineno, s, kept) != SCH_OK)
+	if (src->state == ST_CONTROL)
+		ls->control_odd |= odd; /* block text is never checked: it is only read, never sent */
+	else if (odd && check_text(r, src, ls->lineno, s, kept) != SCH_OK)
 		return SCH_ERR_INPUT;
 	if (!ls->pending) {
 		sch_diag_report(r->ld.d, SCH_WARNING, src->path, ls->lineno,
@@ -567,6 +608,23 @@ static bool taken_by_state(struct reader *r, struct src *src, const char *s, siz
 	return false;
 }
 
+/* A line of a .control block: held (for its continuations) to be read as data, never run. */
+static enum sch_err control_start(struct reader *r, const struct src *src, struct lines *ls, const char *s,
+				  size_t kept, bool odd)
+{
+	if (kept > SCH_MAX_LINE)
+		return sch_diag_error(r->ld.d, SCH_ERR_INPUT, src->path, ls->lineno,
+				      "line longer than %zu bytes", SCH_MAX_LINE);
+	sch_buf_reset(&ls->card);
+	if (sch_buf_add(&ls->card, s, kept) != SCH_OK)
+		return SCH_ERR_NOMEM;
+	ls->card_line = ls->lineno;
+	ls->pending = true;
+	ls->in_control = true;
+	ls->control_odd = odd;
+	return SCH_OK;
+}
+
 /* A line that is no comment and no continuation: hands on the pending card, then holds this one. */
 static enum sch_err card_start(struct reader *r, struct src *src, struct lines *ls, const char *s, size_t n)
 {
@@ -577,11 +635,14 @@ static enum sch_err card_start(struct reader *r, struct src *src, struct lines *
 	if (!kept)
 		return SCH_OK; /* a line holding only an inline comment does not end the card above */
 	if (ls->pending) {
-		ls->pending = false;
-		ret = flush_card(r, src, ls->card_line, ls->card.data, ls->card.len);
+		ret = flush_pending(r, src, ls);
 		if (ret != SCH_OK || src->stop)
 			return ret;
 	}
+	if (src->state == ST_CONTROL && !ci_prefix(s, kept, ".endc"))
+		return control_start(r, src, ls, s, kept, odd);
+	if (src->state == ST_CONTROL)
+		sch_deck_control_end(&r->ld);
 	if (taken_by_state(r, src, s, kept))
 		return SCH_OK;
 	if (s[0] == '.' && sch_pattern_match(r->ld.re_control, s, kept)) {
@@ -599,6 +660,7 @@ static enum sch_err card_start(struct reader *r, struct src *src, struct lines *
 		return SCH_ERR_NOMEM;
 	ls->card_line = ls->lineno;
 	ls->pending = true;
+	ls->in_control = false;
 	return SCH_OK;
 }
 
@@ -616,9 +678,11 @@ static enum sch_err read_line(struct reader *r, struct src *src, struct lines *l
 	if (ls->title_blank) {
 		/* ngspice looks for the script marker past a blank first line too. */
 		ls->title_blank = false;
-		if (ci_prefix(s + b, n - b, "*ng_script"))
+		if (ci_prefix(s + b, n - b, "*ng_script")) {
+			r->script_line = ls->lineno;
 			sch_diag_report(r->ld.d, SCH_WARNING, src->path, ls->lineno,
 					"'*ng_script' after a blank title is a comment here and never run");
+		}
 	}
 	s += b;
 	n -= b;
@@ -651,7 +715,9 @@ static enum sch_err read_source(struct reader *r, struct src *src, const char *t
 		ret = read_line(r, src, &ls, s, n);
 	}
 	if (ret == SCH_OK && ls.pending && !src->stop)
-		ret = flush_card(r, src, ls.card_line, ls.card.data, ls.card.len);
+		ret = flush_pending(r, src, &ls);
+	if (src->state == ST_CONTROL)
+		sch_deck_control_end(&r->ld);
 	sch_buf_release(&ls.card);
 	return ret;
 }
@@ -729,6 +795,12 @@ enum sch_err sch_deck_load_text(struct sch_deck *deck, const char *name, const c
 		goto out;
 	r.stack[r.depth++] = &top;
 	ret = read_source(&r, &top, text, len);
+	/* The simulator would run such a file as commands: it is a script, not a netlist to report on. */
+	if (ret == SCH_OK && r.script_line && r.ld.n_elements == 0)
+		ret = sch_diag_error(d, SCH_ERR_INPUT, name, r.script_line,
+				     "a '*ng_script' title and no circuit: the file is a simulator script, not a netlist");
+	if (ret == SCH_OK)
+		ret = sch_deck_control_finish(&r.ld);
 	if (ret == SCH_OK)
 		ret = sch_deck_load_finish(&r.ld);
 out:

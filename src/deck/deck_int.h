@@ -67,6 +67,31 @@ enum sch_err sch_deck_grow(void **data, size_t *alloc, size_t n, size_t size);
  */
 enum sch_err sch_deck_arena_grow(struct sch_arena *a, void **data, size_t *alloc, size_t n, size_t size);
 
+/* A command of a .control block that is not honoured, for the note that lists them. */
+struct sch_control_skip {
+	const char *word;    /* the command word as a message may show it: " 'alter'", or " a command" */
+	const char *file;
+	long line;
+	bool after_noise;    /* after the noise command that was taken */
+};
+
+/*
+ * What the reader takes from .control blocks as data (control.c); the blocks themselves never
+ * run and none of their text reaches the simulator except cards rebuilt from checked tokens.
+ */
+struct sch_control_scan {
+	int depth;                /* open loops and ifs in the current block */
+	const char *noise_card;   /* ".noise ..." rebuilt from the first usable noise command; NULL none */
+	const char *noise_file;
+	long noise_line;
+	const char *temp_card;    /* ".temp X" rebuilt from the last set/option temp= before it; NULL none */
+	const char *temp_file;
+	long temp_line;
+	long op_line;             /* an op before the noise command (schrot runs its own); 0 none */
+	struct sch_control_skip *skipped;
+	size_t n_skipped, a_skipped;
+};
+
 /* State of one sch_deck_load call. cards and elements live in the arena; the other vectors are
  * malloc'd and copied into it at the end. */
 struct sch_deck_load {
@@ -90,6 +115,7 @@ struct sch_deck_load {
 	size_t *tok_off;
 	size_t n_tok, a_tok;
 	bool noise_seen;
+	struct sch_control_scan control;
 	struct sch_pattern *re_control, *re_include, *re_lib;
 };
 
@@ -160,6 +186,27 @@ enum sch_err sch_deck_check_dc_paths(struct sch_deck_load *ld);
 /* Adds one ordinary card (an element or a dot card other than include/lib/control/end). */
 enum sch_err sch_deck_load_card(struct sch_deck_load *ld, const char *file, long line,
 				const char *text, size_t len);
+
+/* control.c */
+
+/*
+ * One logical line of a .control block (continuations joined, comments removed), read as data:
+ * a noise command, op and set/option temp= are kept, every other command is listed as not
+ * honoured. odd: the line holds bytes other than printable ASCII (then it is only listed).
+ * SCH_ERR_NOMEM on failure.
+ */
+enum sch_err sch_deck_control_line(struct sch_deck_load *ld, const char *file, long line, const char *text,
+				   size_t len, bool odd);
+
+/* A .control block ends (or its file does): loops left open are closed. This function can't fail. */
+void sch_deck_control_end(struct sch_deck_load *ld);
+
+/*
+ * At the end of reading, before sch_deck_load_finish: when the deck has no .noise card, adds the
+ * .noise (and .temp) card rebuilt from a block and the notes saying what was and was not
+ * honoured. Errors as sch_deck_load_card, SCH_ERR_NOMEM.
+ */
+enum sch_err sch_deck_control_finish(struct sch_deck_load *ld);
 
 /* Checks what needs the whole deck (balance, subckt and model names), then moves it into the arena. */
 enum sch_err sch_deck_load_finish(struct sch_deck_load *ld);

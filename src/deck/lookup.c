@@ -156,17 +156,26 @@ int sch_deck_element_nodes(const struct sch_deck *deck, const struct sch_element
 
 	*nodes = (const char *const *)e->tok;
 	switch (e->letter) {
-	case 'r': case 'c': case 'l': case 'd': case 'i': case 'v': case 'b': case 'f': case 'h': case 'w':
+	case 'r': case 'c': case 'l': case 'i': case 'v': case 'b': case 'f': case 'h': case 'w':
 		want = 2;
 		break;
-	case 'j': case 'z': case 'u':
+	case 'd': /* decided at load (decide_nodes); the defaults when the model could not be told */
+		want = e->n_nodes > 0 ? e->n_nodes : 2;
+		break;
+	case 'j':
+		want = e->n_nodes > 0 ? e->n_nodes : 3;
+		break;
+	case 'z': case 'u':
 		want = 3;
 		break;
-	case 'm': case 't': case 's': case 'o':
+	case 'm':
+		want = e->n_nodes > 0 ? e->n_nodes : 4;
+		break;
+	case 't': case 's': case 'o':
 		want = 4;
 		break;
 	case 'q':
-		want = (e->n_tok >= 5 && !model_exists(deck, e->tok[3])) ? 4 : 3;
+		want = e->n_nodes > 0 ? e->n_nodes : (e->n_tok >= 5 && !model_exists(deck, e->tok[3])) ? 4 : 3;
 		break;
 	case 'e':
 	case 'g':

@@ -112,7 +112,9 @@ enum sch_err sch_report_arrivals_table(const struct sch_arrivals *a, FILE *out)
 	fprintf(out, "output at the end of each window\n");
 	fprintf(out, "  mean       %s\n", sch_si_format(s1, sizeof(s1), a->output_mean_v, 5, "V"));
 	fprintf(out, "  std        %s rms\n", sch_si_format(s1, sizeof(s1), a->output_std_v, 4, "V"));
-	fprintf(out, "  skewness   %.4f   (a Gaussian of the same mean and variance: 0)\n\n", a->output_skewness);
+	fprintf(out, "  skewness   %.4f   (a Gaussian of the same mean and variance: 0)\n", a->output_skewness);
+	fprintf(out, "  lag-1      %.4f   (correlation with the next window; independent windows: 0)\n\n",
+		a->output_lag1_correlation);
 	fprintf(out, "counts per window         %10s %10s %10s %8s %8s %10s %10s\n", "expected N", "mean", "variance",
 		"skewness", "P(0)", "Poisson", "Gaussian");
 	for (size_t k = 0; k < a->n_counts; k++) {
@@ -176,6 +178,46 @@ static json_t *hist_json(const struct hist *h)
 	return o;
 }
 
+/* A CSV header field: "NAME count", quoted when the name holds a comma or a quote. */
+static void put_count_head(FILE *fp, const char *name)
+{
+	if (!strpbrk(name, ",\"\r\n")) {
+		fprintf(fp, ",%s count", name);
+		return;
+	}
+	fputs(",\"", fp);
+	for (const char *p = name; *p; p++) {
+		if (*p == '"')
+			fputc('"', fp);
+		fputc(*p, fp);
+	}
+	fputs(" count\"", fp);
+}
+
+enum sch_err sch_report_arrivals_csv(const struct sch_arrivals *a, const char *path, struct sch_diag *d)
+{
+	struct sch_outfile o;
+	enum sch_err ret = sch_outfile_open(&o, path, d);
+
+	if (ret != SCH_OK)
+		return ret;
+	fputs("window,end_s,output_v", o.fp);
+	for (size_t c = 0; c < a->n_counts; c++)
+		put_count_head(o.fp, a->counts[c].carrier);
+	fputc('\n', o.fp);
+	for (size_t w = 0; w < a->n_windows; w++) {
+		fprintf(o.fp, "%zu,%.12g,%.12g", w + 1, a->settle_s + (double)(w + 1) * a->window_s, a->output_v[w]);
+		for (size_t c = 0; c < a->n_counts; c++)
+			fprintf(o.fp, ",%lu", a->counts[c].per_window ? (unsigned long)a->counts[c].per_window[w] : 0UL);
+		fputc('\n', o.fp);
+	}
+	if (ferror(o.fp)) {
+		sch_outfile_abort(&o);
+		return sch_diag_error(d, SCH_ERR_IO, path, 0, "cannot write the arrivals CSV");
+	}
+	return sch_outfile_commit(&o, d);
+}
+
 enum sch_err sch_report_arrivals_json(const struct sch_arrivals *a, const char *path, struct sch_diag *d)
 {
 	struct sch_outfile o;
@@ -200,6 +242,8 @@ enum sch_err sch_report_arrivals_json(const struct sch_arrivals *a, const char *
 	json_object_set_new(doc, "output_mean_v", real_or_null(a->output_mean_v));
 	json_object_set_new(doc, "output_std_v", real_or_null(a->output_std_v));
 	json_object_set_new(doc, "output_skewness", real_or_null(a->output_skewness));
+	json_object_set_new(doc, "output_lag1_correlation", real_or_null(a->output_lag1_correlation));
+	json_object_set_new(doc, "shortest_rc_s", real_or_null(a->shortest_rc_s));
 	output_hist(a, h);
 	json_object_set_new(doc, "output_histogram", hist_json(h));
 	for (size_t k = 0; k < a->n_counts; k++) {
@@ -259,7 +303,7 @@ static void text_at(cairo_t *cr, double x, double y, const char *s, double align
 
 	cairo_text_extents(cr, s, &te);
 	cairo_move_to(cr, x - te.x_advance * align_x, y);
-	cairo_show_text(cr, s);
+	sch_report_show_text(cr, s);
 }
 
 /* One histogram panel: bars counted, dots Poisson (counts only), line Gaussian. */
@@ -421,8 +465,11 @@ static enum sch_err draw(cairo_t *cr, const struct sch_arrivals *a)
 	for (size_t k = 0; k < n_panels; k++) {
 		const struct sch_arrival_counts *c = &a->counts[k];
 		count_hist(c, h);
-		snprintf(title, sizeof(title), "%s: N = %.4g expected, mean %.4g, variance %.4g, P(0) %.4f (Poisson %.4f)",
-			 c->carrier, c->expected_count, c->mean_count, c->var_count, c->p_zero, exp(-c->expected_count));
+		char n[48], m[48], v[48];
+		snprintf(title, sizeof(title), "%s: N = %s expected, mean %s, variance %s, P(0) %.4f (Poisson %.4f)",
+			 c->carrier, sch_report_ratio(n, sizeof(n), c->expected_count),
+			 sch_report_ratio(m, sizeof(m), c->mean_count), sch_report_ratio(v, sizeof(v), c->var_count), c->p_zero,
+			 exp(-c->expected_count));
 		draw_panel(cr, PLOT_TOP + PANEL_H * (double)(k + 1), title, "primary electrons per window", h);
 	}
 	free(h);

@@ -1,7 +1,8 @@
 /* SPDX-License-Identifier: BSD-3-Clause */
 /*
  * report_csv.c - CSV views of a result (RFC 4180 quoting, LF line ends): one row per contribution, and the
- * spectrum, one row per frequency with the top contributions and the rest.
+ * spectrum, one row per frequency with the top contributions and the rest, densities signed so
+ * that the columns' signed squares add up to the total's.
  */
 #include <math.h>
 #include <stdbool.h>
@@ -28,6 +29,12 @@ static void put_field(FILE *fp, const char *s)
 		fputc(*s, fp);
 	}
 	fputc('"', fp);
+}
+
+/* sqrt(|psd|) with psd's sign: a column whose square, signed, adds to the total. */
+static double signed_density(double psd)
+{
+	return copysign(sqrt(fabs(psd)), psd);
 }
 
 /* A number field, empty for NaN or inf. */
@@ -115,20 +122,22 @@ enum sch_err sch_report_spectrum(const struct sch_result *r, const char *path, i
 		fputc(',', fp);
 		put_field(fp, head);
 	}
-	fputs(",rest [V/rtHz]\n", fp);
+	fprintf(fp, ",rest [V/rtHz],transfer [%s]\n", sch_report_transfer_unit(r));
 	for (size_t k = 0; k < r->n_freq; k++) {
 		double sum = 0;
 		put_num(fp, r->freq_hz[k]);
 		fputc(',', fp);
-		put_num(fp, sqrt(fabs(r->total_psd[k])));
+		put_num(fp, signed_density(r->total_psd[k]));
 		for (size_t i = 0; i < top; i++) {
 			double psd = r->contributions[i].psd ? r->contributions[i].psd[k] : NAN;
 			sum += psd;
 			fputc(',', fp);
-			put_num(fp, sqrt(fabs(psd)));
+			put_num(fp, signed_density(psd));
 		}
 		fputc(',', fp);
-		put_num(fp, sqrt(fabs(r->total_psd[k] - sum)));
+		put_num(fp, signed_density(r->total_psd[k] - sum));
+		fputc(',', fp);
+		put_num(fp, sqrt(r->gain2[k]));
 		fputs("\n", fp);
 	}
 	return finish(&o, "spectrum CSV", d);

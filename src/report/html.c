@@ -118,36 +118,16 @@ static const char *si(char *out, size_t n, double v, const char *unit)
 	return sch_si_format(out, n, v, 3, unit);
 }
 
-/* A power ratio to 3 significant digits, large and small ones as "4.92 × 10⁴" rather than "4.92e+04". */
-static const char *ratio(char *out, size_t n, double x)
-{
-	static const char *const sup[] = { "⁰", "¹", "²", "³", "⁴", "⁵", "⁶", "⁷", "⁸", "⁹" };
-	char digits[16], exp_text[64] = "";
-	int e;
-
-	if (!isfinite(x) || x == 0 || (fabs(x) >= 0.01 && fabs(x) < 1e4)) {
-		snprintf(out, n, "%.3g", x);
-		return out;
-	}
-	e = (int)floor(log10(fabs(x)));
-	if (fabs(x / pow(10, e)) >= 9.995) /* rounds up to the next decade */
-		e++;
-	snprintf(digits, sizeof(digits), "%d", abs(e));
-	if (e < 0)
-		snprintf(exp_text, sizeof(exp_text), "⁻");
-	for (const char *p = digits; *p; p++)
-		snprintf(exp_text + strlen(exp_text), sizeof(exp_text) - strlen(exp_text), "%s", sup[*p - '0']);
-	snprintf(out, n, "%.3g × 10%s", x / pow(10, e), exp_text);
-	return out;
-}
-
 static void figure(struct page *b, const char *value, const char *what)
 {
 	elem(b, "<div class=\"fig\"><b>", value, "</b>");
 	elem(b, "<span>", what, "</span></div>\n");
 }
 
-/* At most six figures: the totals, NEP and SNR, the first spot (the spot table has the rest), the shot share. */
+/*
+ * At most eight figures: the totals, the transfer and its bandwidth, NEP and SNR, the first spot
+ * (the spot table has the rest), the shot share.
+ */
 static void headline(struct page *b, const struct sch_result *r)
 {
 	char v[96], u[32], x[48], q[64], y[160];
@@ -155,17 +135,32 @@ static void headline(struct page *b, const struct sch_result *r)
 
 	snprintf(u, sizeof(u), "%s/√Hz", unit);
 	adds(b, "<div class=\"figures\">\n");
-	snprintf(v, sizeof(v), "%s rms", si(x, sizeof(x), r->output_rms_v, "V"));
-	figure(b, v, "output noise in the band");
-	snprintf(v, sizeof(v), "%s rms", si(x, sizeof(x), r->input_rms, unit));
-	figure(b, v, "input-referred noise");
+	if (r->spot_run && r->n_spots > 0) {
+		snprintf(y, sizeof(y), "output noise at %s (a single-frequency run: no band)",
+			 si(x, sizeof(x), r->spots[0].freq_hz, "Hz"));
+		figure(b, si(v, sizeof(v), r->spots[0].output_v_per_rthz, "V/√Hz"), y);
+	} else {
+		snprintf(v, sizeof(v), "%s rms", si(x, sizeof(x), r->output_rms_v, "V"));
+		figure(b, v, "output noise in the band");
+		snprintf(v, sizeof(v), "%s rms", si(x, sizeof(x), r->input_rms, unit));
+		figure(b, v, "input-referred noise");
+		{
+			char t[96];
+			snprintf(y, sizeof(y), "%s at %s", r->input_unit && strcmp(r->input_unit, "A") == 0 ? "transimpedance" : "transfer",
+				 si(x, sizeof(x), r->transfer.ref_hz, "Hz"));
+			figure(b, sch_report_transfer_value(r, t, sizeof(t)), y);
+			snprintf(y, sizeof(y), "-3 dB bandwidth; noise-equivalent %s over the band",
+				 si(x, sizeof(x), r->transfer.enbw_hz, "Hz"));
+			figure(b, si(v, sizeof(v), r->transfer.f_high_hz, "Hz"), y);
+		}
+	}
 	if (!isnan(r->nep_band_w_per_rthz)) {
 		snprintf(y, sizeof(y), "band-average NEP at %.4g A/W", r->responsivity_a_per_w);
 		figure(b, si(v, sizeof(v), r->nep_band_w_per_rthz, "W/√Hz"), y);
 	}
-	if (!isnan(r->signal)) {
+	if (!isnan(r->signal) && !isnan(r->snr)) {
 		snprintf(v, sizeof(v), "%.1f dB", sch_report_db(r->snr));
-		snprintf(y, sizeof(y), "SNR %s for %s", ratio(q, sizeof(q), r->snr), si(x, sizeof(x), r->signal, unit));
+		snprintf(y, sizeof(y), "SNR %s for %s", sch_report_ratio(q, sizeof(q), r->snr), si(x, sizeof(x), r->signal, unit));
 		figure(b, v, y);
 	}
 	if (r->n_spots > 0) {
@@ -248,7 +243,7 @@ static void plot(struct page *b, const struct sch_result *r)
 	const char *start;
 
 	sch_buf_init(&svg, SCH_REPORT_MAX_BYTES);
-	adds(b, "<h2>Output noise density</h2>\n");
+	adds(b, "<h2>Output noise density and transfer</h2>\n");
 	if (sch_report_plot_svg(r, &svg) != SCH_OK || !svg.data || !(start = strstr(svg.data, "<svg"))) {
 		adds(b, "<p>No plot: the spectrum has no positive density to draw.</p>\n");
 		goto out;
@@ -354,12 +349,19 @@ static enum sch_err build_page(struct page *b, const struct sch_result *r)
 	adds(b, "</style>\n</head>\n<body>\n");
 	elem(b, "<h1>Noise report: <code>", r->netlist, "</code></h1>\n");
 	if (r->n_freq) {
-		snprintf(line, sizeof(line), "output %s, input %s, band %s to %s, %.2f K (%.2f °C)",
-			 r->output ? r->output : "-", r->input ? r->input : "-", si(x, sizeof(x), r->band_lo_hz, "Hz"),
-			 si(y, sizeof(y), r->band_hi_hz, "Hz"), r->temp_k, r->temp_k - SCH_ZERO_C_K);
+		if (r->spot_run)
+			snprintf(line, sizeof(line), "output %s, input %s, spot %s only, %.2f K (%.2f °C)",
+				 r->output ? r->output : "-", r->input ? r->input : "-",
+				 si(x, sizeof(x), r->band_lo_hz, "Hz"), r->temp_k, r->temp_k - SCH_ZERO_C_K);
+		else
+			snprintf(line, sizeof(line), "output %s, input %s, band %s to %s, %.2f K (%.2f °C)",
+				 r->output ? r->output : "-", r->input ? r->input : "-",
+				 si(x, sizeof(x), r->band_lo_hz, "Hz"), si(y, sizeof(y), r->band_hi_hz, "Hz"), r->temp_k,
+				 r->temp_k - SCH_ZERO_C_K);
 		elem(b, "<p class=\"sub\">", line, "</p>\n");
 		headline(b, r);
 		elem(b, "<p class=\"verdict\"><b>Verdict:</b> ", sch_report_verdict(r, line, sizeof(line)), "</p>\n");
+		elem(b, "<p>Transfer: ", sch_report_bandwidth_text(r, line, sizeof(line)), "</p>\n");
 		spot_table(b, r);
 		contribution_table(b, r);
 		plot(b, r);

@@ -125,6 +125,8 @@ static json_t *noiseless_json(const struct sch_result *r, int *bad)
 		json_t *o = json_object();
 		put(o, "name", text(r->set.noiseless[i].name), bad);
 		put(o, "dc_current_a", num(r->set.noiseless[i].dc_current_a), bad);
+		if (r->set.noiseless[i].reason)
+			put(o, "reason", text(r->set.noiseless[i].reason), bad);
 		append(arr, o, bad);
 	}
 	return arr;
@@ -203,12 +205,28 @@ static json_t *total_json(const struct sch_result *r, int *bad)
 	return o;
 }
 
+static json_t *transfer_json(const struct sch_result *r, int *bad)
+{
+	json_t *o = json_object();
+	const struct sch_transfer *t = &r->transfer;
+
+	put(o, "mid_band", num(t->mid_band), bad);
+	put(o, "unit", text(sch_report_transfer_unit(r)), bad);
+	put(o, "ref_hz", num(t->ref_hz), bad);
+	put(o, "f_low_hz", num(t->f_low_hz), bad);
+	put(o, "f_high_hz", num(t->f_high_hz), bad);
+	put(o, "enbw_hz", num(t->enbw_hz), bad);
+	return o;
+}
+
 static json_t *verdict_json(const struct sch_result *r, int *bad)
 {
 	json_t *o = json_object();
 	char line[512];
 
-	put(o, "shot_noise_limited", json_boolean(r->set.n_carriers && (isnan(r->shot_to_rest) || r->shot_to_rest >= 1)), bad);
+	bool limited = r->set.n_carriers && r->carrier_power_v2 > 0 && (isnan(r->shot_to_rest) || r->shot_to_rest >= 1);
+
+	put(o, "shot_noise_limited", json_boolean(limited), bad);
 	put(o, "shot_to_rest_power", num(r->shot_to_rest), bad);
 	put(o, "dominant_other", r->dominant_other ? text(r->dominant_other->device) : json_null(), bad);
 	put(o, "dominant_other_generator", r->dominant_other ? text(r->dominant_other->generator) : json_null(), bad);
@@ -224,6 +242,7 @@ static json_t *snr_json(const struct sch_result *r, int *bad)
 	put(o, "ratio", num(r->snr), bad);
 	put(o, "db", num(sch_report_db(r->snr)), bad);
 	put(o, "signal", num(r->signal), bad);
+	put(o, "output_signal_v", num(r->signal * r->transfer.mid_band), bad);
 	return o;
 }
 
@@ -237,17 +256,23 @@ static json_t *result_json(const struct sch_result *r)
 	put(doc, "netlist", text(r->netlist), &bad);
 	put(doc, "temperature_k", num(r->temp_k), &bad);
 	put(doc, "simulator", text(r->sim_version), &bad);
+	if (r->compat_mode)
+		put(doc, "simulator_compat_mode", text(r->compat_mode), &bad);
 	put(doc, "schrot_version", text(SCH_VERSION), &bad);
 	if (r->n_freq > 0) {
 		put(doc, "output", text(r->output), &bad);
 		put(doc, "input", text(r->input), &bad);
 		put(doc, "input_unit", text(r->input_unit), &bad);
 		put(doc, "band_hz", band_json(r, &bad), &bad);
+		if (r->spot_run) /* one frequency: band figures are null, spot figures hold it */
+			put(doc, "spot_run", json_true(), &bad);
 		put(doc, "total", total_json(r, &bad), &bad);
+		put(doc, "transfer", transfer_json(r, &bad), &bad);
 		put(doc, "verdict", verdict_json(r, &bad), &bad);
 		put(doc, "spot", spots_json(r, &bad), &bad);
 		put(doc, "contributions", contributions_json(r, &bad), &bad);
 		put(doc, "responsivity_a_per_w", num(r->responsivity_a_per_w), &bad);
+		put(doc, "input_gain_m", num(r->input_gain_m), &bad);
 		if (!isnan(r->signal))
 			put(doc, "snr", snr_json(r, &bad), &bad);
 		put(doc, "notes", notes_json(r, &bad), &bad);

@@ -20,8 +20,29 @@ void sch_report_label(const struct sch_contribution *c, char *out, size_t size);
 /* min(n, number of contributions); n < 0 means all. */
 size_t sch_report_top_count(const struct sch_result *r, int n);
 
-/* A share as a percentage: "45.2 %", "0.042 %", "-0.7 %"; the sign always shows; NaN is "-". */
+/*
+ * A share as a percentage: "45.2 %", "0.042 %", "-0.7 %"; the sign always shows; below 0.001 %
+ * "< 0.001 %" or "> -0.001 %" (never "-0.000 %"); NaN is "-".
+ */
 void sch_report_format_share(char *out, size_t size, double share);
+
+/* The unit of the transfer's magnitude: "V/A" for a current input, "V/V" for a voltage input. */
+const char *sch_report_transfer_unit(const struct sch_result *r);
+
+/*
+ * The transfer's mid-band value as a designer reads it: "1.00 MΩ" (a transimpedance) for a
+ * current input, "100 V/V (40.0 dB)" for a voltage input; "-" without one. Returns out.
+ */
+const char *sch_report_transfer_value(const struct sch_result *r, char *out, size_t size);
+
+/*
+ * The transfer's bandwidth in words: "-3 dB at 1.00 kHz; noise-equivalent 1.57 kHz over the
+ * band" (both -3 dB points where both exist). Returns out.
+ */
+const char *sch_report_bandwidth_text(const struct sch_result *r, char *out, size_t size);
+
+/* A ratio to 3 significant digits, large and small ones as "4.92 × 10⁴" rather than "4.92e+04". */
+const char *sch_report_ratio(char *out, size_t n, double x);
 
 /* 10*log10(ratio), NaN for a ratio that is not positive and finite. */
 double sch_report_db(double ratio);
@@ -35,6 +56,13 @@ size_t sch_report_width(const char *s);
  * appended so far on failure and is the caller's to release.
  */
 enum sch_err sch_report_plot_svg(const struct sch_result *r, struct sch_buf *out);
+
+/*
+ * Shows s at the current point like cairo_show_text; on a context drawing an SVG figure (through
+ * sch_report_figure or sch_report_plot_svg) the words become an SVG <text> element instead of
+ * glyph outlines, so they stay searchable and editable. This function can't fail.
+ */
+void sch_report_show_text(cairo_t *cr, const char *s);
 
 /*
  * Writes a figure of width x height that draw_fn paints (given ctx) as SVG or PNG, chosen by the

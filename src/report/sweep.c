@@ -11,15 +11,22 @@
 #include "schrot/outfile.h"
 #include "schrot/report.h"
 #include "schrot/si.h"
+#include "report_int.h"
 
 static json_t *real_or_null(double x)
 {
 	return isfinite(x) ? json_real(x) : json_null();
 }
 
+/* The printf field width that right-aligns s in width display columns (UTF-8 counted by code points). */
+static int cols(const char *s, int width)
+{
+	return width + (int)(strlen(s) - sch_report_width(s));
+}
+
 enum sch_err sch_report_sweep_table(const struct sch_result *r, const struct sch_sweep *s, FILE *out)
 {
-	char v[64], o[64], in[64];
+	char v[64], o[64], in[64], ratio[64];
 	const char *in_unit = r->input_unit && strcmp(r->input_unit, "A") == 0 ? "A" : "V";
 
 	fprintf(out, "schrot sweep: %s, varying %s, band %s to %s\n\n", r->netlist, s->name,
@@ -35,8 +42,9 @@ enum sch_err sch_report_sweep_table(const struct sch_result *r, const struct sch
 			sch_si_format(v, sizeof(v), p->value, 3, s->unit);
 		sch_si_format(o, sizeof(o), p->output_rms_v, 3, "V");
 		sch_si_format(in, sizeof(in), p->input_rms, 3, in_unit);
-		fprintf(out, "  %12s  %14s  %14s  %16.3g\n", v, o, in,
-			p->other_power_v2 > 0 ? p->carrier_power_v2 / p->other_power_v2 : NAN);
+		sch_report_ratio(ratio, sizeof(ratio), p->other_power_v2 > 0 ? p->carrier_power_v2 / p->other_power_v2 : NAN);
+		/* widths in display columns: "µ" and "×" take two bytes and one column */
+		fprintf(out, "  %*s  %*s  %*s  %*s\n", cols(v, 12), v, cols(o, 14), o, cols(in, 14), in, cols(ratio, 16), ratio);
 	}
 	if (isnan(s->crossover)) {
 		fprintf(out, "\n  no crossover: the carriers' shot noise stays %s the rest over the whole sweep\n",
@@ -118,7 +126,8 @@ enum sch_err sch_report_sweep_json(const struct sch_result *r, const struct sch_
 {
 	json_t *doc = sweep_doc(r, s);
 	json_t *cross = crossover_obj(s->crossover, "value at which the carriers' shot-noise power equals all other "
-						    "noise power in the band (log-log interpolation)");
+						    "noise power in the band (log-log interpolation; a temperature "
+						    "on the kelvin scale)");
 	enum sch_err ret = SCH_ERR_NOMEM;
 
 	if (!doc || !cross)
@@ -130,6 +139,36 @@ out:
 	json_decref(doc);
 	json_decref(cross);
 	return ret;
+}
+
+enum sch_err sch_report_sweep_csv(const struct sch_result *r, const struct sch_sweep *s, const char *path,
+				  struct sch_diag *d)
+{
+	struct sch_outfile o;
+	enum sch_err ret = sch_outfile_open(&o, path, d);
+	const char *unit = strcmp(s->unit, "C") == 0 ? "c" : strcmp(s->unit, "A") == 0 ? "a" : "";
+
+	if (ret != SCH_OK)
+		return ret;
+	fprintf(o.fp, "value%s%s,output_rms_v,input_rms_%s,carrier_power_v2,other_power_v2,shot_to_rest\n", *unit ? "_" : "",
+		unit, r->input_unit && strcmp(r->input_unit, "A") == 0 ? "a" : "v");
+	for (size_t k = 0; k < s->n_points; k++) {
+		const struct sch_sweep_point *p = &s->points[k];
+		double v[] = { p->value, p->output_rms_v, p->input_rms, p->carrier_power_v2, p->other_power_v2,
+			       p->other_power_v2 > 0 ? p->carrier_power_v2 / p->other_power_v2 : NAN };
+		for (size_t c = 0; c < sizeof(v) / sizeof(v[0]); c++) {
+			if (c)
+				fputc(',', o.fp);
+			if (isfinite(v[c]))
+				fprintf(o.fp, "%.12g", v[c]);
+		}
+		fputc('\n', o.fp);
+	}
+	if (ferror(o.fp)) {
+		sch_outfile_abort(&o);
+		return sch_diag_error(d, SCH_ERR_IO, path, 0, "cannot write the sweep CSV");
+	}
+	return sch_outfile_commit(&o, d);
 }
 
 enum sch_err sch_report_sweep_partial_json(const struct sch_result *r, const struct sch_sweep *s,
@@ -319,7 +358,7 @@ enum sch_err sch_report_sweep_merge(const char *const *paths, size_t n_paths, st
 		}
 	}
 	s->n_points = (size_t)ref.n_total;
-	s->crossover = sch_sweep_crossover(s->points, s->n_points);
+	s->crossover = sch_sweep_crossover_of(s);
 	ret = SCH_OK;
 out:
 	json_decref(ref.doc);

@@ -22,7 +22,9 @@
 
 #include "sim_int.h"
 
-#define SCH_SIM_FALLBACK_CM "/usr/lib/x86_64-linux-gnu/ngspice/spice2poly.cm"
+#ifndef SCH_SIM_CODEMODEL_DIR /* set by CMake from pkg-config's libdir for ngspice */
+#define SCH_SIM_CODEMODEL_DIR "/usr/lib/x86_64-linux-gnu/ngspice"
+#endif
 #define SCH_SIM_READS_PER_GC 8
 
 /* SendChar: every simulator line goes straight to the parent, so a crash loses nothing. */
@@ -354,42 +356,76 @@ static bool codemodel_name_is_safe(const char *name)
 	return true;
 }
 
-/* The code model POLY sources need (or another one by name), next to the library we were linked with. */
-static void worker_load_codemodel_named(const char *file)
+/*
+ * The standard code-model libraries the distribution's ngspice package ships, the set its own
+ * spinit loads: POLY sources (spice2poly), A devices and the code models E/G TABLE and LAPLACE
+ * sources become (analog, table), digital and event-driven devices (digital, xtraevt) and the
+ * extra devices (xtradev).
+ */
+static const char *const standard_codemodels[] = {
+	"spice2poly.cm", "analog.cm", "digital.cm", "xtradev.cm", "xtraevt.cm", "table.cm",
+};
+
+/*
+ * The package's code-model directory: "ngspice/" beside the shared library this process runs
+ * (found at start), else the one pkg-config named at build time. Never a path from a netlist.
+ * False when neither holds spice2poly.cm or the path could not go into a command.
+ */
+static bool worker_codemodel_dir(char *dir, size_t size)
 {
-	char path[PATH_MAX + 32];
-	char fallback[PATH_MAX];
-	char cmd[PATH_MAX + 64];
-	const char *chosen = NULL;
-	const char *slash_fb = strrchr(SCH_SIM_FALLBACK_CM, '/');
+	char probe[PATH_MAX + 32];
 	Dl_info info;
+
+	if (dladdr((void *)ngSpice_Init, &info) && info.dli_fname && strlen(info.dli_fname) < PATH_MAX) {
+		const char *slash = strrchr(info.dli_fname, '/');
+
+		if (slash) {
+			snprintf(dir, size, "%.*s/ngspice", (int)(slash - info.dli_fname), info.dli_fname);
+			snprintf(probe, sizeof(probe), "%s/spice2poly.cm", dir);
+			if (access(probe, R_OK) == 0 && sch_sim_path_is_command_safe(dir))
+				return true;
+		}
+	}
+	snprintf(dir, size, "%s", SCH_SIM_CODEMODEL_DIR);
+	snprintf(probe, sizeof(probe), "%s/spice2poly.cm", dir);
+	return access(probe, R_OK) == 0 && sch_sim_path_is_command_safe(dir);
+}
+
+/* One code-model library by file name from dir; a missing or unsafe one is skipped. */
+static void worker_load_codemodel_named(const char *dir, const char *file)
+{
+	char path[PATH_MAX + 80];
+	char cmd[PATH_MAX + 96];
 
 	if (!codemodel_name_is_safe(file))
 		return;
-	snprintf(fallback, sizeof(fallback), "%.*s/%s", (int)(slash_fb - SCH_SIM_FALLBACK_CM), SCH_SIM_FALLBACK_CM, file);
-
-	if (dladdr((void *)ngSpice_Init, &info) && info.dli_fname && strlen(info.dli_fname) < PATH_MAX) {
-		char *slash;
-
-		snprintf(path, sizeof(path), "%s", info.dli_fname);
-		slash = strrchr(path, '/');
-		if (slash) {
-			snprintf(slash + 1, sizeof(path) - (size_t)(slash + 1 - path), "ngspice/%s", file);
-			if (access(path, R_OK) == 0 && sch_sim_path_is_command_safe(path))
-				chosen = path;
-		}
-	}
-	if (!chosen && access(fallback, R_OK) == 0 && sch_sim_path_is_command_safe(fallback))
-		chosen = fallback;
-	if (!chosen)
+	snprintf(path, sizeof(path), "%s/%s", dir, file);
+	if (access(path, R_OK) != 0 || !sch_sim_path_is_command_safe(path))
 		return;
-	snprintf(cmd, sizeof(cmd), "codemodel %s", chosen);
+	snprintf(cmd, sizeof(cmd), "codemodel %s", path);
 	ngSpice_Command(cmd);
 }
 
-static void worker_load_codemodel(void)
+/* The standard libraries, then any other the request names (each once). */
+static void worker_load_codemodels(const struct sch_sim_request *req)
 {
-	worker_load_codemodel_named("spice2poly.cm");
+	size_t n_std = sizeof(standard_codemodels) / sizeof(standard_codemodels[0]);
+	char dir[PATH_MAX];
+
+	if (!worker_codemodel_dir(dir, sizeof(dir)))
+		return;
+	for (size_t k = 0; k < n_std; k++)
+		worker_load_codemodel_named(dir, standard_codemodels[k]);
+	for (size_t k = 0; k < req->n_code_models; k++) {
+		bool standard = false;
+
+		if (!req->code_models[k])
+			continue;
+		for (size_t j = 0; j < n_std; j++)
+			standard = standard || strcmp(req->code_models[k], standard_codemodels[j]) == 0;
+		if (!standard)
+			worker_load_codemodel_named(dir, req->code_models[k]);
+	}
 }
 
 /* Starts the library with no start-up script able to run (NGSPICE-NOTES.md section 5). */
@@ -538,18 +574,20 @@ static bool worker_run_to_file(struct sch_worker_ctx *w, size_t s)
 	return !w->gave_up;
 }
 
+static bool command_runs_noise(const char *s)
+{
+	while (*s == ' ' || *s == '\t')
+		s++;
+	if (strncasecmp(s, "noise", 5) == 0 && (s[5] == '\0' || isspace((unsigned char)s[5])))
+		return true;
+	return strcmp(s, "run") == 0;
+}
+
 static bool step_runs_noise(const struct sch_sim_step *st)
 {
-	for (size_t c = 0; c < st->n_commands; c++) {
-		const char *s = st->commands[c];
-
-		while (*s == ' ' || *s == '\t')
-			s++;
-		if (strncasecmp(s, "noise", 5) == 0 && (s[5] == '\0' || isspace((unsigned char)s[5])))
+	for (size_t c = 0; c < st->n_commands; c++)
+		if (command_runs_noise(st->commands[c]))
 			return true;
-		if (strcmp(s, "run") == 0)
-			return true;
-	}
 	return false;
 }
 
@@ -563,7 +601,12 @@ static bool worker_run_step(struct sch_worker_ctx *w, const struct sch_sim_reque
 	sch_worker_noise_clear(w);
 	tran_clear(w);
 	for (size_t c = 0; c < st->n_commands; c++) {
-		bool ok = req->noise_via_file && strcmp(st->commands[c], "run") == 0 ? worker_run_to_file(w, s)
+		bool ok;
+
+		/* code models' small-signal state (sim.h, prime_ac) */
+		if (req->prime_ac && command_runs_noise(st->commands[c]) && !worker_command(w, "ac lin 1 1 1"))
+			return false;
+		ok = req->noise_via_file && strcmp(st->commands[c], "run") == 0 ? worker_run_to_file(w, s)
 											: worker_command(w, st->commands[c]);
 		if (!ok)
 			return false;
@@ -593,6 +636,18 @@ static bool worker_run_step(struct sch_worker_ctx *w, const struct sch_sim_reque
 	return true;
 }
 
+/* The compatibility mode, read by the library as each circuit loads (its "Compatibility modes selected" note). */
+static void worker_set_compat_mode(struct sch_worker_ctx *w, const struct sch_sim_request *req)
+{
+	const char *mode = req->compat_mode ? sch_sim_compat_mode_known(req->compat_mode) : NULL;
+	char set[64];
+
+	if (!mode)
+		return;
+	snprintf(set, sizeof(set), "set ngbehavior=%s", mode);
+	worker_command(w, set);
+}
+
 /* The whole life of a worker process. Never returns. */
 void sch_sim_worker_main(const struct sch_sim_request *req, char **deck, size_t first, size_t end, int fd)
 {
@@ -614,14 +669,12 @@ void sch_sim_worker_main(const struct sch_sim_request *req, char **deck, size_t 
 	if (!worker_init_library(&w))
 		goto done;
 	sch_sim_catch_crashes();
-	worker_load_codemodel();
-	for (size_t k = 0; k < req->n_code_models; k++)
-		if (req->code_models[k])
-			worker_load_codemodel_named(req->code_models[k]);
+	worker_load_codemodels(req);
 	if (req->squared_noise)
 		worker_command(&w, "set sqrnoise");
 	if (req->noise_via_file)
 		worker_command(&w, "set norefvalue");
+	worker_set_compat_mode(&w, req);
 	if (w.gave_up)
 		goto gave_up;
 	w.phase = SCH_PHASE_LOAD;
@@ -633,9 +686,15 @@ void sch_sim_worker_main(const struct sch_sim_request *req, char **deck, size_t 
 	sch_wire_flush(&w.out);
 	if (rc != 0 || w.load_error)
 		goto done;
-	/* Plots keep only last points; densities arrive through SendData (NGSPICE-NOTES.md 6). */
+	/*
+	 * The deck's own saves go first: ".option savecurrents" turns into "save @m1[ib]"-style
+	 * entries, and a device without such a parameter (BSIM4 has no ib, ig, is) leaves a vector
+	 * of length 0 that the library's SendData step indexes at [-1] (signal 11 in ngspice 39).
+	 * We read every current ourselves; none of those saves is needed.
+	 * Then plots keep only last points; densities arrive through SendData (NGSPICE-NOTES.md 6).
+	 */
 	w.phase = SCH_PHASE_CLEANUP;
-	if (!worker_command(&w, "save none"))
+	if (!worker_command(&w, "delete all") || !worker_command(&w, "save none"))
 		goto gave_up;
 	for (size_t s = first; s < end; s++) {
 		if (!worker_run_step(&w, req, s))

@@ -11,6 +11,9 @@ static double segment_power(double f0, double p0, double f1, double p1, double a
 {
 	if (b <= a)
 		return 0.0;
+	/* a row that removes noise (negative throughout) integrates as the mirror of its magnitude */
+	if (p0 < 0 && p1 < 0)
+		return -segment_power(f0, -p0, f1, -p1, a, b);
 	if (p0 > 0 && p1 > 0 && f0 > 0 && f1 > f0) {
 		double s = log(p1 / p0) / log(f1 / f0);
 		double e = s + 1.0;
@@ -56,9 +59,9 @@ double sch_spectra_at(const double *freq, const double *psd, size_t n, double f)
 			return psd[i];
 		if (f >= f1)
 			return psd[i + 1];
-		if (psd[i] > 0 && psd[i + 1] > 0 && f0 > 0) {
+		if (f0 > 0 && ((psd[i] > 0 && psd[i + 1] > 0) || (psd[i] < 0 && psd[i + 1] < 0))) {
 			double t = log(f / f0) / log(f1 / f0);
-			return exp(log(psd[i]) + t * (log(psd[i + 1]) - log(psd[i])));
+			return copysign(exp(log(fabs(psd[i])) + t * (log(fabs(psd[i + 1])) - log(fabs(psd[i])))), psd[i]);
 		}
 		return psd[i] + (psd[i + 1] - psd[i]) * (f - f0) / (f1 - f0);
 	}

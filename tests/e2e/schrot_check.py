@@ -3,6 +3,7 @@
 import json
 import math
 import os
+import struct
 import subprocess
 import sys
 import tempfile
@@ -68,3 +69,34 @@ def contribution(data, device, origin=None, generator=None):
 def finish():
     print("%d passed, %d failed" % (_count[0] - len(_failures), len(_failures)))
     sys.exit(1 if _failures or not _count[0] else 0)
+
+
+def read_raw(path):
+    """The plots of an ngspice binary raw file: [(plotname, {vector: [values]})] (real or complex)."""
+    data = open(path, "rb").read()
+    plots, pos = [], 0
+    while pos < len(data):
+        head, names = {}, []
+        while True:
+            end = data.index(b"\n", pos)
+            line = data[pos:end].decode("latin-1")
+            pos = end + 1
+            if line.startswith("Binary:"):
+                break
+            if line.startswith("\t") and "Variables" in head:
+                names.append(line.split("\t")[2])
+                continue
+            key, _, value = line.partition(":")
+            head[key.strip()] = value.strip()
+        cplx = "complex" in head.get("Flags", "")
+        vals = {n: [] for n in names}
+        for _ in range(int(head["No. Points"])):
+            for n in names:
+                if cplx:
+                    vals[n].append(complex(*struct.unpack_from("<dd", data, pos)))
+                    pos += 16
+                else:
+                    vals[n].append(struct.unpack_from("<d", data, pos)[0])
+                    pos += 8
+        plots.append((head.get("Plotname", ""), vals))
+    return plots

@@ -19,6 +19,7 @@ DEMOS = {
     "turbidity-2ch": ([], ["xdirect.iph", "xscatter.iph"], [], ("xdirect.iph", "shot")),
     "picoammeter-leakage": ([], ["ileak"], [], ("rf", "thermal")),
     "hydrophone-preamp": ([], [], ["ibias"], ("q1", "ib")),
+    "paddock-gate-beam": ([], ["iph", "idark"], [], ("rf", "thermal")),
 }
 
 
@@ -57,7 +58,9 @@ for name, (opts, carriers, noiseless, largest) in DEMOS.items():
     netlist = "netlists/%s.cir" % name
 
     rc, out, err = schrot("report", netlist, *opts)
-    true("[D] %s: report exits 0 with nothing on stderr" % name, rc == 0 and err == "", err)
+    # the only message allowed: the demos' .noise ranges run past their stages' bandwidth (issue 13)
+    others = [l for l in err.splitlines() if "the transfer's -3 dB point" not in l]
+    true("[D] %s: report exits 0 with nothing on stderr but the band warning" % name, rc == 0 and not others, err)
     true("[D] %s: the table heads the report and names the simulator" % name,
          out.startswith("schrot noise report: " + netlist) and "simulator: ngspice-" in out, out[:200])
     true("[D] %s: the table ranks the contributions" % name, "largest share of the band's output noise power first"
@@ -116,6 +119,7 @@ T = 300.15
 for name, opts, spot, carrier, current, gain, rf in (
         ("canopy-probe", [], "1", "iph", 2e-9, 1.0, 100e6),
         ("picoammeter-leakage", [], "10m", "ileak", 50e-15, 1.0, 10e9),
+        ("paddock-gate-beam", [], "100", "iph", 10e-9, 1.0, 1e6),
         ("rangefinder-apd", ["--avalanche", "iapd=50:0.02"], "10k", "iapd", 1.005e-6,
          50 * (0.02 * 50 + 0.98 * (2 - 1 / 50)), 10e3)):
     rc, out, err = schrot("report", "netlists/%s.cir" % name, *opts, "--spot", spot, "--json", "-")

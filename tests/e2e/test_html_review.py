@@ -128,7 +128,7 @@ page = Page()
 page.feed(dom)
 
 # headline figures: the same numbers as the JSON of the same run, at 3 significant digits
-true("[H] five headline figures", len(page.figures) == 5, repr(page.figures))
+true("[H] seven headline figures (the transfer's value and bandwidths too)", len(page.figures) == 7, repr(page.figures))
 out = [f for f in page.figures if f.endswith("output noise in the band")]
 inp = [f for f in page.figures if f.endswith("input-referred noise")]
 spot = [f for f in page.figures if "input-referred at 100 Hz; NEP " in f]

@@ -50,7 +50,7 @@ for name, args in (("canopy-probe", ["--band", "1:10k"]),
          bool(chunks) and chunks[0][0] == b"IHDR" and chunks[-1][0] == b"IEND" and all(ok for _, _, ok in chunks))
     if chunks and chunks[0][0] == b"IHDR":
         w, h, depth, colour = struct.unpack(">IIBB", chunks[0][1][:10])
-        true("[P] %s: 960 x 560 pixels, 8-bit colour" % name, (w, h, depth) == (960, 560, 8) and colour in (2, 6),
+        true("[P] %s: 960 x 762 pixels (noise and transfer panels), 8-bit colour" % name, (w, h, depth) == (960, 762, 8) and colour in (2, 6),
              "%d x %d, depth %d, colour type %d" % (w, h, depth, colour))
         raw = zlib.decompress(b"".join(p for k, p, _ in chunks if k == b"IDAT"))
         bpp = 4 if colour == 6 else 3
@@ -66,11 +66,18 @@ for name, args in (("canopy-probe", ["--band", "1:10k"]),
         root = None
         true("[P] %s: SVG is well-formed XML" % name, False, str(e))
     if root is not None:
-        true("[P] %s: SVG root is <svg> 960 x 560" % name, root.tag == SVG_NS + "svg" and
-             root.get("width", "").startswith("960") and root.get("height", "").startswith("560"),
+        true("[P] %s: SVG root is <svg> 960 x 762" % name, root.tag == SVG_NS + "svg" and
+             root.get("width", "").startswith("960") and root.get("height", "").startswith("762"),
              "%s %s x %s" % (root.tag, root.get("width"), root.get("height")))
         paths = root.findall(".//" + SVG_NS + "path")
-        true("[P] %s: SVG draws curves, grid and text (over 50 paths)" % name, len(paths) > 50, "%d" % len(paths))
+        texts = root.findall(".//" + SVG_NS + "text")
+        true("[P] %s: SVG draws curves and grid (over 15 paths) and text (over 20 labels)" % name,
+             len(paths) > 15 and len(texts) > 20, "%d paths, %d texts" % (len(paths), len(texts)))
+        # words stay text, searchable and editable, not glyph outlines (issue 13 item 7)
+        words = ["".join(t.itertext()) for t in root.iter(SVG_NS + "text")]
+        true("[P] %s: SVG labels are <text> elements with units (frequency, 1 kHz, V/√Hz)" % name,
+             "frequency" in words and "1 kHz" in words and any(w.endswith("V/√Hz") for w in words), repr(words[:12]))
+        true("[P] %s: no glyph outlines in the SVG" % name, not root.findall(".//" + SVG_NS + "symbol"))
 
 bad = os.path.join(work, "canopy.jpg")
 rc, err = report("netlists/canopy-probe.cir", "--plot", bad)

@@ -2,9 +2,9 @@
 # SPDX-License-Identifier: BSD-3-Clause
 """schrot report (unit generators scaled afterwards, data from SendData) equals the straightforward path.
 
-The straightforward path is plain ngspice running `schrot augment`'s deck: every instance's
-generator sized for 2q|I| by alter, and the simulator's own per-device noise summary (noise2,
-integrated over the run's range). Each row of the report must equal that summary to 1e-9, once the
+The straightforward path is plain ngspice running `schrot augment`'s plain deck (every instance's
+generator a literal resistance sized for 2q|I|) with a .control block of our own appended, and the
+simulator's own per-device noise summary (noise2, integrated over the run's range). Each row of the report must equal that summary to 1e-9, once the
 report's restatement of the simulator's CODATA 2014 k and q as the exact SI 2019 values is undone
 (NGSPICE-NOTES.md section 2 gives the simulator's constants; DESIGN.md section 2 the generators).
 """
@@ -55,9 +55,10 @@ rep = json.loads(proc.stdout)
 proc = subprocess.run([SCHROT, "augment", net, "-o", aug], capture_output=True, text=True, timeout=300)
 true("augment exits 0", proc.returncode == 0, proc.stderr)
 deck = open(aug).read()
-# instance path -> its generator's resistor, from the sizing block ("* schrot: xp1.iph carries ..." + alter)
-probe_of = dict(re.findall(r"^\* schrot: (\S+) (?:carries|is no carrier).*\nalter @(\S+)\[resistance\]", deck, re.M))
-deck = deck.replace("print onoise_total inoise_total", "set numdgt=15\nsetplot noise2\nprint all")
+# instance path -> its generator's resistor, from the generator lines ("* schrot: xp1.iph carries ..." + rschgN)
+probe_of = dict(re.findall(r"^\* schrot: (\S+) carries .*\n(rschg\d+) ", deck, re.M))
+true("one top-level generator per pixel", sorted(probe_of) == ["xp1.iph", "xp2.iph", "xp3.iph"], deck)
+deck += ".control\nrun\nset numdgt=15\nsetplot noise2\nprint all\nquit 0\n.endc\n"
 with open(aug, "w") as f:
     f.write(deck)
 run = subprocess.run(["ngspice", "-b", aug], capture_output=True, text=True, timeout=300, cwd=work)

@@ -79,6 +79,26 @@ true("[X1] .param sweep exits 0", proc.returncode == 0, proc.stderr)
 if proc.returncode == 0:
     close("[X1] crossover load 2kT/(qI)", json.loads(proc.stdout)["crossover"]["value"], 2 * 1.380649e-23 * 300 /
           (1.602176634e-19 * 50e-9), 1e-2)
+# A temperature sweep of a fixed current into R: the shot-to-thermal ratio 2qI/(4kT/R) = qIR/(2kT)
+# goes as 1/T, so it crosses 1 at T = qIR/(2k) in kelvin (X2 solved for T; derived from the Schottky
+# and Johnson-Nyquist densities, CHECK-VALUES S1 and J1). 51.704 nA into 1 MOhm: 300.00 K = 26.85 C.
+# Interpolating on log(degrees C) instead put it 2.6 K low; on the kelvin scale the 1/T law is exact.
+with open(path, "w") as f:
+    f.write(NETLIST.format(r="1meg").replace("dc 10n", "dc 51.704n"))
+proc = subprocess.run([SCHROT, "sweep", path, "--vary", "temp=10:60:2", "--json", "-"], capture_output=True,
+                      text=True, timeout=300)
+true("[X2] temperature sweep exits 0", proc.returncode == 0, proc.stderr)
+if proc.returncode == 0:
+    t_k = 1.602176634e-19 * 51.704e-9 * 1e6 / (2 * 1.380649e-23)
+    close("[X2] temperature crossover qIR/(2k), interpolated in kelvin", json.loads(proc.stdout)["crossover"]["value"]
+          + 273.15, t_k, 1e-5)
+# The sweep's plot: an SVG and a PNG of the same sweep, written beside its CSV.
+for ext, magic in ((".svg", b"<?xml"), (".png", b"\x89PNG")):
+    plot = os.path.join(d, "sweep" + ext)
+    proc = subprocess.run([SCHROT, "sweep", path, "--vary", "temp=10:60:2", "--plot", plot, "--csv",
+                           os.path.join(d, "sweep.csv"), "-q"], capture_output=True, text=True, timeout=300)
+    true("[X2] sweep --plot writes a %s file" % ext, proc.returncode == 0 and os.path.exists(plot) and
+         open(plot, "rb").read(5)[:len(magic)] == magic, proc.stderr)
 proc = subprocess.run([SCHROT, "sweep", path, "--vary", "nosuch=1:2:3"], capture_output=True, text=True)
 true("[X1] an unknown sweep name is exit 2", proc.returncode == 2 and "--vary 'nosuch'" in proc.stderr, proc.stderr)
 finish()

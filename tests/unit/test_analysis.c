@@ -118,6 +118,36 @@ static void test_analysis__crossover_at_two_kt_over_qr(void)
 }
 
 /*
+ * A temperature sweep of a fixed current I into R: the shot-to-thermal ratio 2qI/(4kT/R) goes as
+ * 1/T, so the crossover is T = qIR/(2k) in kelvin (CHECK-VALUES X2 solved for T, derived from the
+ * Schottky and Johnson-Nyquist densities S1, J1). With I = 51.704 nA and R = 1 Mohm that is
+ * 300.00 K = 26.85 C, found exactly on the kelvin scale between points at 10 C and 60 C.
+ */
+static void test_analysis__temperature_crossover_in_kelvin(void)
+{
+	const double i_a = 51.704e-9, r_ohm = 1e6;
+	double temps_c[] = { -40, 10, 60, 110 };
+	struct sch_sweep_point p[4];
+	struct sch_sweep s;
+
+	for (size_t i = 0; i < 4; i++) {
+		memset(&p[i], 0, sizeof(p[i]));
+		p[i].value = temps_c[i];
+		p[i].carrier_power_v2 = 2 * SCH_Q * i_a;
+		p[i].other_power_v2 = 4 * SCH_K * (temps_c[i] + SCH_ZERO_C_K) / r_ohm;
+	}
+	memset(&s, 0, sizeof(s));
+	s.name = "temp";
+	s.unit = "C";
+	s.points = p;
+	s.n_points = 4;
+	CHECK_REL(sch_sweep_crossover_of(&s) + SCH_ZERO_C_K, SCH_Q * i_a * r_ohm / (2 * SCH_K), 1e-12);
+	/* a current sweep keeps its own scale */
+	s.unit = "A";
+	CHECK_REL(sch_sweep_crossover_of(&s), sch_sweep_crossover(p, 4), 1e-15);
+}
+
+/*
  * A 1 uA detector current into 1 kohm: the added row is 2qI R^2 (CHECK-VALUES S3 times R^2) and
  * the resistor's own row 4kTR at the simulator's default 27 C (J1's formula, Johnson 1928 and
  * Nyquist 1928), both flat, so each band power is its density times the band width.
@@ -160,4 +190,5 @@ static void test_analysis__report_rows_are_the_closed_forms(void)
 
 CHECK_MAIN(CASE(test_analysis__noise_command_from_the_card), CASE(test_analysis__noise_command_options_override_the_card),
 	   CASE(test_analysis__noise_command_refuses_an_input_that_is_no_source),
-	   CASE(test_analysis__crossover_at_two_kt_over_qr), CASE(test_analysis__report_rows_are_the_closed_forms))
+	   CASE(test_analysis__crossover_at_two_kt_over_qr),
+	   CASE(test_analysis__temperature_crossover_in_kelvin), CASE(test_analysis__report_rows_are_the_closed_forms))

@@ -461,6 +461,173 @@ static void test_deck__lists_each_file_once(void)
 	sch_deck_release(&deck);
 }
 
+/* ---- .control blocks read as data ------------------------------------------------------------ */
+
+/* The card with this keyword whose text is text, or NULL. */
+static const struct sch_card *card_with(const struct sch_deck *deck, const char *keyword)
+{
+	for (size_t i = 0; i < deck->n_cards; i++)
+		if (deck->cards[i].keyword && strcmp(deck->cards[i].keyword, keyword) == 0)
+			return &deck->cards[i];
+	return NULL;
+}
+
+/* Whether some deck note contains s. */
+static bool note_has(const struct sch_deck *deck, const char *s)
+{
+	for (size_t i = 0; i < deck->n_notes; i++)
+		if (strstr(deck->notes[i], s))
+			return true;
+	return false;
+}
+
+static void test_deck__reads_the_noise_command_of_a_control_block(void)
+{
+	struct sch_deck deck;
+
+	CHECK(load_text(&deck, "ctl noise\nvin in 0 dc 0 ac 1\nr1 in out 1k\nr2 out ref 1k\nr3 ref 0 1\n"
+			       ".control\n"
+			       "NOISE V( Out , Ref ) Vin\n"
+			       "+ DEC 10 1 1MEG 1 ; the summary points\n"
+			       ".endc\n") == SCH_OK);
+	assert_sane_deck(&deck);
+	CHECK(deck.noise.present && deck.noise.from_control);
+	CHECK_STR(deck.noise.output, "v(out,ref)");
+	CHECK_STR(deck.noise.input, "vin");
+	CHECK_STR(deck.noise.sweep, "dec");
+	CHECK_STR(deck.noise.n_points, "10");
+	CHECK_STR(deck.noise.f_start, "1");
+	CHECK_STR(deck.noise.f_stop, "1000000");
+	CHECK_STR(deck.noise.pts_per_summary, "1");
+	/* the card is rebuilt from the checked tokens and located at the command's first line */
+	CHECK_STR(deck.cards[deck.noise.card].text, ".noise v(out,ref) vin dec 10 1 1000000 1");
+	CHECK(deck.cards[deck.noise.card].line == 7);
+	CHECK(deck.n_dropped_control == 1);
+	CHECK(deck.n_notes == 1 && note_has(&deck, INLINE_NAME ":7"));
+	sch_deck_release(&deck);
+}
+
+static void test_deck__a_noise_card_wins_over_the_control_block(void)
+{
+	struct sch_deck deck;
+
+	/* the block comes first, the card after it: the card is the deck's noise analysis */
+	CHECK(load_text(&deck, "t\niph a 0 dc 1n\nr1 a 0 1k\n.control\nnoise v(a) iph dec 5 1 10\n.endc\n"
+			       ".noise v(a) iph dec 10 1 1k\n") == SCH_OK);
+	CHECK(deck.noise.present && !deck.noise.from_control);
+	CHECK_STR(deck.noise.f_stop, "1k");
+	CHECK(deck.n_notes == 0 && card_with(&deck, ".temp") == NULL);
+	sch_deck_release(&deck);
+}
+
+static void test_deck__honours_op_and_temperature_before_the_noise_command(void)
+{
+	struct sch_deck deck;
+	const struct sch_card *temp;
+
+	CHECK(load_text(&deck, "t\niph a 0 dc 1n\nr1 a 0 1k\n.temp 10\n.control\nset temp = 50\nop\n"
+			       "option temp=60\nnoise v(a) iph lin 3 1k 3k\nset temp=70\n.endc\n") == SCH_OK);
+	CHECK(deck.noise.from_control);
+	/* the last setting before the noise command, as a .temp card after the deck's own */
+	temp = &deck.cards[deck.n_cards - 1];
+	CHECK_STR(temp->keyword, ".temp");
+	CHECK_STR(temp->text, ".temp 60");
+	CHECK(temp->line == 8);
+	CHECK(note_has(&deck, "its op (line 7)"));
+	CHECK(note_has(&deck, "applied as '.temp 60'"));
+	CHECK(note_has(&deck, "after the noise command: 'set' (line 10)"));
+	sch_deck_release(&deck);
+
+	/* '.temp' inside a block is no command of the simulator: not honoured */
+	CHECK(load_text(&deck, "t\niph a 0 dc 1n\nr1 a 0 1k\n.control\n.temp 80\nnoise v(a) iph dec 1 1k 1k\n.endc\n") ==
+	      SCH_OK);
+	CHECK(card_with(&deck, ".temp") == NULL);
+	CHECK(note_has(&deck, "before the noise command, where they may change its result: '.temp' (line 5)"));
+	sch_deck_release(&deck);
+}
+
+static void test_deck__lists_what_the_block_does_not_honour(void)
+{
+	struct sch_deck deck;
+
+	CHECK(load_text(&deck, "t\niph a 0 dc 1n\nr1 a 0 1k\n.control\nalter r1 2k\nlet x = 3\n"
+			       "foreach v 1 2\nnoise v(a) iph dec 10 1 1k\nend\nac dec 10 1 1k\n"
+			       "noise v(a) iph dec 10 1 1k\nnoise v(a) iph dec 20 1 10k\nshell touch pwn\nplot onoise_spectrum\n"
+			       "print a\nprint b\n.endc\n") == SCH_OK);
+	/* the noise command inside the loop is not the analysis: the first one outside it is */
+	CHECK(deck.noise.from_control);
+	CHECK(deck.cards[deck.noise.card].line == 11);
+	CHECK(deck.n_notes == 2);
+	CHECK_STR(deck.notes[1], "not honoured from '.control' (never run): before the noise command, where they may "
+				 "change its result: 'alter' (line 5), 'let' (line 6), 'foreach' (line 7), 'noise' (line 8), "
+				 "'ac' (line 10); after it: 'noise' (line 12), 'shell' (line 13), 'plot' (line 14), "
+				 "'print' (lines 15, 16)");
+	sch_deck_release(&deck);
+}
+
+static void test_deck__never_takes_a_noise_command_with_odd_tokens(void)
+{
+	static const char *const bad[] = {
+		"noise v(a) iph dec 10 1 $fmax",      /* a variable: the simulator expands it */
+		"noise v(a) `touch pwn` dec 10 1 1k", /* a backquote runs a shell */
+		"noise v(a;shell) iph dec 10 1 1k",   /* ';' would end the command */
+		"noise v(a) iph dec 10 1 1k>out",     /* a redirection */
+		"noise v(a) iph dec 4k7 1 1k",        /* read differently by the simulator */
+		"noise v(a) iph dec 10 1 {fmax}",     /* an expression */
+		"noise i(a) iph dec 10 1 1k",         /* not a node voltage */
+		"noise v(a) r1 dec 10 1 1k",          /* not a source name */
+		"noise v(a) iph log 10 1 1k",         /* no sweep type */
+		"noise v(a) iph dec 10 1",            /* too few */
+		"noise v(a) iph dec 10 1 1k 1 2",     /* too many */
+		"noise v(a) iph dec 10 1 1k \xc3\xa9", /* not ASCII */
+	};
+	struct sch_deck deck;
+	char text[256];
+
+	for (size_t i = 0; i < sizeof(bad) / sizeof(bad[0]); i++) {
+		snprintf(text, sizeof(text), "t\niph a 0 dc 1n\nr1 a 0 1k\n.control\n%s\n.endc\n", bad[i]);
+		CHECK(load_text(&deck, text) == SCH_OK);
+		CHECK(!deck.noise.present);
+		for (size_t c = 0; c < deck.n_cards; c++)
+			CHECK(deck.cards[c].keyword == NULL || strcmp(deck.cards[c].keyword, ".noise") != 0);
+		sch_deck_release(&deck);
+	}
+}
+
+static void test_deck__reads_a_control_noise_command_from_an_included_file(void)
+{
+	struct sch_deck deck;
+
+	CHECK(load_text(&deck, "t\niph a 0 dc 1n\n.include sub/ctl_noise.inc\n") == SCH_OK);
+	CHECK(deck.noise.from_control);
+	CHECK(strstr(deck.cards[deck.noise.card].file, "ctl_noise.inc") != NULL);
+	CHECK(deck.cards[deck.noise.card].line == 6);
+	CHECK_STR(card_with(&deck, ".temp")->text, ".temp 40");
+	/* text of an included file is never quoted in a message: the unknown command is " a command" */
+	CHECK(!note_has(&deck, "mycommand_from_include"));
+	CHECK(note_has(&deck, "a command ("));
+	sch_deck_release(&deck);
+}
+
+static void test_deck__a_control_noise_output_must_be_a_node(void)
+{
+	expect_error("t\niph a 0 dc 1n\nr1 a 0 1k\n.control\nnoise v(nonode) iph dec 10 1 1k\n.endc\n",
+		     INLINE_NAME ":5: the '.control' noise command's output node 'nonode' is not a node of any element "
+				 "at the top level");
+}
+
+static void test_deck__a_spot_noise_command_is_read(void)
+{
+	struct sch_deck deck;
+
+	CHECK(load_text(&deck, "t\niph a 0 dc 1n\nr1 a 0 1k\n.control\nnoise v(a) iph dec 1 1k 1k\n.endc\n") == SCH_OK);
+	CHECK(deck.noise.from_control);
+	CHECK_STR(deck.noise.f_start, "1000");
+	CHECK_STR(deck.noise.f_stop, "1000");
+	CHECK(deck.noise.pts_per_summary == NULL);
+	sch_deck_release(&deck);
+}
+
 /* ---- safety ------------------------------------------------------------------------------- */
 
 static void test_deck__drops_control_blocks(void)
@@ -1059,6 +1226,143 @@ static void test_deck__quotes_are_short_and_never_from_included_files(void)
 	sch_deck_release(&deck);
 }
 
+/* ---- vendor library syntax (issue 12) ----------------------------------------------------------- */
+
+static void test_deck__ends_with_glued_text_closes_the_subckt(void)
+{
+	struct sch_deck deck;
+
+	CHECK(load_text(&deck, "t\n.subckt amp a b\nr1 a b 1k\n.ENDS* AMP-X \"enhanced\"\n"
+				".subckt clamp a\nr1 a 0 1k\n.ends*\nx1 p q amp\nx2 p clamp\nr2 p 0 1k\n") == SCH_OK);
+	CHECK(deck.n_subckts == 2);
+	if (deck.n_subckts == 2) {
+		CHECK(deck.subckts[0].card_end >= 0 && deck.subckts[1].card_end >= 0);
+		/* the simulator is handed a plain '.ends', none of the glued text */
+		CHECK_STR(deck.cards[deck.subckts[0].card_end].text, ".ends");
+		CHECK_STR(deck.cards[deck.subckts[0].card_end].keyword, ".ends");
+		CHECK_STR(deck.cards[deck.subckts[1].card_end].text, ".ends");
+	}
+	sch_deck_release(&deck);
+	expect_error("t\nr1 a 0 1k\n.ENDS* AMP-X\n", INLINE_NAME ":3: '.ends' without '.subckt'");
+}
+
+/* Writes text (len bytes) to dir/name; false when it cannot. */
+static bool put_file(const char *dir, const char *name, const char *text, size_t len)
+{
+	char path[512];
+	FILE *f;
+	bool ok;
+
+	snprintf(path, sizeof(path), "%s/%s", dir, name);
+	if (!(f = fopen(path, "wb")))
+		return false;
+	ok = fwrite(text, 1, len, f) == len;
+	return fclose(f) == 0 && ok;
+}
+
+static void test_deck__dos_eof_byte_ends_an_included_file_only(void)
+{
+	static const char model[] = "* old model file\r\n.model dsense d is=20p\r\n\x1a";
+	static const char middle[] = ".model dmid d is=20p\x1a n=1\n";
+	static const char top[] = "t\n.include old.mod\nd1 a 0 dsense\nr1 a 0 1k\n";
+	static const char top_mid[] = "t\n.include mid.mod\nr1 a 0 1k\n";
+	static const char own[] = "t\nr1 a 0 1k\n\x1a";
+	char dir[] = "/tmp/schrot-deck-eofXXXXXX";
+	char path[512], *notes = NULL;
+	size_t notes_len = 0;
+	struct sch_deck deck;
+	struct sch_diag verbose;
+	FILE *sink;
+
+	CHECK(mkdtemp(dir) != NULL);
+	CHECK(put_file(dir, "old.mod", model, sizeof(model) - 1));
+	CHECK(put_file(dir, "mid.mod", middle, sizeof(middle) - 1));
+	CHECK(put_file(dir, "top.cir", top, strlen(top)));
+	CHECK(put_file(dir, "mid.cir", top_mid, strlen(top_mid)));
+	CHECK(put_file(dir, "own.cir", own, strlen(own)));
+	/* accepted after the last line of an included file, with a note */
+	sink = open_memstream(&notes, &notes_len);
+	CHECK(sink != NULL);
+	sch_deck_init(&deck);
+	sch_diag_init(&verbose, sink, 1);
+	snprintf(path, sizeof(path), "%s/top.cir", dir);
+	CHECK(sch_deck_load(&deck, path, &verbose) == SCH_OK);
+	CHECK(deck.n_models == 1 && deck.n_elements == 2);
+	if (sink)
+		fclose(sink);
+	snprintf(path, sizeof(path), "%s/old.mod:3: note: DOS end-of-file byte (0x1a) after the last line: ignored", dir);
+	CHECK(notes && strstr(notes, path) != NULL);
+	free(notes);
+	sch_deck_release(&deck);
+	/* refused inside a card, and in the netlist itself */
+	sch_deck_init(&deck);
+	sch_diag_init(&diag, NULL, 0);
+	snprintf(path, sizeof(path), "%s/mid.cir", dir);
+	CHECK(sch_deck_load(&deck, path, &diag) == SCH_ERR_INPUT);
+	snprintf(path, sizeof(path), "%s/mid.mod:1: control character 0x1a in the text", dir);
+	CHECK_STR(diag.first_error, path);
+	sch_deck_release(&deck);
+	sch_diag_init(&diag, NULL, 0);
+	snprintf(path, sizeof(path), "%s/own.cir", dir);
+	CHECK(sch_deck_load(&deck, path, &diag) == SCH_ERR_INPUT);
+	snprintf(path, sizeof(path), "%s/own.cir:3: control character 0x1a in the text", dir);
+	CHECK_STR(diag.first_error, path);
+	sch_deck_release(&deck);
+	for (const char *const *f = (const char *const[]){ "old.mod", "mid.mod", "top.cir", "mid.cir", "own.cir", NULL };
+	     *f; f++) {
+		snprintf(path, sizeof(path), "%s/%s", dir, *f);
+		unlink(path);
+	}
+	rmdir(dir);
+}
+
+static void test_deck__node_counts_follow_the_model_type_and_keywords(void)
+{
+	static const struct {
+		const char *name;
+		int n;
+	} want[] = {
+		{ "m1", 3 }, { "m2", 5 }, { "m3", 4 }, { "m4", 6 }, { "q1", 5 }, { "q2", 4 }, { "q3", 4 },
+		{ "q4", 3 }, { "q5", 5 }, { "d1", 3 }, { "d2", 2 }, { "d3", 3 },
+	};
+	struct sch_deck deck;
+	const char *const *nodes;
+
+	CHECK(load_text(&deck, "nodes\n.model pwr-n1 vdmos nchan vto=2\n.model nm nmos level=1\n"
+				".model soi nmos level=10\n.model qv npn level=4 rth=300\n.model qv9 pnp(level=9)\n"
+				".model qh npn level = 8\n.model qg npn\n.model dm d is=1e-14 rth0=500\n"
+				"m1 d g s pwr-n1\nm2 d g s tj tc pwr-n1 thermal\nm3 d g s b nm w=1u\n"
+				"m4 d g s e p b soi\nq1 c b e s dt qv area=1\nq2 c b e s qv9\nq3 c b e s qg\n"
+				"q4 c b e qg 2\nq5 c b e 0 0 qh\nd1 a k tj dm thermal\nd2 a k dm 2\nd3 a k tj dm\n") == SCH_OK);
+	for (size_t i = 0; i < sizeof(want) / sizeof(want[0]); i++) {
+		const struct sch_element *e = element(&deck, want[i].name);
+		int got = e ? sch_deck_element_nodes(&deck, e, &nodes) : -1;
+
+		if (got != want[i].n)
+			fprintf(stderr, "  %s: %d nodes, want %d\n", want[i].name, got, want[i].n);
+		CHECK(got == want[i].n);
+	}
+	sch_deck_release(&deck);
+	/* three nodes are a vdmos model's privilege; five a VBIC's or HICUM's */
+	expect_error("t\nm1 d g s nm\n.model nm nmos\n", INLINE_NAME ":2: too few fields for 'm1': needs 4 nodes and a model");
+	expect_error("t\nq1 c b e s dt qg\n.model qg npn\n",
+		     INLINE_NAME ":2: 'q1' connects 5 nodes but its npn model (level 1) takes at most 4");
+	/* the missing model is named, not the thermal node before it */
+	expect_error("t\nd1 a k tj dmiss thermal\n", INLINE_NAME ":2: model 'dmiss' is not defined");
+	expect_error("t\nq1 c b e s dt qmiss area=1\n", INLINE_NAME ":2: model 'qmiss' is not defined");
+	expect_error("t\nm1 d g s irf-x\n", INLINE_NAME ":2: model 'irf-x' is not defined");
+}
+
+static void test_deck__script_title_without_a_circuit_is_bad_input(void)
+{
+	expect_error("*ng_script light-sensor batch run\n",
+		     INLINE_NAME ":1: a '*ng_script' title and no circuit: the file is a simulator script, not a netlist");
+	expect_error("*NG_SCRIPT\n.control\nsource other.cir\nrun\n.endc\n.end\n",
+		     INLINE_NAME ":1: a '*ng_script' title and no circuit: the file is a simulator script, not a netlist");
+	expect_error("\n*ng_script after a blank title\n.param a=1\n",
+		     INLINE_NAME ":2: a '*ng_script' title and no circuit: the file is a simulator script, not a netlist");
+}
+
 CHECK_MAIN(CASE(test_deck__joins_plus_continuation_lines), CASE(test_deck__drops_star_comment_lines),
 	   CASE(test_deck__strips_semicolon_and_dollar_comments),
 	   CASE(test_deck__comment_only_line_does_not_end_a_card), CASE(test_deck__title_is_never_a_card),
@@ -1092,4 +1396,16 @@ CHECK_MAIN(CASE(test_deck__joins_plus_continuation_lines), CASE(test_deck__drops
 	   CASE(test_deck__include_of_a_fifo_fails_at_once),
 	   CASE(test_deck__rejects_noise_output_at_a_node_nothing_touches),
 	   CASE(test_deck__rejects_current_source_without_dc_path),
-	   CASE(test_deck__quotes_are_short_and_never_from_included_files))
+	   CASE(test_deck__quotes_are_short_and_never_from_included_files),
+	   CASE(test_deck__reads_the_noise_command_of_a_control_block),
+	   CASE(test_deck__a_noise_card_wins_over_the_control_block),
+	   CASE(test_deck__honours_op_and_temperature_before_the_noise_command),
+	   CASE(test_deck__lists_what_the_block_does_not_honour),
+	   CASE(test_deck__never_takes_a_noise_command_with_odd_tokens),
+	   CASE(test_deck__reads_a_control_noise_command_from_an_included_file),
+	   CASE(test_deck__a_spot_noise_command_is_read),
+	   CASE(test_deck__a_control_noise_output_must_be_a_node),
+	   CASE(test_deck__ends_with_glued_text_closes_the_subckt),
+	   CASE(test_deck__dos_eof_byte_ends_an_included_file_only),
+	   CASE(test_deck__node_counts_follow_the_model_type_and_keywords),
+	   CASE(test_deck__script_title_without_a_circuit_is_bad_input))

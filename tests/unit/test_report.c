@@ -439,13 +439,13 @@ static void test_report__spectrum_has_one_row_per_frequency_and_the_rest(void)
 		goto out;
 	line = strtok_r(text, "\n", &save);
 	CHECK(line && strncmp(line, "frequency [Hz],total [V/rtHz],", 30) == 0);
-	CHECK(line && strstr(line, ",rest [V/rtHz]") != NULL);
+	CHECK(line && strstr(line, ",rest [V/rtHz],transfer [V/A]") != NULL);
 	CHECK(line && strstr(line, "rf thermal [V/rtHz]") != NULL);
 	while ((line = strtok_r(NULL, "\n", &save))) {
 		int n = split(line, field, 16);
 		double rest, top;
-		CHECK(n == 5);
-		if (n < 5 || rows >= r.n_freq)
+		CHECK(n == 6);
+		if (n < 6 || rows >= r.n_freq)
 			continue;
 		CHECK_REL(strtod(field[0], NULL), r.freq_hz[rows], 1e-11);
 		CHECK_REL(strtod(field[1], NULL), sqrt(r.total_psd[rows]), 1e-11);
@@ -453,6 +453,7 @@ static void test_report__spectrum_has_one_row_per_frequency_and_the_rest(void)
 		top = r.contributions[0].psd[rows] + r.contributions[1].psd[rows];
 		rest = sqrt(fabs(r.total_psd[rows] - top));
 		CHECK_REL(strtod(field[4], NULL), rest, 1e-9);
+		CHECK_REL(strtod(field[5], NULL), sqrt(r.gain2[rows]), 1e-11); /* |transfer|, V/A */
 		rows++;
 	}
 	CHECK(rows == r.n_freq);

@@ -50,5 +50,14 @@ static void test_spectra__interpolates_log_log(void)
 	CHECK_REL(sch_spectra_at(f, p, 2, 100), 1e-4, 1e-15);
 }
 
-CHECK_MAIN(CASE(test_spectra__integrates_flat_psd_exactly), CASE(test_spectra__integrates_power_laws_exactly),
+/* A row that removes noise must cancel the row it corrects exactly (same power law, opposite sign). */
+static void test_spectra__negative_row_mirrors_its_magnitude(void)
+{
+	double f[] = { 1, 10, 100 }, p[] = { 1, 0.1, 0.01 }, n[] = { -1, -0.1, -0.01 };
+	CHECK_REL(sch_spectra_band_power(f, n, 3, 1, 100), -log(100.0), 1e-13);
+	CHECK_REL(sch_spectra_band_power(f, n, 3, 2, 50) + sch_spectra_band_power(f, p, 3, 2, 50), 0.0, 1e-15);
+	CHECK_REL(sch_spectra_at(f, n, 3, sqrt(10.0)), -pow(10.0, -0.5), 1e-13);
+}
+
+CHECK_MAIN(CASE(test_spectra__integrates_flat_psd_exactly), CASE(test_spectra__negative_row_mirrors_its_magnitude), CASE(test_spectra__integrates_power_laws_exactly),
 	   CASE(test_spectra__single_pole_noise_bandwidth), CASE(test_spectra__interpolates_log_log))
