@@ -4,6 +4,7 @@
 #include <string.h>
 #include "schrot/cmd.h"
 #include "schrot/err.h"
+#include "schrot/leftover.h"
 
 struct cmd_entry {
 	const char *name;
@@ -26,6 +27,7 @@ int main(int argc, char **argv)
 	int code = SCH_EXIT_INPUT;
 
 	sch_diag_init(&ctx.diag, stderr, 0);
+	sch_leftover_install();
 	if (argc < 2) {
 		fprintf(stderr, "schrot: error: no command given (try 'schrot --help')\n");
 		return SCH_EXIT_INPUT;
@@ -43,10 +45,14 @@ int main(int argc, char **argv)
 				break;
 		}
 		if (k == sizeof(commands) / sizeof(commands[0]))
-			fprintf(stderr, "schrot: error: unknown command '%s' (try 'schrot --help')\n", argv[1]);
+			sch_diag_error(&ctx.diag, SCH_ERR_USAGE, NULL, 0, "unknown command '%s' (try 'schrot --help')",
+				       argv[1]);
 		else
 			code = commands[k].fn(argc - 1, argv + 1, &ctx);
 	}
+	/* every failure reports itself through diag except a failed allocation, which has no room to */
+	if (code == SCH_EXIT_INPUT && ctx.diag.n_errors == 0)
+		fputs("schrot: error: out of memory\n", stderr);
 	if (fflush(stdout) != 0 || ferror(stdout)) {
 		fprintf(stderr, "schrot: error: could not write the standard output\n");
 		if (code == SCH_EXIT_OK)

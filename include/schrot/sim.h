@@ -29,6 +29,12 @@ struct sch_sim_outcome;
 struct sch_sim_request {
 	const char *const *lines;      /* the deck: lines[0] is the title, the last line is ".end" */
 	size_t n_lines;
+	/*
+	 * n_lines flags, true for a line holding text of an included or library file; NULL: none.
+	 * Words only such lines hold are replaced by "…" in every simulator text the session passes
+	 * on (failure reasons, notes, messages), so included text never reaches a message.
+	 */
+	const bool *private_lines;
 	const struct sch_sim_step *steps;
 	size_t n_steps;
 	const char *const *quantities; /* read after each step, e.g. "@i.x1.iph[current]", "@d.x1.d1[vd]" */
@@ -135,6 +141,24 @@ void sch_sim_result_release(struct sch_sim_result *res);
 
 /* The vector called name in an outcome, or NULL. */
 const struct sch_sim_vector *sch_sim_find_vector(const struct sch_sim_outcome *o, const char *name);
+
+/*
+ * What each worker process may use, set with setrlimit in the worker: CPU seconds (RLIMIT_CPU),
+ * memory in MiB (RLIMIT_DATA) and the size of the data file it writes (RLIMIT_FSIZE, the same
+ * MiB figure). A worker that hits one fails its run with that cause (exit 3).
+ */
+#define SCH_SIM_DEFAULT_CPU_S 3600.0
+#define SCH_SIM_DEFAULT_MEM_MIB 8192.0
+struct sch_sim_budget {
+	double cpu_s;
+	double mem_mib;
+};
+
+/* Sets the budget of every worker started from now on in this process. Values <= 0 keep the current one. */
+void sch_sim_set_budget(const struct sch_sim_budget *b);
+
+/* The budget workers get now (the defaults unless sch_sim_set_budget changed it). */
+struct sch_sim_budget sch_sim_get_budget(void);
 
 /* The canonical spelling of a compatibility mode ngspice reads (case ignored), or NULL for any other text. */
 const char *sch_sim_compat_mode_known(const char *mode);

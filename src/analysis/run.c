@@ -88,6 +88,19 @@ static enum sch_err add_lump_step(struct sch_analysis *an)
 	return SCH_OK;
 }
 
+/* Which deck lines come from an included or library file (the simulator keeps their words out of messages); NULL when out of memory. */
+static const bool *private_lines_of(struct sch_result *res, const struct sch_augmented *aug)
+{
+	bool *priv = sch_arena_alloc(&res->arena, (aug->n_lines + 1) * sizeof(*priv));
+
+	for (size_t i = 0; priv && i < aug->n_lines; i++) {
+		int card = aug->line_card[i];
+
+		priv[i] = card >= 0 && (size_t)card < res->deck.n_cards && res->deck.cards[card].file != res->deck.path;
+	}
+	return priv;
+}
+
 enum sch_err sch_analysis_build_request(struct sch_analysis *an)
 {
 	struct sch_sim_request *req = &an->req;
@@ -97,6 +110,9 @@ enum sch_err sch_analysis_build_request(struct sch_analysis *an)
 	memset(req, 0, sizeof(*req));
 	req->lines = an->aug.lines;
 	req->n_lines = an->aug.n_lines;
+	req->private_lines = private_lines_of(an->res, &an->aug);
+	if (!req->private_lines)
+		return SCH_ERR_NOMEM;
 	req->steps = an->steps;
 	req->n_steps = an->n_steps;
 	if (an->lump.quiet && (ret = add_lump_step(an)) != SCH_OK)

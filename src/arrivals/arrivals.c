@@ -13,6 +13,7 @@
 #include <time.h>
 #include <unistd.h>
 #include "schrot/arrivals.h"
+#include "schrot/leftover.h"
 #include "schrot/augment.h"
 #include "schrot/physics.h"
 #include "schrot/si.h"
@@ -262,6 +263,7 @@ static void scratch_remove(struct scratch *s)
 		unlink(file);
 	}
 	rmdir(s->dir);
+	sch_leftover_drop_path(s->dir);
 	s->made = false;
 }
 
@@ -454,7 +456,15 @@ static enum sch_err make_scratch(struct scratch *s, struct sch_diag *d)
 			suffix[i] = (char)('a' + sch_rng_next(&rng) % 26);
 		suffix[10] = '\0';
 		snprintf(s->dir, sizeof(s->dir), "%s/schrot-arrivals-%s", tmp, suffix);
-		if (mkdir(s->dir, 0700) == 0) {
+		sigset_t old;
+		bool made;
+
+		sch_leftover_hold(&old);
+		made = mkdir(s->dir, 0700) == 0;
+		if (made)
+			sch_leftover_add_path(s->dir, true); /* a signal removes it with its files */
+		sch_leftover_release(&old);
+		if (made) {
 			s->made = true;
 			return SCH_OK;
 		}

@@ -2,11 +2,13 @@
 /* outfile.c - atomic output files: a mkstemp file beside the target, renamed over it on commit. */
 #include <errno.h>
 #include <fcntl.h>
+#include <signal.h>
 #include <stdbool.h>
 #include <stdlib.h>
 #include <string.h>
 #include <sys/stat.h>
 #include <unistd.h>
+#include "schrot/leftover.h"
 #include "schrot/outfile.h"
 
 /* Renames deferred by a batch: (temporary file, target), in commit order. Nested batches join the outermost. */
@@ -52,12 +54,15 @@ void sch_outfile_batch_begin(void)
 enum sch_err sch_outfile_batch_end(bool ok, struct sch_diag *d)
 {
 	enum sch_err ret = SCH_OK;
+	sigset_t old;
 
 	if (!ok)
 		batch.failed = true;
 	if (batch.depth > 0 && --batch.depth > 0)
 		return SCH_OK;
 	ok = !batch.failed;
+	/* a signal waits until every file of the batch is in place (or removed): never half of them */
+	sch_leftover_hold(&old);
 	for (size_t i = 0; i < batch.n; i++) {
 		struct deferred *f = &batch.v[i];
 
@@ -65,9 +70,11 @@ enum sch_err sch_outfile_batch_end(bool ok, struct sch_diag *d)
 			ret = sch_diag_error(d, SCH_ERR_IO, f->path, 0, "cannot replace output file: %s", strerror(errno));
 		if (!ok || ret != SCH_OK)
 			remove(f->tmp_path);
+		sch_leftover_drop_path(f->tmp_path);
 		free(f->tmp_path);
 		free(f->path);
 	}
+	sch_leftover_release(&old);
 	free(batch.v);
 	batch.v = NULL;
 	batch.n = batch.cap = 0;
@@ -77,8 +84,10 @@ enum sch_err sch_outfile_batch_end(bool ok, struct sch_diag *d)
 	return ret;
 }
 
+/* Every path to a temporary file ends here or in batch_end: the signal registry forgets it too. */
 static void outfile_clear(struct sch_outfile *o)
 {
+	sch_leftover_drop_path(o->tmp_path);
 	free(o->path);
 	free(o->tmp_path);
 	o->fp = NULL;
@@ -108,6 +117,7 @@ enum sch_err sch_outfile_open(struct sch_outfile *o, const char *path, struct sc
 {
 	enum sch_err ret = SCH_ERR_IO;
 	struct stat st, lst;
+	sigset_t old;
 	size_t len;
 	int fd = -1;
 
@@ -168,7 +178,11 @@ enum sch_err sch_outfile_open(struct sch_outfile *o, const char *path, struct sc
 	}
 	memcpy(o->tmp_path, path, len);
 	memcpy(o->tmp_path + len, ".tmpXXXXXX", sizeof(".tmpXXXXXX"));
+	sch_leftover_hold(&old);
 	fd = mkstemp(o->tmp_path);
+	if (fd >= 0)
+		sch_leftover_add_path(o->tmp_path, false);
+	sch_leftover_release(&old);
 	if (fd < 0) {
 		ret = sch_diag_error(d, SCH_ERR_IO, path, 0, "cannot create output file: %s", strerror(errno));
 		free(o->tmp_path);

@@ -94,6 +94,7 @@ static enum sch_err set_avalanche(struct sch_cli *, const struct cli_option *, c
 static enum sch_err set_fano(struct sch_cli *, const struct cli_option *, char *, struct sch_diag *);
 static enum sch_err set_shard(struct sch_cli *, const struct cli_option *, char *, struct sch_diag *);
 static enum sch_err set_seed(struct sch_cli *, const struct cli_option *, char *, struct sch_diag *);
+static enum sch_err set_worker_limit(struct sch_cli *, const struct cli_option *, char *, struct sch_diag *);
 static enum sch_err set_dialect(struct sch_cli *, const struct cli_option *, char *, struct sch_diag *);
 
 #define AT(field) offsetof(struct sch_cli, field)
@@ -193,6 +194,8 @@ static const struct cli_option options[] = {
 	  "a self-contained review page" },
 	{ "--depfile", NULL, "FILE", CMD_REPORT | CMD_CARRIERS | CMD_AUGMENT | CMD_SWEEP | CMD_ARRIVALS, TEXT(depfile_path),
 	  "make dependency file: the output files depend on the netlist\nand its includes" },
+	{ "--worker-limit", NULL, "SECONDS:MIB", CMD_NETLIST, OWN(set_worker_limit, "SECONDS:MIB, both positive"),
+	  "CPU time and memory (MiB, also the data file's size) each\nsimulator worker may use (default 3600:8192)" },
 	{ "--quiet", "-q", NULL, CMD_ALL, OWN(set_flag, NULL), "only errors" },
 	{ "--verbose", "-v", NULL, CMD_ALL, OWN(set_flag, NULL), "notes and simulator messages too" },
 	{ "--help", "-h", NULL, CMD_ALL, OWN(set_flag, NULL), "this help" },
@@ -393,6 +396,21 @@ static enum sch_err set_spot(struct sch_cli *cli, const struct cli_option *o, ch
 	if (parse_number(val, spot) != SCH_OK || !(*spot > 0))
 		return bad_value(o, val, d);
 	cli->run.n_spots++;
+	return SCH_OK;
+}
+
+/* The workers' budget is the simulator session's own setting, not a run option: it is set here. */
+static enum sch_err set_worker_limit(struct sch_cli *cli, const struct cli_option *o, char *val, struct sch_diag *d)
+{
+	const char *colon = strchr(val, ':');
+	struct sch_sim_budget b;
+
+	(void)cli;
+	if (!colon || sch_si_parse_n(val, (size_t)(colon - val), &b.cpu_s) != SCH_OK ||
+	    sch_si_parse(colon + 1, &b.mem_mib) != SCH_OK || !(b.cpu_s >= 1 && b.cpu_s < 1e9) ||
+	    !(b.mem_mib >= 16 && b.mem_mib < 1e9))
+		return bad_value(o, val, d);
+	sch_sim_set_budget(&b);
 	return SCH_OK;
 }
 

@@ -8,6 +8,7 @@
 #include <stdlib.h>
 #include <string.h>
 #include <strings.h>
+#include <signal.h>
 #include <sys/wait.h>
 
 #include "sim_int.h"
@@ -156,6 +157,76 @@ static char *printf_dup(const char *fmt, const char *arg)
 	return strdup(line);
 }
 
+/*
+ * The library's own words for a failed allocation (tmalloc, trealloc and the numparam allocators).
+ * "can't allocate -8 bytes" is a size gone negative, a bug of the library, not a lack of memory.
+ */
+static bool says_out_of_memory(const char *s)
+{
+	const char *n = strcasestr(s, "can't allocate");
+
+	if (n) {
+		n += strlen("can't allocate");
+		while (*n == ' ')
+			n++;
+		return *n != '-';
+	}
+	/* the last two are a sanitizer allocator's words, in a sanitizer build */
+	return strcasestr(s, "cannot allocate") || strcasestr(s, "memory allocation failed") ||
+	       strcasestr(s, "out of memory") || strcasestr(s, "failed to allocate") ||
+	       strcasestr(s, "failed to mmap");
+}
+
+static char *out_of_memory(void)
+{
+	char line[200];
+
+	snprintf(line, sizeof(line), "the simulator ran out of memory (worker budget %.0f MiB; raise it with --worker-limit)",
+		 sch_sim_get_budget().mem_mib);
+	return strdup(line);
+}
+
+/*
+ * A worker killed by a signal: a budget it reached, an allocation that failed (the worker's
+ * SIGSEGV handler exits with SCH_WORKER_EXIT_NOMEM then), or a crash with the first line the
+ * library wrote to stderr (an assertion), if any.
+ */
+static char *death_reason(const struct sch_worker *wk)
+{
+	struct sch_sim_budget b = sch_sim_get_budget();
+	char line[800];
+
+	if (WIFEXITED(wk->status) && WEXITSTATUS(wk->status) == SCH_WORKER_EXIT_NOMEM)
+		return out_of_memory();
+	if (wk->stalled) {
+		snprintf(line, sizeof(line),
+			 "the simulator hung (no CPU time used for %.0f s, as when an allocation fails inside it; "
+			 "worker budget %.0f MiB, raise it with --worker-limit)", SCH_SIM_STALL_S, b.mem_mib);
+		return strdup(line);
+	}
+	if (!WIFSIGNALED(wk->status))
+		return NULL;
+	switch (WTERMSIG(wk->status)) {
+	case SIGXCPU:
+		snprintf(line, sizeof(line),
+			 "the simulator spent its CPU-time budget of %.0f s (raise it with --worker-limit)", b.cpu_s);
+		break;
+	case SIGXFSZ:
+		snprintf(line, sizeof(line),
+			 "the simulator's data file reached the size budget of %.0f MiB (raise it with --worker-limit)",
+			 b.mem_mib);
+		break;
+	default:
+		if (wk->err_text[0])
+			snprintf(line, sizeof(line), "simulator crashed (signal %d): %.400s", WTERMSIG(wk->status),
+				 wk->err_text);
+		else
+			snprintf(line, sizeof(line), "simulator crashed (signal %d)", WTERMSIG(wk->status));
+		break;
+	}
+	return strdup(line);
+}
+
 /* Why the library gave up: the line that says what went wrong, not the "cannot recover" line. */
 static char *gave_up_reason(const struct sch_worker *wk)
 {
@@ -173,6 +244,8 @@ static char *gave_up_reason(const struct sch_worker *wk)
 		if (!pick && strcasestr(m->text, "cannot recover"))
 			pick = m->text;
 	}
+	if (pick && says_out_of_memory(pick))
+		return out_of_memory();
 	return printf_dup("simulator gave up: %s", pick ? pick : "it asked to exit");
 }
 
@@ -197,7 +270,6 @@ static void locate_give_up(struct sch_worker *wk, const struct sch_collect *c)
 static char *worker_failure(struct sch_worker *wk, const struct sch_collect *c, bool *nomem)
 {
 	char *r = NULL;
-	char num[32];
 
 	if (wk->fatal)
 		return printf_dup("%s", wk->fatal);
@@ -205,10 +277,11 @@ static char *worker_failure(struct sch_worker *wk, const struct sch_collect *c, 
 		locate_give_up(wk, c);
 		return gave_up_reason(wk);
 	}
-	if (wk->status >= 0 && WIFSIGNALED(wk->status)) {
-		snprintf(num, sizeof(num), "%d", WTERMSIG(wk->status));
-		return printf_dup("simulator crashed (signal %s)", num);
-	}
+	if (wk->status >= 0 && (r = death_reason(wk)) != NULL)
+		return r;
+	/* a sanitizer's allocator reports the failure on stderr and exits */
+	if (!wk->ended && says_out_of_memory(wk->err_text))
+		return out_of_memory();
 	r = sch_sim_judge_text(wk, SCH_PHASE_LOAD, SCH_STEP_NONE, nomem);
 	if (r || *nomem)
 		return r;
@@ -217,7 +290,8 @@ static char *worker_failure(struct sch_worker *wk, const struct sch_collect *c, 
 	if (wk->malformed)
 		return strdup("simulator worker sent malformed data");
 	if (!wk->ended)
-		return strdup("simulator worker exited without a result");
+		return wk->err_text[0] ? printf_dup("simulator worker exited without a result: %.400s", wk->err_text)
+				       : strdup("simulator worker exited without a result");
 	return NULL;
 }
 

@@ -14,11 +14,18 @@
 #include <stdio.h>
 #include <stdlib.h>
 #include <string.h>
+#include <time.h>
+#include <sys/mman.h>
+#include <sys/resource.h>
 #include <sys/stat.h>
 #include <sys/types.h>
 #include <sys/wait.h>
 #include <unistd.h>
+#ifdef __linux__
+#include <sys/prctl.h>
+#endif
 
+#include "schrot/leftover.h"
 #include "sim_int.h"
 
 #define SCH_SIM_TITLE "* schrot deck"
@@ -53,6 +60,151 @@ bool sch_sim_data_file_path(size_t step, char *out, size_t size)
 	int n = snprintf(out, size, "%s/s%zu.raw", sch_data_dir, step);
 
 	return sch_data_dir[0] && n > 0 && (size_t)n < size && sch_sim_path_is_command_safe(out);
+}
+
+/*
+ * AddressSanitizer reserves terabytes of shadow memory at start, which RLIMIT_DATA counts: in such
+ * a build the budget is counted from what the worker already has when it starts.
+ */
+#if defined(__SANITIZE_ADDRESS__)
+#define SCH_SIM_BUDGET_ON_TOP 1
+#elif defined(__has_feature)
+#if __has_feature(address_sanitizer)
+#define SCH_SIM_BUDGET_ON_TOP 1
+#endif
+#endif
+#ifndef SCH_SIM_BUDGET_ON_TOP
+#define SCH_SIM_BUDGET_ON_TOP 0
+#endif
+
+/* The process's data size (VmData) in bytes, 0 when unknown. */
+static double data_size_now(void)
+{
+	char buf[4096];
+	const char *p;
+	ssize_t n;
+	int fd = open("/proc/self/status", O_RDONLY | O_CLOEXEC);
+
+	if (fd < 0)
+		return 0;
+	n = read(fd, buf, sizeof(buf) - 1);
+	close(fd);
+	if (n <= 0)
+		return 0;
+	buf[n] = '\0';
+	p = strstr(buf, "VmData:");
+	return p ? 1024.0 * strtod(p + 7, NULL) : 0;
+}
+
+/* ---- the workers' budget --------------------------------------------------------------- */
+
+static struct sch_sim_budget sch_budget = { SCH_SIM_DEFAULT_CPU_S, SCH_SIM_DEFAULT_MEM_MIB };
+
+void sch_sim_set_budget(const struct sch_sim_budget *b)
+{
+	if (b && b->cpu_s > 0)
+		sch_budget.cpu_s = b->cpu_s;
+	if (b && b->mem_mib > 0)
+		sch_budget.mem_mib = b->mem_mib;
+}
+
+struct sch_sim_budget sch_sim_get_budget(void)
+{
+	return sch_budget;
+}
+
+static void set_limit(int resource, double soft, double hard)
+{
+	struct rlimit rl;
+
+	if (getrlimit(resource, &rl) != 0)
+		return;
+	/* never above what we were given: an unprivileged process cannot raise its hard limit */
+	if (rl.rlim_max == RLIM_INFINITY || (double)rl.rlim_max > hard)
+		rl.rlim_max = (rlim_t)hard;
+	rl.rlim_cur = (double)rl.rlim_max < soft ? rl.rlim_max : (rlim_t)soft;
+	setrlimit(resource, &rl);
+}
+
+/*
+ * A library that does not check an allocation crashes on the NULL it got. errno still says
+ * ENOMEM then (nothing since has failed), or the budget has no room left, so the crash is told
+ * as what it is: out of memory.
+ * Anything else stays the crash it was.
+ */
+static void worker_on_crash(int sig)
+{
+	void *probe;
+
+	if (errno == ENOMEM)
+		_exit(SCH_WORKER_EXIT_NOMEM);
+	/* or the budget is nearly spent: a quarter MiB more is not to be had */
+	probe = mmap(NULL, 1 << 18, PROT_READ | PROT_WRITE, MAP_PRIVATE | MAP_ANONYMOUS, -1, 0);
+	if (probe == MAP_FAILED)
+		_exit(SCH_WORKER_EXIT_NOMEM);
+	signal(sig, SIG_DFL);
+	raise(sig);
+}
+
+/* In the worker: SIGINT, SIGTERM and SIGHUP as the tool got them (default, or ignored under nohup). */
+static bool worker_ignores[3];
+static const int worker_stop_signals[3] = { SIGINT, SIGTERM, SIGHUP };
+
+void sch_sim_catch_crashes(void)
+{
+	/*
+	 * The library's start-up catches SIGINT to interrupt an analysis, which would end a run early
+	 * with a result that looks whole: a worker dies of these signals instead, or ignores them
+	 * as the tool does.
+	 */
+	for (size_t i = 0; i < 3; i++)
+		signal(worker_stop_signals[i], worker_ignores[i] ? SIG_IGN : SIG_DFL);
+	static char alt_stack[64 * 1024]; /* a stack overflow leaves no room on the ordinary one */
+	stack_t ss = { .ss_sp = alt_stack, .ss_size = sizeof(alt_stack) };
+	struct sigaction sa;
+
+	memset(&sa, 0, sizeof(sa));
+	sa.sa_handler = worker_on_crash;
+	sa.sa_flags = SA_ONSTACK | SA_RESETHAND;
+	if (sigaltstack(&ss, NULL) != 0)
+		return;
+	sigaction(SIGSEGV, &sa, NULL);
+	sigaction(SIGBUS, &sa, NULL);
+}
+
+/*
+ * In the child: the budget, no core file (a crash must not drop 10 MB into the user's working
+ * directory), and death with the tool. The CPU soft limit sends SIGXCPU; the hard one, a little
+ * later, SIGKILL, should the library catch the first.
+ */
+static void worker_process_setup(pid_t parent)
+{
+	double mem = sch_budget.mem_mib * 1048576.0;
+
+#ifdef __linux__
+	prctl(PR_SET_PDEATHSIG, SIGKILL);
+#endif
+	if (getppid() != parent)
+		_exit(3); /* the tool died before the line above took effect */
+	for (size_t i = 0; i < 3; i++) {
+		struct sigaction sa;
+
+		worker_ignores[i] = sigaction(worker_stop_signals[i], NULL, &sa) == 0 && sa.sa_handler == SIG_IGN;
+	}
+	sch_leftover_forget_in_child();
+	/* the tool's own crash handlers (a sanitizer's, a fuzzer's) are not the worker's business */
+	signal(SIGPIPE, SIG_DFL);
+	signal(SIGABRT, SIG_DFL);
+	signal(SIGILL, SIG_DFL);
+	signal(SIGFPE, SIG_DFL);
+	set_limit(RLIMIT_CORE, 0, 0);
+	set_limit(RLIMIT_CPU, sch_budget.cpu_s, sch_budget.cpu_s + 5);
+	if (SCH_SIM_BUDGET_ON_TOP)
+		set_limit(RLIMIT_DATA, data_size_now() + mem, data_size_now() + mem);
+	else
+		set_limit(RLIMIT_DATA, mem, mem);
+	set_limit(RLIMIT_FSIZE, mem, mem);
+	sch_sim_catch_crashes();
 }
 
 /* ---- request checks and the deck ------------------------------------------------------- */
@@ -189,6 +341,45 @@ static void report_notes(struct sch_worker *wks, size_t n_wk, struct sch_diag *d
 	}
 }
 
+/* Replaces *text by its redacted copy when it quotes included text. */
+static enum sch_err redact_one(const struct sch_redact *r, char **text)
+{
+	bool changed = false;
+	char *clean = *text ? sch_redact_text(r, *text, &changed) : NULL;
+
+	if (changed && !clean)
+		return SCH_ERR_NOMEM;
+	if (clean) {
+		free(*text);
+		*text = clean;
+	}
+	return SCH_OK;
+}
+
+/* Replaces, in place, every worker text that quotes included text (redact.c). */
+static enum sch_err redact_workers(const struct sch_sim_request *req, struct sch_worker *wks, size_t n_wk)
+{
+	struct sch_redact r;
+	enum sch_err ret = sch_redact_init(&r, req);
+
+	for (size_t w = 0; w < n_wk && ret == SCH_OK && r.active; w++) {
+		struct sch_worker *wk = &wks[w];
+		char *err_text = strdup(wk->err_text);
+
+		ret = err_text ? redact_one(&r, &err_text) : SCH_ERR_NOMEM;
+		if (ret == SCH_OK)
+			snprintf(wk->err_text, sizeof(wk->err_text), "%s", err_text);
+		free(err_text);
+		if (ret == SCH_OK)
+			ret = redact_one(&r, &wk->fatal);
+		for (size_t i = 0; i < wk->n_msgs && ret == SCH_OK; i++)
+			if (wk->msgs[i].phase != SCH_PHASE_INIT)
+				ret = redact_one(&r, &wk->msgs[i].text);
+	}
+	sch_redact_release(&r);
+	return ret;
+}
+
 /* ---- the workers' lives ---------------------------------------------------------------- */
 
 static void release_workers(struct sch_worker *wks, size_t n_wk)
@@ -198,6 +389,8 @@ static void release_workers(struct sch_worker *wks, size_t n_wk)
 
 		if (wk->fd >= 0)
 			close(wk->fd);
+		if (wk->err_fd >= 0)
+			close(wk->err_fd);
 		if (wk->pid > 0) {
 			int st;
 
@@ -205,6 +398,7 @@ static void release_workers(struct sch_worker *wks, size_t n_wk)
 				kill(wk->pid, SIGKILL);
 			while (waitpid(wk->pid, &st, 0) < 0 && errno == EINTR)
 				;
+			sch_leftover_drop_pid(wk->pid);
 		}
 		for (size_t i = 0; i < wk->n_msgs; i++)
 			free(wk->msgs[i].text);
@@ -214,40 +408,70 @@ static void release_workers(struct sch_worker *wks, size_t n_wk)
 	}
 }
 
+/*
+ * The child side of worker w: only its own pipe ends stay open, the process is set up (budget,
+ * death with the tool), stderr goes to the tool. Never returns.
+ */
+static void become_worker(const struct sch_sim_request *req, char **deck, struct sch_worker *wks, size_t w,
+			  const int fds[2], const int errs[2], pid_t parent, const sigset_t *held)
+{
+	close(fds[0]);
+	close(errs[0]);
+	for (size_t k = 0; k < w; k++) {
+		if (wks[k].fd >= 0)
+			close(wks[k].fd);
+		if (wks[k].err_fd >= 0)
+			close(wks[k].err_fd);
+	}
+	worker_process_setup(parent);
+	sch_leftover_release(held);
+	/* the library's own prints to stderr (an assertion) come to the tool, not the terminal */
+	if (dup2(errs[1], STDERR_FILENO) < 0)
+		_exit(3);
+	close(errs[1]);
+	sch_sim_worker_main(req, deck, wks[w].first, wks[w].end, fds[1]);
+}
+
 static enum sch_err start_workers(const struct sch_sim_request *req, char **const *decks, struct sch_worker *wks,
 				  size_t n_wk, char *why, size_t why_len)
 {
+	pid_t parent = getpid();
+
 	for (size_t w = 0; w < n_wk; w++) {
 		wks[w].fd = -1;
+		wks[w].err_fd = -1;
 		wks[w].status = -1;
 		wks[w].first = req->n_steps * w / n_wk;
 		wks[w].end = req->n_steps * (w + 1) / n_wk;
 	}
 	fflush(NULL); /* a child must not write out the parent's buffered output again */
 	for (size_t w = 0; w < n_wk; w++) {
-		int fds[2];
-		pid_t pid;
+		int fds[2] = { -1, -1 }, errs[2] = { -1, -1 };
+		sigset_t held;
+		pid_t pid = -1;
 
-		if (pipe(fds) != 0) {
-			snprintf(why, why_len, "cannot start the simulator: %s", strerror(errno));
-			return SCH_ERR_SIM;
+		if (pipe(fds) == 0 && pipe(errs) == 0) {
+			sch_leftover_hold(&held); /* no signal between the fork and the worker's registration */
+			pid = fork();
+			if (pid == 0)
+				become_worker(req, decks[w], wks, w, fds, errs, parent, &held);
+			if (pid > 0)
+				sch_leftover_add_pid(pid);
+			sch_leftover_release(&held);
 		}
-		pid = fork();
 		if (pid < 0) {
 			snprintf(why, why_len, "cannot start the simulator: %s", strerror(errno));
-			close(fds[0]);
-			close(fds[1]);
+			for (size_t k = 0; k < 2; k++) {
+				if (fds[k] >= 0)
+					close(fds[k]);
+				if (errs[k] >= 0)
+					close(errs[k]);
+			}
 			return SCH_ERR_SIM;
 		}
-		if (pid == 0) {
-			close(fds[0]);
-			for (size_t k = 0; k < w; k++)
-				if (wks[k].fd >= 0)
-					close(wks[k].fd);
-			signal(SIGPIPE, SIG_DFL);
-			sch_sim_worker_main(req, decks[w], wks[w].first, wks[w].end, fds[1]);
-		}
 		close(fds[1]);
+		close(errs[1]);
+		wks[w].err_fd = errs[0];
 #ifdef F_SETPIPE_SZ
 		fcntl(fds[0], F_SETPIPE_SZ, 1 << 20); /* fewer wake-ups for big vector sets; a hint only */
 #endif
@@ -261,16 +485,50 @@ static enum sch_err start_workers(const struct sch_sim_request *req, char **cons
 static enum sch_err make_data_dir(struct sch_diag *d)
 {
 	const char *tmp = getenv("TMPDIR");
+	sigset_t old;
+	bool made;
 
 	if (!tmp || tmp[0] != '/' || strlen(tmp) > 200 || !sch_sim_path_is_command_safe(tmp))
 		tmp = "/tmp";
 	snprintf(sch_data_dir, sizeof(sch_data_dir), "%s/schrot-data-XXXXXX", tmp);
-	if (!mkdtemp(sch_data_dir)) {
+	sch_leftover_hold(&old);
+	made = mkdtemp(sch_data_dir) != NULL;
+	if (made)
+		sch_leftover_add_path(sch_data_dir, true);
+	sch_leftover_release(&old);
+	if (!made) {
 		sch_data_dir[0] = '\0';
 		return sch_diag_error(d, SCH_ERR_SIM, NULL, 0, "simulator: cannot create a private directory in '%s': %s",
 				      tmp, strerror(errno));
 	}
 	return SCH_OK;
+}
+
+char sch_sim_session_dir[PATH_MAX];
+
+/* The run's private directory (sim_int.h); without one, workers use $TMPDIR as before. */
+static void make_session_dir(void)
+{
+	const char *tmp = getenv("TMPDIR");
+	sigset_t old;
+
+	if (!tmp || tmp[0] != '/' || strlen(tmp) > 200)
+		tmp = "/tmp";
+	snprintf(sch_sim_session_dir, PATH_MAX, "%s/schrot-sim-XXXXXX", tmp);
+	sch_leftover_hold(&old);
+	if (mkdtemp(sch_sim_session_dir))
+		sch_leftover_add_path(sch_sim_session_dir, true);
+	else
+		sch_sim_session_dir[0] = '\0';
+	sch_leftover_release(&old);
+}
+
+static void remove_session_dir(void)
+{
+	if (!sch_sim_session_dir[0])
+		return;
+	sch_leftover_remove_now(sch_sim_session_dir);
+	sch_sim_session_dir[0] = '\0';
 }
 
 /* Removes what a worker that died early may have left, then the directory. */
@@ -284,6 +542,7 @@ static void remove_data_dir(size_t n_steps)
 		if (sch_sim_data_file_path(s, path, sizeof(path)))
 			unlink(path);
 	rmdir(sch_data_dir);
+	sch_leftover_drop_path(sch_data_dir);
 	sch_data_dir[0] = '\0';
 }
 
@@ -296,55 +555,177 @@ static void reap_workers(struct sch_worker *wks, size_t n_wk)
 		while ((r = waitpid(wks[w].pid, &st, 0)) < 0 && errno == EINTR)
 			;
 		wks[w].status = r == wks[w].pid ? st : 0;
+		sch_leftover_drop_pid(wks[w].pid);
 		wks[w].pid = 0;
 	}
 }
 
-/* Reads all workers' pipes until every one is closed, so that no worker blocks on a full pipe. */
+/*
+ * Keeps the first line with a word in it a worker writes to stderr (an assertion, an allocation failure), blanks
+ * folded, at most sizeof(err_text) - 1 bytes; the rest is read and dropped, so the worker never
+ * blocks on a full pipe. Sets *eof at end of stream.
+ */
+static void read_worker_stderr(struct sch_worker *wk, bool *eof)
+{
+	char chunk[4096];
+	ssize_t n = read(wk->err_fd, chunk, sizeof(chunk));
+
+	if (n < 0 && errno == EINTR)
+		return;
+	if (n <= 0) {
+		*eof = true;
+		return;
+	}
+	for (ssize_t i = 0; i < n && !wk->err_line_done; i++) {
+		unsigned char ch = (unsigned char)chunk[i];
+
+		if (ch == '\n' && wk->err_len > 0) {
+			bool has_word = false;
+
+			for (size_t k = 0; k < wk->err_len; k++)
+				has_word = has_word || isalnum((unsigned char)wk->err_text[k]);
+			if (!has_word) {
+				wk->err_len = 0; /* a rule of '=' (a sanitizer's report starts so): the next line tells */
+				continue;
+			}
+			wk->err_line_done = true;
+			break;
+		}
+		if (ch < 0x20 || ch == 0x7f)
+			ch = ' ';
+		if (ch == ' ' && (wk->err_len == 0 || wk->err_text[wk->err_len - 1] == ' '))
+			continue;
+		if (wk->err_len + 1 < sizeof(wk->err_text))
+			wk->err_text[wk->err_len++] = (char)ch;
+	}
+	while (wk->err_len > 0 && wk->err_text[wk->err_len - 1] == ' ')
+		wk->err_len--;
+	wk->err_text[wk->err_len] = '\0';
+}
+
+static double now_s(void)
+{
+	struct timespec ts;
+
+	clock_gettime(CLOCK_MONOTONIC, &ts);
+	return (double)ts.tv_sec + 1e-9 * (double)ts.tv_nsec;
+}
+
+/* utime + stime of a process from /proc (fields 14 and 15 of stat), or -1. */
+static long long cpu_ticks_of(pid_t pid)
+{
+	char path[64], buf[1024];
+	unsigned long long ut, st;
+	const char *p;
+	ssize_t n;
+	int fd;
+
+	snprintf(path, sizeof(path), "/proc/%ld/stat", (long)pid);
+	fd = open(path, O_RDONLY | O_CLOEXEC);
+	if (fd < 0)
+		return -1;
+	n = read(fd, buf, sizeof(buf) - 1);
+	close(fd);
+	if (n <= 0)
+		return -1;
+	buf[n] = '\0';
+	p = strrchr(buf, ')'); /* the command name may hold blanks */
+	if (!p || sscanf(p + 1, " %*c %*d %*d %*d %*d %*d %*u %*u %*u %*u %*u %llu %llu", &ut, &st) != 2)
+		return -1;
+	return (long long)(ut + st);
+}
+
+/* Kills workers that have used no CPU time and sent nothing for SCH_SIM_STALL_S (see sim_int.h). */
+static void kill_stalled(struct sch_worker *wks, size_t n, bool *heard)
+{
+	double t = now_s();
+
+	for (size_t i = 0; i < n; i++) {
+		struct sch_worker *wk = &wks[i];
+		long long ticks;
+
+		if (wk->pid <= 0 || wk->stalled || (wk->fd < 0 && wk->err_fd < 0))
+			continue;
+		ticks = cpu_ticks_of(wk->pid);
+		if (heard[i] || ticks < 0 || ticks != wk->cpu_ticks) {
+			wk->cpu_ticks = ticks;
+			wk->cpu_seen_s = t;
+			continue;
+		}
+		if (t - wk->cpu_seen_s >= SCH_SIM_STALL_S) {
+			wk->stalled = true;
+			kill(wk->pid, SIGKILL);
+		}
+	}
+}
+
+/* Reads all workers' pipes (records and stderr) until every one is closed, so that no worker blocks on a full pipe. */
 static enum sch_err drain_workers(struct sch_worker *wks, size_t n, struct sch_collect *c)
 {
-	struct pollfd pfd[SCH_SIM_MAX_WORKERS];
-	size_t open_count = n;
+	struct pollfd pfd[2 * SCH_SIM_MAX_WORKERS];
+	size_t owner[2 * SCH_SIM_MAX_WORKERS];
+	bool heard[SCH_SIM_MAX_WORKERS] = { false };
+	double last_check = now_s();
 
-	while (open_count > 0) {
+	for (size_t i = 0; i < n; i++) {
+		wks[i].cpu_ticks = -1;
+		wks[i].cpu_seen_s = last_check;
+	}
+	for (;;) {
 		size_t m = 0;
 		int r;
 
-		for (size_t i = 0; i < n; i++) {
-			if (wks[i].fd < 0)
-				continue;
-			pfd[m].fd = wks[i].fd;
-			pfd[m].events = POLLIN;
-			pfd[m].revents = 0;
-			m++;
+		if (now_s() - last_check >= 1.0) {
+			kill_stalled(wks, n, heard);
+			memset(heard, 0, sizeof(heard));
+			last_check = now_s();
 		}
-		r = poll(pfd, (nfds_t)m, -1);
+
+		for (size_t i = 0; i < n; i++) {
+			int fds[2] = { wks[i].fd, wks[i].err_fd };
+
+			for (size_t k = 0; k < 2; k++) {
+				if (fds[k] < 0)
+					continue;
+				pfd[m] = (struct pollfd){ .fd = fds[k], .events = POLLIN };
+				owner[m++] = i;
+			}
+		}
+		if (m == 0)
+			return SCH_OK;
+		r = poll(pfd, (nfds_t)m, 1000);
 		if (r < 0) {
 			if (errno == EINTR)
 				continue;
 			return SCH_ERR_SIM;
 		}
 		for (size_t j = 0; j < m; j++) {
-			struct sch_worker *wk = NULL;
+			struct sch_worker *wk = &wks[owner[j]];
 			bool eof = false;
 			enum sch_err err;
 
 			if (!pfd[j].revents)
 				continue;
-			for (size_t i = 0; i < n; i++)
-				if (wks[i].fd == pfd[j].fd)
-					wk = &wks[i];
+			heard[owner[j]] = true;
+			if (pfd[j].fd == wk->err_fd) {
+				read_worker_stderr(wk, &eof);
+				if (eof) {
+					close(wk->err_fd);
+					wk->err_fd = -1;
+				}
+				continue;
+			}
 			err = sch_sim_collect_read(wk, c, &eof);
 			if (err != SCH_OK)
 				return err;
+			if (wk->malformed && wk->pid > 0)
+				kill(wk->pid, SIGKILL); /* its stderr then closes too */
 			if (eof || wk->malformed) {
 				close(wk->fd);
 				wk->fd = -1;
-				open_count--;
 			}
 		}
 	}
-	return SCH_OK;
 }
 
 enum sch_err sch_sim_run(const struct sch_sim_request *req, struct sch_sim_result *res, struct sch_diag *d)
@@ -359,6 +740,8 @@ enum sch_err sch_sim_run(const struct sch_sim_request *req, struct sch_sim_resul
 
 	memset(res, 0, sizeof(*res));
 	memset(wks, 0, sizeof(wks));
+	for (size_t w = 0; w < SCH_SIM_MAX_WORKERS; w++)
+		wks[w].fd = wks[w].err_fd = -1;
 	ret = check_commands(req, d);
 	if (ret != SCH_OK)
 		goto out;
@@ -394,6 +777,7 @@ enum sch_err sch_sim_run(const struct sch_sim_request *req, struct sch_sim_resul
 		if (st && st->lines && (ret = build_deck(st->lines, st->n_lines, &decks[w], d)) != SCH_OK)
 			goto out;
 	}
+	make_session_dir();
 	ret = start_workers(req, decks, wks, n_wk, why, sizeof(why));
 	if (ret == SCH_OK)
 		ret = drain_workers(wks, n_wk, &c);
@@ -406,6 +790,9 @@ enum sch_err sch_sim_run(const struct sch_sim_request *req, struct sch_sim_resul
 	}
 	reap_workers(wks, n_wk);
 	res->version = version_from(&wks[0]);
+	ret = redact_workers(req, wks, n_wk);
+	if (ret != SCH_OK)
+		goto out;
 	ret = sch_sim_judge(res, wks, n_wk, &c, &failed);
 	if (ret != SCH_OK)
 		goto out;
@@ -422,6 +809,7 @@ out:
 	else if (c.hook_err == SCH_OK && ret == SCH_ERR_NOMEM)
 		sch_diag_error(d, SCH_ERR_NOMEM, NULL, 0, "simulator: out of memory");
 	release_workers(wks, n_wk);
+	remove_session_dir();
 	remove_data_dir(req->n_steps);
 	/* a density plot whose step never ended is left out, as if it had never started */
 	for (size_t s = 0; c.noise && res->steps && s < res->n_steps; s++)

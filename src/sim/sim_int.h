@@ -12,9 +12,12 @@
 #include <sys/types.h>
 
 #include "schrot/sim.h"
+#include "schrot/strmap.h"
 #include "wire.h"
 
 #define SCH_SIM_MAX_COMMAND 1000
+/* A worker's exit status when an allocation failed (its own, or the library's followed by a crash). */
+#define SCH_WORKER_EXIT_NOMEM 4
 
 /* ---- worker side (runs in the child) ---------------------------------------------------- */
 
@@ -60,6 +63,13 @@ void sch_worker_noise_clear(struct sch_worker_ctx *w);
 void sch_worker_send_noise_names(struct sch_worker_ctx *w);
 /* Reads the density plot of the data file at path and sends it; a bad file flags the step (worker_file.c). */
 void sch_worker_send_data_file(struct sch_worker_ctx *w, const char *path);
+/*
+ * In the worker: a SIGSEGV or SIGBUS after a failed allocation exits with SCH_WORKER_EXIT_NOMEM;
+ * other crashes stay crashes; SIGINT, SIGTERM and SIGHUP act as they do on the tool (the library
+ * would catch SIGINT and cut the analysis short). Called again after the library's start-up,
+ * which installs handlers of its own.
+ */
+void sch_sim_catch_crashes(void);
 /* The whole life of a worker process on steps [first, end), writing records to fd. Never returns. */
 void sch_sim_worker_main(const struct sch_sim_request *req, char **deck, size_t first, size_t end, int fd);
 
@@ -84,7 +94,21 @@ struct sch_worker {
 	uint32_t gave_up_step;      /* SCH_STEP_NONE: during set-up or load */
 	enum sch_phase gave_up_phase;
 	int status;                 /* from waitpid; -1 when unknown */
+	int err_fd;                 /* the read end of the worker's stderr, -1 once closed */
+	char err_text[512];         /* the first line the worker wrote to stderr, blanks folded */
+	size_t err_len;
+	bool err_line_done;         /* err_text holds a whole line: the rest is read and dropped */
+	long long cpu_ticks;        /* the worker's CPU time when last looked at, -1 unknown */
+	double cpu_seen_s;          /* monotonic time since when cpu_ticks has not moved */
+	bool stalled;               /* killed after SCH_SIM_STALL_S without CPU time or output */
 };
+
+/*
+ * A worker that neither writes nor uses CPU time for this long is stuck for good: the library
+ * takes a lock again when an allocation fails inside a locked section. It is killed and its run
+ * fails; a working worker is always either computing or writing.
+ */
+#define SCH_SIM_STALL_S 20.0
 
 /*
  * A step's density plot while its rows arrive, transposed straight into the outcome's vectors:
@@ -128,7 +152,32 @@ char *sch_sim_judge_text(const struct sch_worker *wk, enum sch_phase phase, uint
 enum sch_err sch_sim_judge(struct sch_sim_result *res, struct sch_worker *wks, size_t n_wk,
 			   struct sch_collect *c, bool *failed);
 
+/* ---- keeping included text out of messages (redact.c) ---------------------------------- */
+
+struct sch_redact {
+	bool active;               /* the request marks private lines: texts are checked */
+	struct sch_strmap words;   /* lower-cased deck word -> 1 only in private lines, 2 elsewhere too */
+	char *text;                /* the keys' storage */
+};
+
+/* Learns the words of req's deck. SCH_ERR_NOMEM leaves r for sch_redact_release. */
+enum sch_err sch_redact_init(struct sch_redact *r, const struct sch_sim_request *req);
+/*
+ * A copy of text with every word only private lines hold replaced by "…" (numbers and the words
+ * "error", "warning", "on", "line" are kept), or NULL when nothing is replaced (*changed false)
+ * or memory ran out (*changed true). The caller owns the copy.
+ */
+char *sch_redact_text(const struct sch_redact *r, const char *text, bool *changed);
+void sch_redact_release(struct sch_redact *r);
+
 /* ---- shared by both sides (run.c) ------------------------------------------------------- */
+
+/*
+ * The run's private directory ($TMPDIR/schrot-sim-XXXXXX, "" when there is none), made by the
+ * tool before it forks and registered for removal on a signal: each worker makes the directory it
+ * starts the library in inside it, so a worker killed while starting leaves nothing elsewhere.
+ */
+extern char sch_sim_session_dir[];
 
 /* A character the simulator's command language would interpret. */
 bool sch_sim_command_char_is_bad(unsigned char c);

@@ -431,7 +431,7 @@ static void worker_load_codemodels(const struct sch_sim_request *req)
 /* Starts the library with no start-up script able to run (NGSPICE-NOTES.md section 5). */
 static bool worker_init_library(struct sch_worker_ctx *w)
 {
-	const char *tmp = getenv("TMPDIR");
+	const char *tmp = sch_sim_session_dir[0] ? sch_sim_session_dir : getenv("TMPDIR");
 	char dir[PATH_MAX];
 	char initfile[PATH_MAX + 16];
 	char cwd[PATH_MAX];
@@ -668,6 +668,7 @@ void sch_sim_worker_main(const struct sch_sim_request *req, char **deck, size_t 
 		_exit(4);
 	if (!worker_init_library(&w))
 		goto done;
+	sch_sim_catch_crashes();
 	worker_load_codemodels(req);
 	if (req->squared_noise)
 		worker_command(&w, "set sqrnoise");
