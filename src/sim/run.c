@@ -234,9 +234,15 @@ static enum sch_err check_commands(const struct sch_sim_request *req, struct sch
 	return SCH_OK;
 }
 
+/*
+ * Cards that could run commands or write files, matched the way the simulator matches them (a
+ * case-insensitive prefix after blanks). The deck reader's allow-list drops them first; this is
+ * the second line, for any deck that reaches a worker.
+ */
 static bool line_runs_commands(const char *s)
 {
-	static const char *const prefixes[] = { ".control", ".endc", "*#", ".inc", ".lib", "*ng_script" };
+	static const char *const prefixes[] = { ".control", ".endc", "*#", ".inc", ".lib", "*ng_script", ".title",
+						".meas", ".csparam" };
 
 	for (size_t i = 0; i < sizeof(prefixes) / sizeof(prefixes[0]); i++)
 		if (sch_sim_starts_ci(s, prefixes[i]))
@@ -275,8 +281,8 @@ static enum sch_err build_deck(const char *const *lines, size_t n_lines, char **
 		}
 		if (line_runs_commands(line)) {
 			sch_diag_report(d, SCH_WARNING, NULL, 0,
-					"simulator: dropped deck line %zu '%.40s': netlists may not run commands",
-					i + 1, line);
+					"simulator: dropped deck line %zu: a card that could run commands or write files",
+					i + 1);
 			in_control = sch_sim_starts_ci(line, ".control");
 			continue;
 		}

@@ -432,6 +432,7 @@ static void worker_load_codemodels(const struct sch_sim_request *req)
 static bool worker_init_library(struct sch_worker_ctx *w)
 {
 	const char *tmp = sch_sim_session_dir[0] ? sch_sim_session_dir : getenv("TMPDIR");
+	bool stay = sch_sim_session_dir[0] != '\0'; /* the tool removes the session directory whole */
 	char dir[PATH_MAX];
 	char initfile[PATH_MAX + 16];
 	char cwd[PATH_MAX];
@@ -468,7 +469,12 @@ static bool worker_init_library(struct sch_worker_ctx *w)
 		ngSpice_Init(worker_on_char, NULL, worker_on_exit, NULL, NULL, NULL, w);
 	else
 		ngSpice_Init(worker_on_char, NULL, worker_on_exit, worker_on_data, worker_on_init_data, NULL, w);
-	if ((cwd_fd >= 0 ? fchdir(cwd_fd) : chdir(cwd)) != 0) {
+	/*
+	 * Inside the run's private directory the worker stays where it started: files the library
+	 * writes on its own (BSIM3/SOI model checks write "*check.log" into the working directory)
+	 * land there and go with the directory, never beside the user's netlist.
+	 */
+	if (!stay && (cwd_fd >= 0 ? fchdir(cwd_fd) : chdir(cwd)) != 0) {
 		snprintf(reason, sizeof(reason), "cannot return to the working directory: %s", strerror(errno));
 		goto out;
 	}
@@ -479,7 +485,8 @@ out:
 	if (cwd_fd >= 0)
 		close(cwd_fd);
 	unlink(initfile);
-	rmdir(dir);
+	if (!stay || !ok)
+		rmdir(dir);
 	if (!ok)
 		sch_wire_send_text(&w->out, SCH_REC_FATAL, reason);
 	return ok;

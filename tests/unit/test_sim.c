@@ -485,6 +485,18 @@ static void test_sim__ng_script_title_is_replaced(void)
 	check_deck_cannot_run_commands(late, N_OF(late), true);
 }
 
+/* Second line behind the reader's allow-list: a script title by .title, and measurements that write files. */
+static void test_sim__title_and_meas_cards_are_dropped(void)
+{
+	static const char *const title[] = { "title card", "v1 in 0 1", "r1 in 0 1k", ".TITLE *ng_script", "shell touch MARKER",
+					     ".end" };
+	static const char *const meas[] = { "meas card", "v1 in 0 1", "r1 in 0 1k", ".options measoutfile=MARKER",
+					    ".meas(op) x find v(in)", " .measure op y find v(in)", ".end" };
+
+	check_deck_cannot_run_commands(title, N_OF(title), true);
+	check_deck_cannot_run_commands(meas, N_OF(meas), true);
+}
+
 static void test_sim__include_and_lib_lines_are_dropped(void)
 {
 	struct scratch s;
@@ -652,7 +664,7 @@ CHECK_MAIN(CASE(test_sim__divider_current_obeys_ohms_law),
 	   CASE(test_sim__control_block_in_lines_is_dropped),
 	   CASE(test_sim__star_hash_line_is_dropped),
 	   CASE(test_sim__ng_script_title_is_replaced),
-	   CASE(test_sim__include_and_lib_lines_are_dropped),
+	   CASE(test_sim__include_and_lib_lines_are_dropped), CASE(test_sim__title_and_meas_cards_are_dropped),
 	   CASE(test_sim__commands_with_special_characters_are_refused),
 	   CASE(test_sim__overlong_command_is_refused),
 	   CASE(test_sim__name_is_safe_accepts_only_the_whitelist),
