@@ -70,6 +70,12 @@ void sch_worker_send_data_file(struct sch_worker_ctx *w, const char *path);
  * which installs handlers of its own.
  */
 void sch_sim_catch_crashes(void);
+/*
+ * In a freshly forked worker (parent: the tool's pid): the run's budget as resource limits, no
+ * core file, death with the tool, the tool's crash handlers reset (limits.c). Exits when the tool
+ * is already gone; otherwise can't fail (a limit that cannot be set is left as it was).
+ */
+void sch_sim_worker_process_setup(pid_t parent);
 /* The whole life of a worker process on steps [first, end), writing records to fd. Never returns. */
 void sch_sim_worker_main(const struct sch_sim_request *req, char **deck, size_t first, size_t end, int fd);
 
