@@ -37,6 +37,10 @@ import shutil
 import subprocess
 import tempfile
 
+# The wrapper runs schrot under stdbuf, which preloads a library: a sanitizer build must not take
+# that preload for a wrong link order (the only effect of this setting).
+ASAN = ":".join(x for x in (os.environ.get("ASAN_OPTIONS", ""), "verify_asan_link_order=0") if x)
+
 from schrot_check import SCHROT, fail, true, finish
 
 ROOT = os.path.abspath(os.path.join(os.path.dirname(os.path.abspath(__file__)), "..", ".."))
@@ -117,7 +121,7 @@ def run_block(d, b, steps):
     for cmd, _ in steps:
         script.append(cmd)
         script.append("__rc=$?; printf '%s\\n'; (exit $__rc)" % MARK)
-    env = dict(os.environ, PATH=b + os.pathsep + os.environ.get("PATH", ""), LC_ALL="C.UTF-8")
+    env = dict(os.environ, PATH=b + os.pathsep + os.environ.get("PATH", ""), LC_ALL="C.UTF-8", ASAN_OPTIONS=ASAN)
     proc = subprocess.run(["bash", "-c", "\n".join(script)], capture_output=True, text=True,
                           timeout=600, env=env)
     text = proc.stdout.replace(os.path.realpath(d) + "/", "").replace(d + "/", "")
@@ -195,7 +199,7 @@ def man_examples():
             cmds.append(line[3:].replace("\\-", "-").replace("\\e", "\\"))
     true("man page has examples", len(cmds) > 0)
     d, b = scratch()
-    env = dict(os.environ, PATH=b + os.pathsep + os.environ.get("PATH", ""))
+    env = dict(os.environ, PATH=b + os.pathsep + os.environ.get("PATH", ""), ASAN_OPTIONS=ASAN)
     for cmd in cmds:
         p = subprocess.run(["bash", "-c", cmd], cwd=d, capture_output=True, text=True, timeout=600, env=env)
         true("schrot.1 example runs: %s" % cmd, p.returncode in (0, 1), "exit %d\n%s" % (p.returncode, p.stderr))
