@@ -75,10 +75,11 @@ static bool path_char_is_odd(char c)
 
 /*
  * Reads the data file at path (checked: regular, within the caps) and keeps its text so that the
- * simulator's messages can leave it out. On failure the message names the path and the reason.
+ * simulator's messages can leave it out. On failure the message names the path as the netlist gave
+ * it (shown, resolved like an include) and the reason.
  */
 static enum sch_err read_data_file(struct sch_deck_load *ld, const char *file, long line, const char *what,
-				   const char *path)
+				   const char *path, const char *shown)
 {
 	size_t used = ld->total_bytes ? *ld->total_bytes : 0;
 	size_t left = used < DECK_MAX_TOTAL ? DECK_MAX_TOTAL - used : 0;
@@ -92,9 +93,9 @@ static enum sch_err read_data_file(struct sch_deck_load *ld, const char *file, l
 		if (err_no == EFBIG && limit < DECK_MAX_FILE)
 			return sch_diag_error(ld->d, SCH_ERR_INPUT, file, line,
 					      "the netlist, its includes and data files hold more than %zu bytes in all (at '%s')",
-					      DECK_MAX_TOTAL, path);
+					      DECK_MAX_TOTAL, shown);
 		return sch_diag_error(ld->d, SCH_ERR_INPUT, file, line, err_no == EISDIR ?
-				      "%s data file '%s' is a directory%s" : "cannot open %s data file '%s': %s", what, path,
+				      "%s data file '%s' is a directory%s" : "cannot open %s data file '%s': %s", what, shown,
 				      err_no == EISDIR ? "" : sch_deck_errno_text(err_no, why, sizeof(why)));
 	}
 	if (ret != SCH_OK)
@@ -169,7 +170,7 @@ enum sch_err sch_deck_code_model_file(struct sch_deck_load *ld, const char *file
 				     what);
 		goto out;
 	}
-	ret = read_data_file(ld, file, line, what, real);
+	ret = read_data_file(ld, file, line, what, real, joined);
 	if (ret != SCH_OK)
 		goto out;
 	*text = sch_arena_printf(&ld->deck->arena, "%.*s\"%s\"%s", (int)vb, t, real, t + ve);
