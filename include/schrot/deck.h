@@ -100,6 +100,12 @@ struct sch_deck {
 	size_t n_models;
 	const char **files;          /* every file read, top first, each once (for make depfiles) */
 	size_t n_files;
+	/*
+	 * Text of the data files code models read (table2d, d_source, ...; their .model cards carry the
+	 * absolute path): never quoted, kept so that the simulator's messages can leave it out.
+	 */
+	const char **data_texts;
+	size_t n_data_texts;
 	struct sch_noise_spec noise;
 	int n_dropped_control;       /* .control blocks skipped */
 	int n_dropped_script;        /* '*#' lines skipped */

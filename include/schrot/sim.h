@@ -35,6 +35,9 @@ struct sch_sim_request {
 	 * on (failure reasons, notes, messages), so included text never reaches a message.
 	 */
 	const bool *private_lines;
+	/* Text of the data files code models read (never in lines): every word only they hold is left out too. */
+	const char *const *private_texts;
+	size_t n_private_texts;
 	const struct sch_sim_step *steps;
 	size_t n_steps;
 	const char *const *quantities; /* read after each step, e.g. "@i.x1.iph[current]", "@d.x1.d1[vd]" */
@@ -186,5 +189,12 @@ enum sch_err sch_sim_read_spiceinit(const char *netlist, struct sch_arena *arena
 
 /* True when name consists only of [a-z0-9_.#+-] characters and is 1..200 bytes long. */
 bool sch_sim_name_is_safe(const char *name);
+
+/*
+ * Whether a path may reach the simulator (a command, or a code model's data file named in a
+ * .model card): no quotes, backquotes, blanks, backslashes, ';', '$', '>', '<', '|', '&', '~' or
+ * control bytes, and short enough for a command line. This function can't fail.
+ */
+bool sch_sim_path_is_command_safe(const char *p);
 
 #endif

@@ -113,6 +113,8 @@ enum sch_err sch_analysis_build_request(struct sch_analysis *an)
 	req->private_lines = private_lines_of(an->res, &an->aug);
 	if (!req->private_lines)
 		return SCH_ERR_NOMEM;
+	req->private_texts = an->res->deck.data_texts;
+	req->n_private_texts = an->res->deck.n_data_texts;
 	req->steps = an->steps;
 	req->n_steps = an->n_steps;
 	if (an->lump.quiet && (ret = add_lump_step(an)) != SCH_OK)

@@ -243,6 +243,7 @@ static enum sch_err model_card(struct sch_deck_load *ld, const char *file, long 
 {
 	struct sch_model *m;
 	size_t type_len;
+	enum sch_err ret;
 
 	if (n < 3 || t[2][0] == '(')
 		return sch_diag_error(ld->d, SCH_ERR_INPUT, file, line, "'.model' needs a name and a type");
@@ -255,6 +256,8 @@ static enum sch_err model_card(struct sch_deck_load *ld, const char *file, long 
 	if (!m->type)
 		return SCH_ERR_NOMEM;
 	m->level = model_level(t, n);
+	if ((ret = sch_deck_code_model_file(ld, file, line, m->type, &text)) != SCH_OK)
+		return ret;
 	m->card = (int)ld->n_cards;
 	m->subckt = ld->n_open ? ld->open[ld->n_open - 1] : -1;
 	ld->n_models++;

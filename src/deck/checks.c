@@ -175,24 +175,23 @@ out:
 }
 
 /*
- * Code models that read a file the netlist names (or, in later ngspice, start a process or load a
- * library). The worker loads the standard code-model libraries, so A devices run; these stay out,
- * because netlist text must never make the simulator read or run what the netlist names.
+ * Code models that start a program or load a library the netlist names (ngspice's d_process,
+ * d_cosim). The worker loads the standard code-model libraries, so A devices run; these stay out,
+ * because netlist text must never make the simulator run what the netlist names. Code models that
+ * read a data file get it checked and as an absolute path instead (datafile.c).
  */
-static const char *const file_code_models[] = {
-	"filesource", "d_source", "d_state", "table2d", "table3d", "d_process", "d_cosim",
-};
+static const char *const program_code_models[] = { "d_process", "d_cosim" };
 
 static enum sch_err check_code_models(struct sch_deck_load *ld)
 {
 	for (size_t i = 0; i < ld->n_models; i++) {
 		const struct sch_card *c = &ld->cards[ld->models[i].card];
 
-		for (size_t k = 0; k < sizeof(file_code_models) / sizeof(file_code_models[0]); k++)
-			if (strcasecmp(ld->models[i].type, file_code_models[k]) == 0)
+		for (size_t k = 0; k < sizeof(program_code_models) / sizeof(program_code_models[0]); k++)
+			if (strcasecmp(ld->models[i].type, program_code_models[k]) == 0)
 				return sch_diag_error(ld->d, SCH_ERR_INPUT, c->file, c->line,
-						      "code model '%s' reads a file or starts a program the netlist names; "
-						      "schrot never lets the simulator do that", file_code_models[k]);
+						      "code model '%s' starts a program or loads a library the netlist names; "
+						      "schrot never lets the simulator do that", program_code_models[k]);
 	}
 	return SCH_OK;
 }
@@ -301,13 +300,15 @@ enum sch_err sch_deck_load_finish(struct sch_deck_load *ld)
 	deck->elements = ld->n_elements ? ld->elements : NULL;
 	if (move_to_arena(a, (void **)&deck->subckts, ld->subckts, ld->n_subckts, sizeof(*ld->subckts)) != SCH_OK ||
 	    move_to_arena(a, (void **)&deck->models, ld->models, ld->n_models, sizeof(*ld->models)) != SCH_OK ||
-	    move_to_arena(a, (void **)&deck->files, ld->files, ld->n_files, sizeof(*ld->files)) != SCH_OK)
+	    move_to_arena(a, (void **)&deck->files, ld->files, ld->n_files, sizeof(*ld->files)) != SCH_OK ||
+	    move_to_arena(a, (void **)&deck->data_texts, ld->data_texts, ld->n_data_texts, sizeof(*ld->data_texts)) != SCH_OK)
 		return SCH_ERR_NOMEM;
 	deck->n_cards = ld->n_cards;
 	deck->n_elements = ld->n_elements;
 	deck->n_subckts = ld->n_subckts;
 	deck->n_models = ld->n_models;
 	deck->n_files = ld->n_files;
+	deck->n_data_texts = ld->n_data_texts;
 	return SCH_OK;
 }
 
@@ -317,6 +318,7 @@ void sch_deck_load_release(struct sch_deck_load *ld)
 	free(ld->models);
 	free(ld->files);
 	free(ld->file_ids);
+	free(ld->data_texts);
 	free(ld->open);
 	free(ld->tok_off);
 	free(ld->scratch);

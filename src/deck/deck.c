@@ -15,9 +15,7 @@
 #include <unistd.h>
 #include "deck_int.h"
 
-#define DECK_MAX_FILE ((size_t)1 << 30) /* a netlist file larger than this is refused */
 #define DECK_MAX_OPENS 10000            /* include/library reads per deck: bounds fan-out, not depth */
-#define DECK_MAX_TOTAL ((size_t)1 << 30) /* bytes of all files read for one netlist together */
 
 enum src_mode { SRC_TOP, SRC_INCLUDE, SRC_LIB };
 
@@ -721,6 +719,7 @@ enum sch_err sch_deck_load_text(struct sch_deck *deck, const char *name, const c
 	top.mode = SRC_TOP;
 	top.state = ST_CARDS;
 	r.total_bytes = len < DECK_MAX_TOTAL ? len : DECK_MAX_TOTAL;
+	r.ld.total_bytes = &r.total_bytes;
 	if (note_file(&r, top.path, top.id) != SCH_OK)
 		goto out;
 	r.stack[r.depth++] = &top;

@@ -15,6 +15,8 @@
 #include "schrot/pattern.h"
 
 /* Hierarchies that expand to more instances than this are refused (exponential fan-out). */
+#define DECK_MAX_FILE ((size_t)1 << 30)  /* a netlist (or code-model data) file larger than this is refused */
+#define DECK_MAX_TOTAL ((size_t)1 << 30) /* bytes of all files read for one netlist together */
 #define SCH_MAX_INSTANCES ((size_t)1 << 22)
 
 /* Name -> int multimap with separate chaining; keys are borrowed, never copied. */
@@ -115,6 +117,9 @@ struct sch_deck_load {
 	size_t *tok_off;
 	size_t n_tok, a_tok;
 	bool noise_seen;
+	size_t *total_bytes;   /* the reader's count of bytes read (all files, data files of code models too) */
+	const char **data_texts; /* text of the data files code models read (malloc'd vector, texts in the arena) */
+	size_t n_data_texts, a_data_texts;
 	struct sch_control_scan control;
 	struct sch_pattern *re_control, *re_include, *re_lib;
 };
@@ -142,6 +147,18 @@ static inline bool has_prefix(const char *s, const char *prefix)
 {
 	return strncmp(s, prefix, strlen(prefix)) == 0;
 }
+
+/*
+ * A .model card of a code model that reads a data file the netlist names (filesource, d_source,
+ * d_state, table2d, table3d, xfer): resolves the file parameter relative to file (the netlist file
+ * holding the card, as .include does), checks that it is a readable regular file within the size
+ * caps (its bytes count against the cap on all text read) and that its absolute path passes the
+ * simulator's path whitelist, and replaces *text (in the arena) by the card with that absolute
+ * path in double quotes. Any other type: unchanged, SCH_OK. SCH_ERR_INPUT with a message at
+ * file:line naming the path but never the file's text; SCH_ERR_NOMEM.
+ */
+enum sch_err sch_deck_code_model_file(struct sch_deck_load *ld, const char *file, long line, const char *type,
+				      const char **text);
 
 /* Longest piece of a netlist token quoted in a message, bytes (a 1 MB token gives a short message). */
 #define SCH_DECK_QUOTE_MAX 64

@@ -70,16 +70,22 @@ enum sch_err sch_redact_init(struct sch_redact *r, const struct sch_sim_request 
 	sch_strmap_init(&r->words);
 	for (size_t i = 0; req->private_lines && i < req->n_lines; i++)
 		any = any || req->private_lines[i];
+	any = any || req->n_private_texts;
 	if (!any)
 		return SCH_OK;
 	for (size_t i = 0; i < req->n_lines; i++)
 		total += req->lines[i] ? strlen(req->lines[i]) : 0;
+	for (size_t i = 0; i < req->n_private_texts; i++)
+		total += strlen(req->private_texts[i]);
 	r->text = malloc(total + 1);
 	if (!r->text)
 		return SCH_ERR_NOMEM;
 	r->active = true;
 	for (size_t i = 0; i < req->n_lines; i++)
-		if (req->lines[i] && add_words(r, req->lines[i], req->private_lines[i], &used) != SCH_OK)
+		if (req->lines[i] && add_words(r, req->lines[i], req->private_lines && req->private_lines[i], &used) != SCH_OK)
+			return SCH_ERR_NOMEM;
+	for (size_t i = 0; i < req->n_private_texts; i++)
+		if (add_words(r, req->private_texts[i], true, &used) != SCH_OK)
 			return SCH_ERR_NOMEM;
 	return SCH_OK;
 }

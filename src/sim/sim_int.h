@@ -187,8 +187,6 @@ extern char sch_sim_session_dir[];
 
 /* A character the simulator's command language would interpret. */
 bool sch_sim_command_char_is_bad(unsigned char c);
-/* A path may go into a command only if the command language cannot read anything into it. */
-bool sch_sim_path_is_command_safe(const char *p);
 /* The data file of a step in the run's private directory; false when there is none or it is unsafe. */
 bool sch_sim_data_file_path(size_t step, char *out, size_t size);
 

@@ -222,4 +222,32 @@ for label, extra in (("an .include of /etc/passwd", ".include /etc/passwd"),
          "/bin/" not in err, err)
     true("[S] %s gives one line on stderr" % label, len(err.splitlines()) == 1, err)
 
+
+# 8. code models that read a data file the netlist names: the file is checked like an include and
+#    reaches the simulator only as an absolute path free of command characters
+TABLE2D = ('apd a 0 %id(0 a) resp\n'
+           '.model resp table2d (offset=0.0 gain=1.0 order=2 file="{name}")\n')
+TABLE = "* invented\n2\n2\n0 1\n0 1\n0 1e-9\n0 1e-9\n"
+for label, name in (("a backquote", "t`touch pwned_0`.table"), ("a ';' and a shell word", "t;shell touch pwned_0.table"),
+                    ("a '$' variable", "t$HOME.table"), ("a '>' redirection", "t>pwned_0.table")):
+    attempt("a code model's data file named with %s" % label,
+            {"input.cir": deck(TABLE2D.format(name=name)), name: TABLE}, rc=(2,))
+attempt("a code model's data file that is a device", {"input.cir": deck(TABLE2D.format(name="/dev/zero"))}, rc=(2,))
+attempt("a code model's data file holding simulator commands",
+        {"input.cir": deck(TABLE2D.format(name="cmds.table")), "cmds.table": ".control\n{s0}\n.endc\n*#{s0}\n"},
+        rc=(0, 2, 3))  # read as (bad) numbers by the model, or refused: never run as commands
+d = tempfile.mkdtemp(prefix="schrot-sec-")
+with open(os.path.join(d, "input.cir"), "w") as f:
+    f.write(deck(TABLE2D.format(name="pipe.table")))
+os.mkfifo(os.path.join(d, "pipe.table"))
+try:
+    proc = subprocess.run([SCHROT, "carriers", "input.cir"], cwd=d, capture_output=True, text=True, timeout=30)
+    true("[S] a code model's data file that is a FIFO fails at once (exit 2, not a hang)", proc.returncode == 2,
+         proc.stderr)
+except subprocess.TimeoutExpired:
+    true("[S] a code model's data file that is a FIFO fails at once (exit 2, not a hang)", False, "timed out")
+shutil.rmtree(d, ignore_errors=True)
+attempt("a d_process code model", {"input.cir": deck('.model p d_process (process_file="/bin/sh")')}, rc=(2,))
+attempt("a d_cosim code model", {"input.cir": deck('.model c d_cosim simulation="./x.so"')}, rc=(2,))
+
 finish()

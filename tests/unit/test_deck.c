@@ -1133,6 +1133,79 @@ static void test_deck__keeps_crlf_tabs_and_control_bytes_in_comments(void)
 	sch_deck_release(&deck);
 }
 
+/*
+ * A code model's data file is found beside the file holding its .model card (as .include finds
+ * files), its card carries the absolute path afterwards, its text is kept for the simulator's
+ * redaction, and a FIFO, a missing name or a missing parameter is refused at the line.
+ */
+static void test_deck__code_model_data_file_becomes_an_absolute_path(void)
+{
+	char dir[] = "/tmp/schrot-test-deck-XXXXXX";
+	char sub[64], table[64], fifo[64], top[64], want[128];
+	const char *card = NULL;
+	struct sch_deck deck;
+	FILE *f;
+
+	CHECK(mkdtemp(dir) != NULL);
+	snprintf(sub, sizeof(sub), "%s/lib", dir);
+	snprintf(table, sizeof(table), "%s/lib/resp.table", dir);
+	snprintf(fifo, sizeof(fifo), "%s/lib/pipe.table", dir);
+	snprintf(top, sizeof(top), "%s/lib/top.cir", dir);
+	CHECK(mkdir(sub, 0700) == 0);
+	CHECK(mkfifo(fifo, 0600) == 0);
+	f = fopen(table, "w");
+	CHECK(f != NULL);
+	if (f) {
+		fputs("* invented\n2\n2\n0 1\n0 1\n0 1\n0 1\n", f);
+		fclose(f);
+	}
+	f = fopen(top, "w");
+	CHECK(f != NULL);
+	if (f) {
+		fputs("t\na1 x y %id(k 0) resp\nr1 x 0 1k\nr2 y 0 1k\nr3 k 0 1k\n"
+		      ".model resp table2d (order=2 FILE = resp.table gain=1)\n", f);
+		fclose(f);
+	}
+	sch_deck_init(&deck);
+	sch_diag_init(&diag, NULL, 0);
+	CHECK(sch_deck_load(&deck, top, &diag) == SCH_OK);
+	for (size_t i = 0; i < deck.n_cards; i++)
+		if (deck.cards[i].keyword && strcmp(deck.cards[i].keyword, ".model") == 0)
+			card = deck.cards[i].text;
+	snprintf(want, sizeof(want), ".model resp table2d (order=2 FILE = \"%s\" gain=1)", table);
+	CHECK(card && strcmp(card, want) == 0);
+	CHECK(deck.n_data_texts == 1 && strstr(deck.data_texts[0], "invented") != NULL);
+	sch_deck_release(&deck);
+	/* resolved beside the netlist (INLINE_NAME is data/deck/inline.cir), not in the working directory */
+	expect_error("t\n.model m d_source (input_file=\"no-such-stimulus.txt\")\n",
+		     INLINE_NAME ":2: cannot open code model 'd_source' data file 'data/deck/no-such-stimulus.txt': no such file or directory");
+	expect_error("t\n.model m filesource (amploffset=[0])\n",
+		     INLINE_NAME ":2: code model 'filesource' needs its 'file' parameter: without it the simulator would read a file of a "
+		     "default name from wherever it runs");
+	expect_error("t\n.model m table3d (file=\"a\" file=\"b\")\n",
+		     INLINE_NAME ":2: code model 'table3d' gives its 'file' parameter more than once");
+	expect_error("t\n.model m table2d (file={name})\n",
+		     INLINE_NAME ":2: code model 'table2d': its 'file' parameter must be a plain file name, not an expression");
+	f = fopen(top, "w");
+	CHECK(f != NULL);
+	if (f) {
+		fputs("t\nr1 a 0 1k\n.model resp table2d (file=\"pipe.table\")\n", f);
+		fclose(f);
+	}
+	sch_deck_init(&deck);
+	sch_diag_init(&diag, NULL, 0);
+	/* opened non-blocking: a FIFO nobody writes is an error at once, not a hang */
+	CHECK(sch_deck_load(&deck, top, &diag) == SCH_ERR_INPUT);
+	CHECK(strstr(diag.first_error, ":3: cannot open code model 'table2d' data file '") != NULL);
+	CHECK(strstr(diag.first_error, "pipe.table': not a regular file") != NULL);
+	sch_deck_release(&deck);
+	remove(fifo);
+	remove(table);
+	remove(top);
+	rmdir(sub);
+	rmdir(dir);
+}
+
 static void test_deck__include_of_a_fifo_fails_at_once(void)
 {
 	char dir[] = "/tmp/schrot-test-deck-XXXXXX";
@@ -1571,6 +1644,7 @@ CHECK_MAIN(CASE(test_deck__joins_plus_continuation_lines), CASE(test_deck__drops
 	   CASE(test_deck__rejects_control_characters_in_card_text),
 	   CASE(test_deck__keeps_crlf_tabs_and_control_bytes_in_comments),
 	   CASE(test_deck__include_of_a_fifo_fails_at_once),
+	   CASE(test_deck__code_model_data_file_becomes_an_absolute_path),
 	   CASE(test_deck__rejects_noise_output_at_a_node_nothing_touches),
 	   CASE(test_deck__rejects_current_source_without_dc_path),
 	   CASE(test_deck__quotes_are_short_and_never_from_included_files),

@@ -35,6 +35,36 @@ static void test_sim_judge__unknown_model_fails_with_one_line(void)
 	sch_sim_result_release(&res);
 }
 
+/*
+ * A code model's data file never reaches a message: a word that only the data file holds is left
+ * out of every reason the session passes on ("valid" below: the simulator's own reason holds it,
+ * the deck does not), while the deck's own words (the model name) stay.
+ */
+static void test_sim_judge__words_of_data_files_are_left_out_of_reasons(void)
+{
+	static const char *const deck[] = { "data words", "v1 a 0 1", "d1 a 0 nosuchmodel", ".end" };
+	static const char *const data[] = { "* invented bias table\nvalid 0.50 0.52\n" };
+	struct sch_sim_request req = {
+		.lines = deck, .n_lines = N_OF(deck), .steps = op_step, .n_steps = 1, .n_workers = 1,
+		.private_texts = data, .n_private_texts = 1,
+	};
+	struct sch_sim_result res;
+	struct sch_diag d;
+
+	/* the control: without the data file the reason reads "could not find a valid modelname" */
+	CHECK(run_deck(deck, N_OF(deck), op_step, 1, NULL, 0, false, &res, &d) == SCH_ERR_SIM);
+	CHECK(res.failure && strstr(res.failure, "a valid modelname") != NULL);
+	sch_sim_result_release(&res);
+	sch_diag_init(&d, NULL, 0);
+	CHECK(sch_sim_run(&req, &res, &d) == SCH_ERR_SIM);
+	check_sim_failure(&res, &d);
+	CHECK(res.failure && strstr(res.failure, "valid") == NULL);
+	CHECK(res.failure && strstr(res.failure, "a \xe2\x80\xa6 modelname") != NULL);
+	CHECK(res.failure && strstr(res.failure, "nosuchmodel") != NULL);
+	CHECK(strstr(d.first_error, "valid") == NULL);
+	sch_sim_result_release(&res);
+}
+
 static void test_sim_judge__numparam_error_gives_up_and_next_run_works(void)
 {
 	static const char *const deck[] = { "numparam", ".param a={1+}", "v1 a 0 1", "r1 a 0 1k", ".end" };
@@ -151,6 +181,7 @@ static void test_sim_judge__failed_step_does_not_hide_later_steps(void)
 }
 
 CHECK_MAIN(CASE(test_sim_judge__unknown_model_fails_with_one_line),
+	   CASE(test_sim_judge__words_of_data_files_are_left_out_of_reasons),
 	   CASE(test_sim_judge__numparam_error_gives_up_and_next_run_works),
 	   CASE(test_sim_judge__quit_command_gives_up),
 	   CASE(test_sim_judge__parallel_voltage_sources_fail),
