@@ -13,8 +13,7 @@
 #include "schrot/report.h"
 #include "report_int.h"
 
-/* Writes s as one field, quoted when it holds a comma, quote or line break. */
-static void put_field(FILE *fp, const char *s)
+void sch_report_csv_field(FILE *fp, const char *s)
 {
 	if (!s)
 		s = "";
@@ -78,13 +77,13 @@ enum sch_err sch_report_csv(const struct sch_result *r, const char *path, struct
 	fputs("\n", fp);
 	for (size_t i = 0; i < r->n_contributions; i++) {
 		const struct sch_contribution *c = &r->contributions[i];
-		put_field(fp, c->device);
+		sch_report_csv_field(fp, c->device);
 		fputc(',', fp);
-		put_field(fp, c->generator);
+		sch_report_csv_field(fp, c->generator);
 		fputc(',', fp);
-		put_field(fp, sch_mechanism_name(c->mechanism));
+		sch_report_csv_field(fp, sch_mechanism_name(c->mechanism));
 		fputc(',', fp);
-		put_field(fp, sch_origin_name(c->origin));
+		sch_report_csv_field(fp, sch_origin_name(c->origin));
 		fputc(',', fp);
 		put_num(fp, c->dc_current_a);
 		fputc(',', fp);
@@ -120,7 +119,7 @@ enum sch_err sch_report_spectrum(const struct sch_result *r, const char *path, i
 		sch_report_label(&r->contributions[i], label, sizeof(label));
 		snprintf(head, sizeof(head), "%s [V/rtHz]", label);
 		fputc(',', fp);
-		put_field(fp, head);
+		sch_report_csv_field(fp, head);
 	}
 	fprintf(fp, ",rest [V/rtHz],transfer [%s]\n", sch_report_transfer_unit(r));
 	for (size_t k = 0; k < r->n_freq; k++) {

@@ -251,24 +251,6 @@ out:
 	return ret;
 }
 
-/* A CSV field: quoted when it holds a comma, quote or line break. */
-static void csv_text(FILE *fp, const char *s)
-{
-	if (!s)
-		s = "";
-	if (!strpbrk(s, ",\"\r\n")) {
-		fputs(s, fp);
-		return;
-	}
-	fputc('"', fp);
-	for (; *s; s++) {
-		if (*s == '"')
-			fputc('"', fp);
-		fputc(*s, fp);
-	}
-	fputc('"', fp);
-}
-
 static void csv_num(FILE *fp, double x, char sep)
 {
 	if (isfinite(x))
@@ -291,9 +273,9 @@ enum sch_err sch_report_levers_csv(const struct sch_result *r, const struct sch_
 	for (size_t k = 0; k < lv->n_levers; k++) {
 		const struct sch_lever *l = &lv->levers[k];
 		fprintf(o.fp, "%zu,", k + 1);
-		csv_text(o.fp, l->device);
+		sch_report_csv_field(o.fp, l->device);
 		fprintf(o.fp, ",%s,", sch_lever_kind_name(l->kind));
-		csv_text(o.fp, l->change);
+		sch_report_csv_field(o.fp, l->change);
 		fputc(',', o.fp);
 		csv_num(o.fp, l->factor, ',');
 		csv_num(o.fp, l->old_value, ',');
@@ -303,7 +285,7 @@ enum sch_err sch_report_levers_csv(const struct sch_result *r, const struct sch_
 		csv_num(o.fp, l->input_rms_ratio, ',');
 		csv_num(o.fp, l->output_rms_v, ',');
 		csv_num(o.fp, l->snr_change_db, ',');
-		csv_text(o.fp, l->leader);
+		sch_report_csv_field(o.fp, l->leader);
 		fputc(',', o.fp);
 		csv_num(o.fp, l->leader_share, ',');
 		csv_num(o.fp, l->f_high_hz, ',');

@@ -5,6 +5,7 @@
 
 #include <cairo.h>
 #include <stddef.h>
+#include <stdio.h>
 #include "schrot/analysis.h"
 #include "schrot/buf.h"
 
@@ -71,5 +72,8 @@ void sch_report_show_text(cairo_t *cr, const char *s);
  */
 enum sch_err sch_report_figure(const char *path, double width, double height,
 			       enum sch_err (*draw_fn)(cairo_t *cr, const void *ctx), const void *ctx, struct sch_diag *d);
+
+/* Writes s (NULL: empty) as one CSV field, quoted when it holds a comma, quote or line break (RFC 4180). */
+void sch_report_csv_field(FILE *fp, const char *s);
 
 #endif
