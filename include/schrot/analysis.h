@@ -263,6 +263,13 @@ enum sch_err sch_analysis_batch(const char *path, const struct sch_run_options *
 				struct sch_result *res, struct sch_diag *d);
 
 /* Options with every default set (junction correction on, NaN band, one worker). Can't fail. */
+/*
+ * Splits an output expression "v(a)" or "V( a , b )" into its node names, lower case, into a and b
+ * (each of size bytes; b is "" without a reference). False, with a and b unspecified, when expr
+ * is not such a form or a node name holds anything but letters, digits and _ . # + - [ ].
+ */
+bool sch_analysis_output_nodes(const char *expr, char *a, char *b, size_t size);
+
 void sch_run_options_init(struct sch_run_options *opt);
 
 #endif

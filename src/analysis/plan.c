@@ -22,33 +22,40 @@ static bool node_is_safe(const char *s, size_t n)
 	return true;
 }
 
-/* Normalises "v(out)" / "V( out , ref )" into out (lower case); false when it is not such a form. */
-static bool normalise_output(const char *expr, char *out, size_t size)
+bool sch_analysis_output_nodes(const char *expr, char *a, char *b, size_t size)
 {
 	char tmp[512];
 	size_t n = 0;
-	char *comma, *a, *b = NULL;
+	char *comma;
 
-	for (const char *p = expr; *p && n + 1 < sizeof(tmp); p++) {
+	for (const char *p = expr; *p && n + 1 < sizeof(tmp); p++)
 		if (!isspace((unsigned char)*p))
 			tmp[n++] = (char)tolower((unsigned char)*p);
-	}
 	tmp[n] = '\0';
 	if (n < 4 || strncmp(tmp, "v(", 2) != 0 || tmp[n - 1] != ')')
 		return false;
 	tmp[n - 1] = '\0';
-	a = tmp + 2;
-	comma = strchr(a, ',');
-	if (comma) {
+	comma = strchr(tmp + 2, ',');
+	if (comma)
 		*comma = '\0';
-		b = comma + 1;
-	}
-	if (!node_is_safe(a, strlen(a)) || (b && !node_is_safe(b, strlen(b))))
+	if (!node_is_safe(tmp + 2, strlen(tmp + 2)) || (comma && !node_is_safe(comma + 1, strlen(comma + 1))))
 		return false;
-	if (b)
-		snprintf(out, size, "v(%s,%s)", a, b);
+	snprintf(a, size, "%s", tmp + 2);
+	snprintf(b, size, "%s", comma ? comma + 1 : "");
+	return true;
+}
+
+/* Normalises "v(out)" / "V( out , ref )" into out (lower case); false when it is not such a form. */
+static bool normalise_output(const char *expr, char *out, size_t size)
+{
+	char a[256], b[256];
+
+	if (!sch_analysis_output_nodes(expr, a, b, sizeof(a)))
+		return false;
+	if (b[0])
+		snprintf(out, size, "v(%.200s,%.200s)", a, b);
 	else
-		snprintf(out, size, "v(%s)", a);
+		snprintf(out, size, "v(%.200s)", a);
 	return true;
 }
 

@@ -219,22 +219,8 @@ static bool is_ground(const char *node)
 /* "v(out)" / "V( a , b )" into its node names (lower case); false for other forms or unsafe names. */
 static bool parse_output(const char *expr, char *a, char *b, size_t size)
 {
-	char tmp[512];
-	size_t n = 0;
-	char *comma;
-
-	for (const char *p = expr; *p && n + 1 < sizeof(tmp); p++)
-		if (!isspace((unsigned char)*p))
-			tmp[n++] = (char)tolower((unsigned char)*p);
-	tmp[n] = '\0';
-	if (n < 4 || strncmp(tmp, "v(", 2) != 0 || tmp[n - 1] != ')')
+	if (!sch_analysis_output_nodes(expr, a, b, size))
 		return false;
-	tmp[n - 1] = '\0';
-	comma = strchr(tmp + 2, ',');
-	if (comma)
-		*comma = '\0';
-	snprintf(a, size, "%.200s", tmp + 2);
-	snprintf(b, size, "%.200s", comma ? comma + 1 : "");
 	if (is_ground(b))
 		b[0] = '\0'; /* the simulator has no vector for ground */
 	return sch_sim_name_is_safe(a) && (!b[0] || sch_sim_name_is_safe(b));
