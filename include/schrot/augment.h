@@ -107,12 +107,14 @@ const char *sch_augment_table_as_value(struct sch_arena *arena, const char *text
  * ("x1.x2.k"), its resistor a literal value sized for 2q|I|G with the operating-point current at
  * temp_k (SCH_PROBE_OFF_OHMS for a zero current), then ".<noise_command>" and ".end". No .control
  * block: 'ngspice -b -r out.raw' runs the deck's analyses and writes the noise spectrum, and a
- * user's own .control block can go before the .end. Returns SCH_ERR_INPUT when an instance's node
+ * user's own .control block can go before the .end. compat_mode (NULL: none) is the simulator
+ * compatibility mode the deck was read in, written as a note for plain ngspice. Returns SCH_ERR_INPUT when an instance's node
  * cannot be named at the top level, SCH_ERR_IO (message in d) when a write fails; out may then
  * hold part of the deck.
  */
 enum sch_err sch_augment_write(const struct sch_augmented *aug, const struct sch_deck *deck,
 			       const struct sch_carrier_set *set, double temp_k, const char *noise_command,
+			       const char *compat_mode,
 			       struct sch_arena *arena, FILE *out, struct sch_diag *d);
 
 #endif

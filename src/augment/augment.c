@@ -427,12 +427,16 @@ static enum sch_err write_generator(const struct sch_deck *deck, const struct sc
 
 enum sch_err sch_augment_write(const struct sch_augmented *aug, const struct sch_deck *deck,
 			       const struct sch_carrier_set *set, double temp_k, const char *noise_command,
-			       struct sch_arena *arena, FILE *out, struct sch_diag *d)
+			       const char *compat_mode, struct sch_arena *arena, FILE *out, struct sch_diag *d)
 {
 	enum sch_err ret;
 
 	for (size_t k = 0; k + 1 < aug->n_lines; k++)
 		fprintf(out, "%s\n", aug->lines[k]);
+	if (compat_mode)
+		fprintf(out, "* schrot: read in the simulator's compatibility mode '%s'; plain ngspice needs\n"
+			     "* 'set ngbehavior=%s' in a .spiceinit beside this deck to read it the same way\n",
+			compat_mode, compat_mode);
 	fprintf(out, "* schrot: one generator per carrier instance, a resistor of R = S/(4kT) alone on its own\n"
 		     "* node whose thermal noise a unity VCCS puts across the carrier: S = 2q|I|G with its\n"
 		     "* operating-point current (q = %.10g C exact; the simulator's k = %.9g J/K, T = %.6f K)\n",

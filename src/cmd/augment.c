@@ -56,7 +56,8 @@ static enum sch_err augment(const struct sch_cli *cli, struct sch_result *res, s
 		goto out;
 	if ((ret = sch_outfile_open(&of, cli->out_path, d)) != SCH_OK)
 		goto out;
-	if ((ret = sch_augment_write(&aug, &res->deck, &res->set, res->temp_k, noise_command, &res->arena, of.fp, d)) != SCH_OK)
+	if ((ret = sch_augment_write(&aug, &res->deck, &res->set, res->temp_k, noise_command, res->compat_mode,
+				     &res->arena, of.fp, d)) != SCH_OK)
 		goto out;
 	ret = sch_outfile_commit(&of, d);
 out:
